@@ -1,0 +1,152 @@
+// The elaborated circuit: flat nets and devices with hierarchical names, each mapped back to the
+// line that defined it. This is the interface every later stage reads; nothing later looks at
+// syntax trees.
+
+import type { Range } from '../core/source';
+import type { DirectiveSet } from './directives';
+import type { ModelCard } from './models';
+
+/** Where an element or net was written: shared by every instance of that line. */
+export interface Origin {
+  file: string;
+  range: Range;
+  /** The defining subcircuit (lower case), or null at the top level. */
+  subckt: string | null;
+  /** The name as written inside that definition (lower case). */
+  local: string;
+}
+
+export type NetKind = 'signal' | 'supply' | 'ground';
+
+export interface Net {
+  id: number;
+  /** Flat hierarchical name, lower case, '.' between levels. */
+  name: string;
+  kind: NetKind;
+  global: boolean;
+  origin: Origin;
+}
+
+export type Polarity = 'n' | 'p';
+
+export interface Mosfet {
+  name: string;
+  polarity: Polarity;
+  d: number;
+  g: number;
+  s: number;
+  b: number;
+  /** Drawn width and length in metres (per finger width is wM / nf). */
+  wM: number;
+  lM: number;
+  /** Parallel multiplier (M, or CDL mult when M is absent). */
+  m: number;
+  nf: number;
+  adM2?: number;
+  asM2?: number;
+  pdM?: number;
+  psM?: number;
+  /** Model name as written (lower case) and the card chosen for this W and L, if any. */
+  model: string;
+  card: ModelCard | undefined;
+  origin: Origin;
+}
+
+export interface TwoTerminal {
+  name: string;
+  a: number;
+  b: number;
+  origin: Origin;
+}
+
+export interface Capacitor extends TwoTerminal {
+  capacitanceF: number | undefined;
+}
+
+export interface Resistor extends TwoTerminal {
+  /** 0 for a short (tie) element. */
+  resistanceOhm: number | undefined;
+}
+
+export type Waveform =
+  | { kind: 'dc'; volts: number | undefined }
+  | { kind: 'pulse'; v1: number; v2: number; delayS: number; riseS: number; fallS: number; widthS: number; periodS: number }
+  | { kind: 'pwl'; points: Array<[number, number]> }
+  | { kind: 'sin'; offset: number; amplitude: number; freqHz: number; delayS: number }
+  | { kind: 'other'; name: string };
+
+export interface Source {
+  name: string;
+  letter: 'v' | 'i';
+  p: number;
+  n: number;
+  waveform: Waveform;
+  origin: Origin;
+}
+
+export interface Diode extends TwoTerminal {
+  model: string;
+}
+
+/** An element kept only for its connectivity (it conducts nothing in the analysis). */
+export interface OtherElement {
+  name: string;
+  letter: string;
+  nets: number[];
+  origin: Origin;
+}
+
+export interface Instance {
+  name: string;
+  subckt: string;
+  origin: Origin;
+}
+
+export type PortDirection = 'input' | 'output' | 'inout' | 'supply' | 'ground';
+
+export interface Port {
+  net: number;
+  name: string;
+  direction: PortDirection;
+  /** How the direction was found. */
+  from: 'pininfo' | 'directive' | 'inferred' | 'rail';
+}
+
+export interface Supply {
+  net: number;
+  /** Null when only the name says it is a supply and no voltage is known. */
+  volts: number | null;
+  from: 'source' | 'directive' | 'setting' | 'name';
+}
+
+export interface Circuit {
+  /** The standalone subcircuit's name, or '(top)' for a deck with top-level elements. */
+  name: string;
+  standalone: boolean;
+  nets: Net[];
+  netByName: Map<string, number>;
+  mosfets: Mosfet[];
+  capacitors: Capacitor[];
+  resistors: Resistor[];
+  inductors: TwoTerminal[];
+  sources: Source[];
+  diodes: Diode[];
+  others: OtherElement[];
+  instances: Instance[];
+  ports: Port[];
+  supplies: Supply[];
+  grounds: number[];
+  /** Nets declared as inputs (directive) or by CDL pin direction. */
+  inputs: number[];
+  outputs: number[];
+}
+
+export interface Design {
+  title: string | undefined;
+  circuits: Circuit[];
+  directives: DirectiveSet;
+  /** Metres per written unit of W and L that was applied, and why. */
+  geometryScale: { value: number; from: 'option' | 'directive' | 'setting' | 'assumed' | 'default' };
+  tempC: number | undefined;
+  files: string[];
+}

@@ -1,0 +1,825 @@
+// Elaboration: subcircuit definitions and instances become one flat circuit (or, for a cell
+// library with no top-level instances, one circuit per subcircuit with its ports as boundary
+// nets). Each definition is compiled once into a template (its local nets and elements); each
+// distinct set of parameter values is evaluated once, so a cell instantiated 10,000 times costs
+// one evaluation and 10,000 cheap copies.
+
+import type { Diagnostic } from '../core/diagnostics';
+import { diag } from '../core/diagnostics';
+import type { Range } from '../core/source';
+import { DEFAULT_GROUND_PATTERN, DEFAULT_SUPPLY_PATTERN, type EngineOptions } from '../core/options';
+import type { AssignItem, Statement, ValueItem, WordItem } from '../syntax/tree';
+import type { Circuit, Design, Mosfet, Net, NetKind, Origin, Polarity, Port, PortDirection, Waveform } from './circuit';
+import type { Deck, Located, SubcktDefinition } from './deck';
+import { emptyDirectives, readDirectives, type DeviceKind, type DirectiveSet } from './directives';
+import { interpretElement, MODELLED_LETTERS, splitItems, type ElementSyntax } from './elements';
+import { modelKindOf, mosFamilyOf, selectModel, splitBinName, type ModelCard } from './models';
+import { evaluateValue, ParamScope } from './params';
+import { parseSpiceNumber } from './numbers';
+
+const GROUND_ALIASES = new Set(['0', 'gnd', 'gnd!']);
+
+const DEFAULT_DEVICE_RULES: { re: RegExp; kind: DeviceKind }[] = [
+  { re: /^short$/, kind: 'short' },
+  { re: /nfet|nmos|^nch|_nch|^n(lvt|hvt|svt|ulvt)\b/, kind: 'nmos' },
+  { re: /pfet|pmos|^pch|_pch|^p(lvt|hvt|svt|ulvt)\b/, kind: 'pmos' },
+  { re: /diode/, kind: 'diode' },
+];
+
+function globToRegExp(glob: string): RegExp {
+  return new RegExp('^' + glob.replace(/[.+^${}()|[\]\\]/g, '\\$&').replace(/\*/g, '.*').replace(/\?/g, '.') + '$', 'i');
+}
+
+/** A compiled subcircuit body: local nets (ports first) and its elements with local net indices. */
+interface Template {
+  def: SubcktDefinition | undefined;
+  localNames: string[];
+  localOrigins: Origin[];
+  globalNames: string[];
+  elements: TemplateElement[];
+  params: Located<Statement>[];
+  /** Evaluated values by parameter key. */
+  valueCache: Map<string, ElementValues[]>;
+}
+
+interface TemplateElement {
+  syntax: ElementSyntax;
+  /** >= 0: local net index; < 0: -(k+1) indexes globalNames. */
+  nodes: number[];
+  origin: Origin;
+  file: string;
+}
+
+type ElementValues =
+  | { kind: 'mos'; polarity: Polarity | undefined; wM: number; lM: number; m: number; nf: number; adM2?: number; asM2?: number; pdM?: number; psM?: number; model: string; card: ModelCard | undefined }
+  | { kind: 'value'; value: number | undefined }
+  | { kind: 'wave'; waveform: Waveform }
+  | { kind: 'instance'; target: SubcktDefinition; scope: ParamScope; key: string }
+  | { kind: 'none' };
+
+export interface ElaborateResult {
+  design: Design;
+  diagnostics: Diagnostic[];
+}
+
+export function elaborate(deck: Deck, options: EngineOptions = {}): ElaborateResult {
+  return new Elaborator(deck, options).run();
+}
+
+class Elaborator {
+  private readonly diagnostics: Diagnostic[] = [];
+  private readonly seen = new Set<string>();
+  private readonly globalScope = new ParamScope(undefined);
+  private readonly models = new Map<string, ModelCard[]>();
+  private readonly templates = new Map<SubcktDefinition | undefined, Template>();
+  private readonly globals = new Set<string>(['0']);
+  private readonly directives: DirectiveSet = emptyDirectives();
+  private readonly deviceRules: { re: RegExp; kind: DeviceKind }[] = [];
+  private scale = 1;
+  private scaleFrom: Design['geometryScale']['from'] = 'default';
+  private tempC: number | undefined;
+  private defL = 100e-6;
+  private defW = 100e-6;
+  /** Model names used without a card: first use and count, reported once each. */
+  private readonly missingModels = new Map<string, { origin: Origin; count: number; polarity: Polarity | undefined }>();
+  private readonly supplyRe: RegExp;
+  private readonly groundRe: RegExp;
+
+  constructor(
+    private readonly deck: Deck,
+    private readonly options: EngineOptions,
+  ) {
+    this.supplyRe = new RegExp(options.supplyNamePattern ?? DEFAULT_SUPPLY_PATTERN, 'i');
+    this.groundRe = new RegExp(options.groundNamePattern ?? DEFAULT_GROUND_PATTERN, 'i');
+  }
+
+  private report(d: Diagnostic): void {
+    const key = `${d.rule}|${d.file}|${d.range.start.line}:${d.range.start.character}|${d.message}`;
+    if (this.seen.has(key)) return;
+    this.seen.add(key);
+    this.diagnostics.push(d);
+  }
+
+  private paramReport = (file: string, range: Range, message: string): void => {
+    this.report(diag('param-error', file, range, message));
+  };
+
+  run(): ElaborateResult {
+    const deck = this.deck;
+    // Directives anywhere in the deck apply to the whole design.
+    const allDirectives = [...deck.directives];
+    const collect = (defs: Map<string, SubcktDefinition>) => {
+      for (const d of defs.values()) {
+        allDirectives.push(...d.directives);
+        collect(d.local);
+      }
+    };
+    collect(deck.subckts);
+    readDirectives(allDirectives, this.directives, this.diagnostics);
+    for (const r of this.directives.devices) this.deviceRules.push({ re: globToRegExp(r.pattern), kind: r.kind });
+    for (const r of this.options.deviceRules ?? []) this.deviceRules.push({ re: globToRegExp(r.pattern), kind: r.kind });
+    this.deviceRules.push(...DEFAULT_DEVICE_RULES);
+
+    for (const g of deck.globals) this.globals.add(g.item.text.toLowerCase());
+
+    // Top-level cards: parameters, options, temperature, models (models anywhere are global).
+    for (const { file, item } of deck.top) this.topCard(file, item);
+    const modelStatements = (defs: Map<string, SubcktDefinition>) => {
+      for (const d of defs.values()) {
+        for (const { file, item } of d.body) if (item.head.text.toLowerCase() === '.model') this.modelCard(file, item);
+        modelStatements(d.local);
+      }
+    };
+    modelStatements(deck.subckts);
+    this.chooseScale();
+
+    const circuits: Circuit[] = [];
+    const topHasDevices = deck.top.some((s) => {
+      const c = s.item.head.text[0]!.toLowerCase();
+      return c !== '.' && c !== 'v' && c !== 'i';
+    });
+    if (this.options.top) {
+      const def = deck.subckts.get(this.options.top.toLowerCase());
+      if (!def) {
+        const f = deck.files[0];
+        this.report(diag('unknown-subckt', f?.file ?? '', { start: { line: 0, character: 0 }, end: { line: 0, character: 0 } }, `--top names '${this.options.top}', which the netlist does not define`));
+      } else circuits.push(this.elaborateStandalone(def));
+    } else if (topHasDevices || deck.subckts.size === 0) {
+      circuits.push(this.elaborateTop());
+    } else {
+      for (const def of deck.subckts.values()) circuits.push(this.elaborateStandalone(def));
+    }
+    this.reportMissingModels();
+    this.checkPlausibleGeometry(circuits);
+    const design: Design = {
+      title: deck.title,
+      circuits,
+      directives: this.directives,
+      geometryScale: { value: this.scale, from: this.scaleFrom },
+      tempC: this.tempC,
+      files: deck.files.map((f) => f.file),
+    };
+    return { design, diagnostics: this.diagnostics };
+  }
+
+  // ---- cards -----------------------------------------------------------------------------
+
+  private topCard(file: string, stmt: Statement): void {
+    const head = stmt.head.text.toLowerCase();
+    const { positional, params } = splitItems(stmt.items);
+    switch (head) {
+      case '.param':
+      case '.params':
+      case '.parameter':
+      case '.parameters':
+        for (const p of params) {
+          if (p.value) this.globalScope.define(p.name.text, p.value, file);
+          else this.report(diag('syntax', file, p.range, `parameter '${p.name.text}' has no value`));
+        }
+        return;
+      case '.model':
+        this.modelCard(file, stmt);
+        return;
+      case '.option':
+      case '.options':
+      case '.opt':
+        for (const p of params) {
+          const key = p.name.text.toLowerCase();
+          if (!p.value) continue;
+          if (key === 'scale' || key === 'defl' || key === 'defw') {
+            const v = evaluateValue(p.value, file, this.globalScope, this.paramReport);
+            if (v === undefined) continue;
+            if (key === 'scale') {
+              this.scale = v;
+              this.scaleFrom = 'option';
+            } else if (key === 'defl') this.defL = v;
+            else this.defW = v;
+          }
+        }
+        return;
+      case '.temp': {
+        const v = positional[0] ? evaluateValue(positional[0], file, this.globalScope, this.paramReport) : undefined;
+        if (v !== undefined) this.tempC = v;
+        return;
+      }
+      default:
+        if (head.startsWith('.')) this.otherCard(file, stmt);
+    }
+  }
+
+  private otherCard(file: string, stmt: Statement): void {
+    const head = stmt.head.text.toLowerCase();
+    const known = /^\.(tran|dc|ac|op|noise|tf|sens|pz|disto|four|meas|measure|print|plot|save|probe|ic|nodeset|width|title|csparam|func|data|endl|lib|include|inc|global|end)$/;
+    if (!known.test(head)) this.report(diag('unknown-card', file, stmt.head.range, `'${stmt.head.text}' is not used by the analysis`));
+  }
+
+  private modelCard(file: string, stmt: Statement): void {
+    const { positional, params } = splitItems(stmt.items);
+    const nameItem = positional[0];
+    const typeItem = positional[1];
+    if (nameItem?.kind !== 'word' || typeItem?.kind !== 'word') {
+      this.report(diag('syntax', file, stmt.range, '.model needs a name and a type, e.g. `.model nch nmos level=54 ...`'));
+      return;
+    }
+    // Parameters may sit inside parentheses after the type.
+    const all: AssignItem[] = [...params];
+    for (const p of positional.slice(2)) if (p.kind === 'group') for (const g of p.items) if (g.kind === 'assign') all.push(g);
+    const numeric: Record<string, number> = {};
+    const text: Record<string, string> = {};
+    for (const a of all) {
+      if (!a.value) continue;
+      const k = a.name.text.toLowerCase();
+      if (a.value.kind === 'word' && parseSpiceNumber(a.value.text) === undefined && !this.globalScope.has(a.value.text.toLowerCase())) {
+        text[k] = a.value.text;
+        continue;
+      }
+      const v = evaluateValue(a.value, file, this.globalScope, this.paramReport);
+      if (v !== undefined) numeric[k] = v;
+    }
+    const name = nameItem.text.toLowerCase();
+    const type = typeItem.text.toLowerCase();
+    const kind = modelKindOf(type);
+    const level = numeric['level'] ?? 1;
+    const { baseName } = splitBinName(name);
+    const card: ModelCard = {
+      name,
+      baseName,
+      kind,
+      type,
+      level,
+      family: kind === 'nmos' || kind === 'pmos' ? mosFamilyOf(level) : undefined,
+      params: numeric,
+      textParams: text,
+      file,
+      range: stmt.range,
+    };
+    const list = this.models.get(baseName) ?? [];
+    const dup = list.find((c) => c.name === name);
+    if (dup) {
+      this.report(diag('duplicate-definition', file, nameItem.range, `model '${nameItem.text}' is already defined at ${dup.file}:${dup.range.start.line + 1}; this card is ignored`));
+      return;
+    }
+    list.push(card);
+    this.models.set(baseName, list);
+    if (name !== baseName && !this.models.has(name)) this.models.set(name, [card]);
+  }
+
+  private chooseScale(): void {
+    if (this.scaleFrom === 'option') return;
+    if (this.directives.scale) {
+      this.scale = this.directives.scale.value;
+      this.scaleFrom = 'directive';
+      return;
+    }
+    if (this.options.geometryScale !== undefined) {
+      this.scale = this.options.geometryScale;
+      this.scaleFrom = 'setting';
+      return;
+    }
+    // No scale stated: look at the lengths written as plain numbers. Channel lengths in metres
+    // are far below a millimetre; written in microns they are 0.01 or more.
+    const lengths: number[] = [];
+    let first: { file: string; range: Range } | undefined;
+    const scan = (file: string, stmt: Statement) => {
+      const c = stmt.head.text[0]!.toLowerCase();
+      if (c !== 'm' && c !== 'x') return;
+      for (const it of stmt.items) {
+        if (it.kind === 'assign' && it.name.text.toLowerCase() === 'l' && it.value?.kind === 'word') {
+          const v = parseSpiceNumber(it.value.text);
+          if (v !== undefined) {
+            lengths.push(v);
+            if (v > 1e-3 && !first) first = { file, range: it.range };
+          }
+        }
+      }
+    };
+    for (const s of this.deck.top) scan(s.file, s.item);
+    const walk = (defs: Map<string, SubcktDefinition>) => {
+      for (const d of defs.values()) {
+        for (const s of d.body) scan(s.file, s.item);
+        walk(d.local);
+      }
+    };
+    walk(this.deck.subckts);
+    if (lengths.length === 0) return;
+    lengths.sort((a, b) => a - b);
+    const median = lengths[lengths.length >> 1]!;
+    if (median > 1e-3 && first) {
+      this.scale = 1e-6;
+      this.scaleFrom = 'assumed';
+      this.report(
+        diag('geometry-scale', first.file, first.range, `W and L look like microns (median L = ${median}); assumed scale = 1e-6 (1 unit = 1 um). State it with \`.option scale=1e-6\` or \`* tidemark: scale 1u\``),
+      );
+    }
+  }
+
+  private checkPlausibleGeometry(circuits: Circuit[]): void {
+    for (const c of circuits) {
+      for (const m of c.mosfets) {
+        if (m.lM > 1e-3 || m.wM > 1e-1) {
+          this.report(
+            diag('geometry-scale', m.origin.file, m.origin.range, `${m.name}: W = ${m.wM} m, L = ${m.lM} m are implausible with scale ${this.scale} (${this.scaleFrom}); is the geometry in microns?`),
+          );
+          return;
+        }
+      }
+    }
+  }
+
+  private reportMissingModels(): void {
+    for (const [name, info] of this.missingModels) {
+      const pol = info.polarity ? `treated as ${info.polarity}-channel by its name` : 'polarity unknown, so the devices are left out';
+      this.report(
+        diag('unknown-model', info.origin.file, info.origin.range, `no .model card for '${name}' (${info.count} device${info.count === 1 ? '' : 's'}); ${pol}; electrical estimates will use the fallback profile`, info.polarity ? 'warning' : 'error'),
+      );
+    }
+  }
+
+  // ---- templates ---------------------------------------------------------------------------
+
+  private template(def: SubcktDefinition | undefined): Template {
+    let t = this.templates.get(def);
+    if (t) return t;
+    const localNames: string[] = [];
+    const localOrigins: Origin[] = [];
+    const index = new Map<string, number>();
+    const globalNames: string[] = [];
+    const globalIndex = new Map<string, number>();
+    const subckt = def ? def.name : null;
+    const netRef = (w: WordItem, file: string): number => {
+      let name = w.text.toLowerCase();
+      const port = index.get(name);
+      if (port !== undefined) return port;
+      if (GROUND_ALIASES.has(name)) name = '0';
+      if (this.globals.has(name) || name.endsWith('!')) {
+        let g = globalIndex.get(name);
+        if (g === undefined) {
+          g = globalNames.length;
+          globalNames.push(name);
+          globalIndex.set(name, g);
+        }
+        return -(g + 1);
+      }
+      let i = index.get(name);
+      if (i === undefined) {
+        i = localNames.length;
+        localNames.push(name);
+        localOrigins.push({ file, range: w.range, subckt, local: name });
+        index.set(name, i);
+      }
+      return i;
+    };
+    if (def) {
+      const seenPorts = new Set<string>();
+      def.portItems.forEach((p) => {
+        const name = p.text.toLowerCase();
+        if (seenPorts.has(name)) this.report(diag('syntax', def.file, p.range, `port '${p.text}' is listed twice`));
+        seenPorts.add(name);
+        // Ports always get local slots, even when named like a global, so binding stays positional.
+        const i = localNames.length;
+        localNames.push(name);
+        localOrigins.push({ file: def.file, range: p.range, subckt, local: name });
+        if (!index.has(name)) index.set(name, i);
+      });
+    }
+    const elements: TemplateElement[] = [];
+    const params: Located<Statement>[] = [];
+    const body = def ? def.body : this.deck.top;
+    for (const { file, item } of body) {
+      const head = item.head.text.toLowerCase();
+      if (head.startsWith('.')) {
+        if (def) {
+          if (head === '.param' || head === '.params' || head === '.parameter' || head === '.parameters') params.push({ file, item });
+          else if (head !== '.model') this.otherCard(file, item);
+        }
+        continue;
+      }
+      const letter = head[0]!;
+      if (!/[a-z]/.test(letter)) {
+        this.report(diag('syntax', file, item.head.range, `'${item.head.text}' is not an element name: elements start with a letter`));
+        continue;
+      }
+      const syntax = interpretElement(item);
+      if (!syntax) continue;
+      if (!MODELLED_LETTERS.has(letter)) {
+        this.report(diag('unknown-element', file, item.head.range, `${item.head.text}: '${letter.toUpperCase()}' elements are not modelled; kept as connectivity only`));
+      }
+      const nodeItems = 'nodes' in syntax ? syntax.nodes : [];
+      const need = syntax.kind === 'mos' ? 4 : syntax.kind === 'passive' || syntax.kind === 'source' || syntax.kind === 'diode' ? 2 : 0;
+      if (nodeItems.length < need || (syntax.kind === 'mos' && !syntax.model)) {
+        this.report(diag('syntax', file, item.range, `${item.head.text} needs ${need} nodes${syntax.kind === 'mos' ? ' (drain gate source bulk) and a model' : ''}`));
+        continue;
+      }
+      if (syntax.kind === 'instance' && !syntax.subckt) {
+        this.report(diag('syntax', file, item.range, `${item.head.text} needs nodes and a subcircuit name`));
+        continue;
+      }
+      const nodes = nodeItems.map((w) => netRef(w, file));
+      elements.push({ syntax, nodes, origin: { file, range: item.range, subckt, local: item.head.text.toLowerCase() }, file });
+    }
+    t = { def, localNames, localOrigins, globalNames, elements, params, valueCache: new Map() };
+    this.templates.set(def, t);
+    return t;
+  }
+
+  private findSubckt(name: string, within: SubcktDefinition[]): SubcktDefinition | undefined {
+    for (let i = within.length - 1; i >= 0; i--) {
+      const d = within[i]!.local.get(name);
+      if (d) return d;
+    }
+    return this.deck.subckts.get(name);
+  }
+
+  private deviceKindOf(name: string): DeviceKind | undefined {
+    for (const r of this.deviceRules) if (r.re.test(name)) return r.kind;
+    return undefined;
+  }
+
+  /** Element values for one template under one parameter scope (cached by the scope's key). */
+  private values(t: Template, scope: ParamScope, key: string, defStack: SubcktDefinition[]): ElementValues[] {
+    const hit = t.valueCache.get(key);
+    if (hit) return hit;
+    const out: ElementValues[] = [];
+    for (const el of t.elements) out.push(this.elementValues(el, scope, defStack));
+    t.valueCache.set(key, out);
+    return out;
+  }
+
+  private num(item: ValueItem | undefined, file: string, scope: ParamScope): number | undefined {
+    return item ? evaluateValue(item, file, scope, this.paramReport) : undefined;
+  }
+
+  private paramMap(params: AssignItem[]): Map<string, AssignItem> {
+    const m = new Map<string, AssignItem>();
+    for (const p of params) m.set(p.name.text.toLowerCase(), p);
+    return m;
+  }
+
+  private mosValues(el: TemplateElement, model: string, params: AssignItem[], scope: ParamScope, polarityHint: Polarity | undefined): ElementValues {
+    const p = this.paramMap(params);
+    const get = (k: string) => this.num(p.get(k)?.value, el.file, scope);
+    const s = this.scale;
+    const wRaw = get('w');
+    const lRaw = get('l');
+    const wM = wRaw !== undefined ? wRaw * s : this.defW;
+    const lM = lRaw !== undefined ? lRaw * s : this.defL;
+    const mult = get('m') ?? get('mult') ?? 1;
+    const nf = get('nf') ?? 1;
+    const area = (k: string) => {
+      const v = get(k);
+      return v === undefined ? undefined : v * s * s;
+    };
+    const len = (k: string) => {
+      const v = get(k);
+      return v === undefined ? undefined : v * s;
+    };
+    const card = selectModel(this.models, model, lM, wM);
+    let polarity: Polarity | undefined = card?.kind === 'nmos' ? 'n' : card?.kind === 'pmos' ? 'p' : polarityHint;
+    if (!card) {
+      if (!polarity) {
+        const k = this.deviceKindOf(model);
+        polarity = k === 'nmos' ? 'n' : k === 'pmos' ? 'p' : undefined;
+      }
+      // counted per flat device in instantiate()
+      if (!this.missingModels.has(model)) this.missingModels.set(model, { origin: el.origin, count: 0, polarity });
+    }
+    return { kind: 'mos', polarity, wM, lM, m: mult, nf, adM2: area('ad'), asM2: area('as'), pdM: len('pd'), psM: len('ps'), model, card };
+  }
+
+  private elementValues(el: TemplateElement, scope: ParamScope, defStack: SubcktDefinition[]): ElementValues {
+    const s = el.syntax;
+    switch (s.kind) {
+      case 'mos':
+        return this.mosValues(el, s.model!.text.toLowerCase(), s.params, scope, undefined);
+      case 'passive': {
+        let value = this.num(s.value, el.file, scope);
+        if (s.letter === 'r' && value === undefined && s.model && this.deviceKindOf(s.model.text.toLowerCase()) === 'short') value = 0;
+        if (value === undefined && !s.value && !s.model) this.report(diag('syntax', el.file, s.name.range, `${s.name.text} has no value`));
+        return { kind: 'value', value };
+      }
+      case 'source':
+        return { kind: 'wave', waveform: this.waveform(s, el.file, scope) };
+      case 'instance': {
+        const name = s.subckt!.text.toLowerCase();
+        const target = this.findSubckt(name, defStack);
+        if (!target) {
+          const k = this.deviceKindOf(name);
+          if (k === 'nmos' || k === 'pmos') {
+            if (el.nodes.length !== 4) {
+              this.report(diag('pin-count', el.file, s.name.range, `${s.name.text}: device '${s.subckt!.text}' is a MOSFET by the device rule and needs 4 nodes (d g s b), not ${el.nodes.length}`));
+              return { kind: 'none' };
+            }
+            return this.mosValues(el, name, s.params, scope, k === 'nmos' ? 'n' : 'p');
+          }
+          if (k === 'short' || k === 'resistor' || k === 'capacitor' || k === 'diode') return { kind: 'value', value: k === 'short' ? 0 : undefined };
+          this.report(diag('unknown-subckt', el.file, s.subckt!.range, `subcircuit '${s.subckt!.text}' is not defined, and no device rule maps it to a transistor`));
+          return { kind: 'none' };
+        }
+        if (defStack.includes(target)) {
+          this.report(diag('recursive-subckt', el.file, s.subckt!.range, `'${target.name}' instantiates itself (${[...defStack.map((d) => d.name), target.name].join(' -> ')}); not expanded`));
+          return { kind: 'none' };
+        }
+        if (target.ports.length !== el.nodes.length) {
+          this.report(
+            diag('pin-count', el.file, s.name.range, `${s.name.text} connects ${el.nodes.length} net${el.nodes.length === 1 ? '' : 's'}, but '${target.name}' has ${target.ports.length} port${target.ports.length === 1 ? '' : 's'} (${target.ports.join(' ')})`),
+          );
+          return { kind: 'none' };
+        }
+        const child = new ParamScope(this.globalScope);
+        for (const d of target.defaults) child.define(d.name, d.value, d.file);
+        const declared = new Set(target.defaults.map((d) => d.name));
+        for (const p of s.params) {
+          const k = p.name.text.toLowerCase();
+          if (!p.value) continue;
+          if (!declared.has(k) && k !== 'm') {
+            this.report(diag('param-error', el.file, p.name.range, `'${target.name}' has no parameter '${p.name.text}'`, 'warning'));
+            continue;
+          }
+          child.define(k, p.value, el.file, scope);
+        }
+        const t = this.template(target);
+        for (const ps of t.params) for (const a of ps.item.items) if (a.kind === 'assign' && a.value) child.define(a.name.text, a.value, ps.file);
+        const vals = target.defaults.map((d) => {
+          const v = evaluateValue({ kind: 'word', text: d.name, range: d.range }, d.file, child, () => undefined);
+          return v === undefined ? 'x' : String(v);
+        });
+        return { kind: 'instance', target, scope: child, key: vals.join(',') };
+      }
+      default:
+        return { kind: 'none' };
+    }
+  }
+
+  private waveform(s: Extract<ElementSyntax, { kind: 'source' }>, file: string, scope: ParamScope): Waveform {
+    const w = s.waveform;
+    if (w.kind === 'dc') return { kind: 'dc', volts: w.value ? this.num(w.value, file, scope) : 0 };
+    const a = w.args.map((x) => this.num(x, file, scope));
+    const at = (i: number, dflt: number) => a[i] ?? dflt;
+    switch (w.kind) {
+      case 'pulse':
+        return { kind: 'pulse', v1: at(0, 0), v2: at(1, 0), delayS: at(2, 0), riseS: at(3, 0), fallS: at(4, 0), widthS: at(5, Infinity), periodS: at(6, Infinity) };
+      case 'pwl': {
+        const points: Array<[number, number]> = [];
+        for (let i = 0; i + 1 < a.length; i += 2) points.push([a[i] ?? 0, a[i + 1] ?? 0]);
+        return { kind: 'pwl', points };
+      }
+      case 'sin':
+        return { kind: 'sin', offset: at(0, 0), amplitude: at(1, 0), freqHz: at(2, 0), delayS: at(3, 0) };
+      default:
+        return { kind: 'other', name: w.kind };
+    }
+  }
+
+  // ---- flattening --------------------------------------------------------------------------
+
+  private newCircuit(name: string, standalone: boolean): Circuit {
+    return {
+      name,
+      standalone,
+      nets: [],
+      netByName: new Map(),
+      mosfets: [],
+      capacitors: [],
+      resistors: [],
+      inductors: [],
+      sources: [],
+      diodes: [],
+      others: [],
+      instances: [],
+      ports: [],
+      supplies: [],
+      grounds: [],
+      inputs: [],
+      outputs: [],
+    };
+  }
+
+  private addNet(c: Circuit, name: string, origin: Origin, global: boolean): number {
+    const existing = c.netByName.get(name);
+    if (existing !== undefined) return existing;
+    const id = c.nets.length;
+    const net: Net = { id, name, kind: 'signal', global, origin };
+    c.nets.push(net);
+    c.netByName.set(name, id);
+    return id;
+  }
+
+  private globalNet(c: Circuit, name: string, origin: Origin): number {
+    return this.addNet(c, name, { ...origin, local: name }, true);
+  }
+
+  private elaborateTop(): Circuit {
+    const c = this.newCircuit('(top)', false);
+    const t = this.template(undefined);
+    const netMap = t.localNames.map((n, i) => this.addNet(c, n, t.localOrigins[i]!, false));
+    this.instantiate(c, t, netMap, '', this.globalScope, 'top', []);
+    this.assignRails(c, c.nets.filter((n) => !n.name.includes('.')).map((n) => n.id));
+    return c;
+  }
+
+  private elaborateStandalone(def: SubcktDefinition): Circuit {
+    const c = this.newCircuit(def.name, true);
+    const t = this.template(def);
+    const scope = new ParamScope(this.globalScope);
+    for (const d of def.defaults) scope.define(d.name, d.value, d.file);
+    for (const ps of t.params) for (const a of ps.item.items) if (a.kind === 'assign' && a.value) scope.define(a.name.text, a.value, ps.file);
+    const netMap = t.localNames.map((n, i) => this.addNet(c, n, t.localOrigins[i]!, false));
+    const key = def.defaults
+      .map((d) => {
+        const v = evaluateValue({ kind: 'word', text: d.name, range: d.range }, d.file, scope, () => undefined);
+        return v === undefined ? 'x' : String(v);
+      })
+      .join(',');
+    this.instantiate(c, t, netMap, '', scope, key, [def]);
+    const portNets = def.ports.map((_, i) => netMap[i]!);
+    this.assignRails(c, [...portNets, ...c.nets.filter((n) => n.global).map((n) => n.id)]);
+    this.assignPorts(c, def, portNets);
+    return c;
+  }
+
+  /** Copies a template into the circuit with its nets bound by `netMap` (local index -> flat id). */
+  private instantiate(c: Circuit, t: Template, netMap: number[], prefix: string, scope: ParamScope, key: string, defStack: SubcktDefinition[]): void {
+    // Internal nets: the first ports.length slots are bound by the caller.
+    const bound = netMap.length;
+    for (let i = bound; i < t.localNames.length; i++) {
+      netMap.push(this.addNet(c, prefix + t.localNames[i]!, t.localOrigins[i]!, false));
+    }
+    const globalIds = t.globalNames.map((g) => this.globalNet(c, g, t.localOrigins[0] ?? t.elements[0]?.origin ?? { file: '', range: { start: { line: 0, character: 0 }, end: { line: 0, character: 0 } }, subckt: null, local: g }));
+    const net = (k: number) => (k >= 0 ? netMap[k]! : globalIds[-k - 1]!);
+    const vals = this.values(t, scope, key, defStack);
+    for (let i = 0; i < t.elements.length; i++) {
+      const el = t.elements[i]!;
+      const v = vals[i]!;
+      const name = prefix + el.origin.local;
+      const s = el.syntax;
+      switch (v.kind) {
+        case 'mos': {
+          if (!v.card) this.missingModels.get(v.model)!.count++;
+          if (!v.polarity) break;
+          const mos: Mosfet = {
+            name,
+            polarity: v.polarity,
+            d: net(el.nodes[0]!),
+            g: net(el.nodes[1]!),
+            s: net(el.nodes[2]!),
+            b: net(el.nodes[3]!),
+            wM: v.wM,
+            lM: v.lM,
+            m: v.m,
+            nf: v.nf,
+            model: v.model,
+            card: v.card,
+            origin: el.origin,
+          };
+          if (v.adM2 !== undefined) mos.adM2 = v.adM2;
+          if (v.asM2 !== undefined) mos.asM2 = v.asM2;
+          if (v.pdM !== undefined) mos.pdM = v.pdM;
+          if (v.psM !== undefined) mos.psM = v.psM;
+          c.mosfets.push(mos);
+          break;
+        }
+        case 'value': {
+          const a = net(el.nodes[0]!);
+          const b = net(el.nodes[1] ?? el.nodes[0]!);
+          if (s.kind === 'passive' && s.letter === 'c') c.capacitors.push({ name, a, b, capacitanceF: v.value, origin: el.origin });
+          else if (s.kind === 'passive' && s.letter === 'l') c.inductors.push({ name, a, b, origin: el.origin });
+          else if (s.kind === 'instance' && this.deviceKindOf(s.subckt!.text.toLowerCase()) === 'capacitor') c.capacitors.push({ name, a, b, capacitanceF: v.value, origin: el.origin });
+          else if (s.kind === 'instance' && this.deviceKindOf(s.subckt!.text.toLowerCase()) === 'diode') c.diodes.push({ name, a, b, model: s.subckt!.text.toLowerCase(), origin: el.origin });
+          else c.resistors.push({ name, a, b, resistanceOhm: v.value, origin: el.origin });
+          break;
+        }
+        case 'wave':
+          if (s.kind === 'source') c.sources.push({ name, letter: s.letter, p: net(el.nodes[0]!), n: net(el.nodes[1]!), waveform: v.waveform, origin: el.origin });
+          break;
+        case 'instance': {
+          c.instances.push({ name, subckt: v.target.name, origin: el.origin });
+          const child = this.template(v.target);
+          const childMap = el.nodes.map(net);
+          this.instantiate(c, child, childMap, name + '.', v.scope, v.key, [...defStack, v.target]);
+          break;
+        }
+        case 'none':
+          if (s.kind === 'diode') c.diodes.push({ name, a: net(el.nodes[0]!), b: net(el.nodes[1]!), model: s.model?.text.toLowerCase() ?? '', origin: el.origin });
+          else if (s.kind === 'other') c.others.push({ name, letter: s.letter, nets: el.nodes.map(net), origin: el.origin });
+          break;
+      }
+    }
+  }
+
+  // ---- rails and ports ---------------------------------------------------------------------
+
+  private setKind(c: Circuit, id: number, kind: NetKind, volts: number | null, from: 'source' | 'directive' | 'setting' | 'name'): void {
+    const net = c.nets[id]!;
+    if (net.kind !== 'signal') return;
+    net.kind = kind;
+    if (kind === 'ground') c.grounds.push(id);
+    else c.supplies.push({ net: id, volts, from });
+  }
+
+  /** Supplies and grounds: node 0, DC sources, directives, settings, then name rules on `candidates`. */
+  private assignRails(c: Circuit, candidates: number[]): void {
+    const zero = c.netByName.get('0');
+    if (zero !== undefined) this.setKind(c, zero, 'ground', 0, 'source');
+    const byName = (n: string) => c.netByName.get(n.toLowerCase());
+    for (const g of this.directives.grounds) {
+      const id = byName(g.net);
+      if (id !== undefined) this.setKind(c, id, 'ground', 0, 'directive');
+    }
+    for (const s of this.directives.supplies) {
+      const id = byName(s.net);
+      if (id !== undefined) s.volts === 0 ? this.setKind(c, id, 'ground', 0, 'directive') : this.setKind(c, id, 'supply', s.volts, 'directive');
+    }
+    for (const g of this.options.grounds ?? []) {
+      const id = byName(g);
+      if (id !== undefined) this.setKind(c, id, 'ground', 0, 'setting');
+    }
+    for (const [n, v] of Object.entries(this.options.supplies ?? {})) {
+      const id = byName(n);
+      if (id !== undefined) v === 0 ? this.setKind(c, id, 'ground', 0, 'setting') : this.setKind(c, id, 'supply', v, 'setting');
+    }
+    // DC voltage sources to ground (repeat until no change, for sources stacked on supplies).
+    for (let pass = 0; pass < 3; pass++) {
+      for (const s of c.sources) {
+        if (s.letter !== 'v' || s.waveform.kind !== 'dc' || s.waveform.volts === undefined) continue;
+        const v = s.waveform.volts;
+        const pKind = c.nets[s.p]!.kind;
+        const nKind = c.nets[s.n]!.kind;
+        if (nKind === 'ground' && pKind === 'signal') v === 0 ? this.setKind(c, s.p, 'ground', 0, 'source') : this.setKind(c, s.p, 'supply', v, 'source');
+        else if (pKind === 'ground' && nKind === 'signal') v === 0 ? this.setKind(c, s.n, 'ground', 0, 'source') : this.setKind(c, s.n, 'supply', -v, 'source');
+      }
+    }
+    for (const id of candidates) {
+      const net = c.nets[id]!;
+      if (net.kind !== 'signal') continue;
+      const local = net.name;
+      if (this.groundRe.test(local)) this.setKind(c, id, 'ground', 0, 'name');
+      else if (this.supplyRe.test(local)) this.setKind(c, id, 'supply', this.options.defaultSupplyVolts ?? null, 'name');
+    }
+    for (const i of this.directives.inputs) {
+      const id = byName(i.net);
+      if (id !== undefined) c.inputs.push(id);
+    }
+    for (const o of this.directives.outputs) {
+      const id = byName(o.net);
+      if (id !== undefined) c.outputs.push(id);
+    }
+  }
+
+  /**
+   * Port directions of a standalone cell: supplies and grounds first, then `*.PININFO`, then
+   * inferred. A port is an output when a channel path inside the cell joins it to a rail; one
+   * that reaches only gates or only pass devices (no rail in its channel-connected group)
+   * cannot be driven from inside, so it is an input.
+   */
+  private assignPorts(c: Circuit, def: SubcktDefinition, portNets: number[]): void {
+    const parent = c.nets.map((_, i) => i);
+    const find = (x: number): number => {
+      while (parent[x] !== x) x = parent[x] = parent[parent[x]!]!;
+      return x;
+    };
+    const isRail = (n: number) => c.nets[n]!.kind !== 'signal';
+    const touchesRail = new Uint8Array(c.nets.length);
+    const channel = (a: number, b: number) => {
+      if (isRail(a) && isRail(b)) return;
+      if (isRail(a)) touchesRail[b] = 1;
+      else if (isRail(b)) touchesRail[a] = 1;
+      else parent[find(a)] = find(b);
+    };
+    const hasChannel = new Uint8Array(c.nets.length);
+    for (const m of c.mosfets) {
+      channel(m.d, m.s);
+      hasChannel[m.d] = hasChannel[m.s] = 1;
+    }
+    for (const r of c.resistors) {
+      channel(r.a, r.b);
+      hasChannel[r.a] = hasChannel[r.b] = 1;
+    }
+    const groupHasRail = new Uint8Array(c.nets.length);
+    for (let i = 0; i < c.nets.length; i++) if (touchesRail[i]) groupHasRail[find(i)] = 1;
+    const declaredIn = new Set(this.directives.inputs.map((x) => x.net));
+    const declaredOut = new Set(this.directives.outputs.map((x) => x.net));
+    def.ports.forEach((name, i) => {
+      const net = portNets[i]!;
+      const kind = c.nets[net]!.kind;
+      let direction: PortDirection;
+      let from: Port['from'];
+      const pin = def.pinDirections.get(name);
+      if (kind === 'supply' || kind === 'ground') {
+        direction = kind;
+        from = 'rail';
+      } else if (declaredIn.has(name) || declaredOut.has(name)) {
+        direction = declaredIn.has(name) ? 'input' : 'output';
+        from = 'directive';
+      } else if (pin) {
+        direction = pin;
+        from = 'pininfo';
+      } else {
+        direction = hasChannel[net] && groupHasRail[find(net)] ? 'output' : 'input';
+        from = 'inferred';
+      }
+      c.ports.push({ net, name, direction, from });
+      if (direction === 'input' && !c.inputs.includes(net)) c.inputs.push(net);
+      if (direction === 'output' && !c.outputs.includes(net)) c.outputs.push(net);
+    });
+  }
+}

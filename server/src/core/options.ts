@@ -1,0 +1,24 @@
+// What the user sets outside the netlist (editor settings, CLI flags). Netlist directives win.
+
+import type { DeviceKind } from '../circuit/directives';
+
+export interface EngineOptions {
+  /** Metres per written unit of W and L when the netlist has no `.option scale` or directive. */
+  geometryScale?: number;
+  /** Extra supply nets with their voltages, and ground nets. */
+  supplies?: Record<string, number>;
+  grounds?: string[];
+  /** Name rules for supplies and grounds (regular expressions, case-insensitive). */
+  supplyNamePattern?: string;
+  groundNamePattern?: string;
+  /** Voltage assumed for a supply found only by its name. */
+  defaultSupplyVolts?: number;
+  /** Rules mapping undefined subcircuit names to primitive devices (globs), tried before the defaults. */
+  deviceRules?: { pattern: string; kind: DeviceKind }[];
+  /** Elaborate only this subcircuit, standalone. */
+  top?: string;
+  includePaths?: string[];
+}
+
+export const DEFAULT_SUPPLY_PATTERN = '^(vdd|vcc|vpwr|vpb|kapwr|lowlvpwr|vpwrin|avdd|dvdd|vddio|vdda|vddd|vcca|vccd)[a-z0-9_]*!?$';
+export const DEFAULT_GROUND_PATTERN = '^(0|gnd|vss|vgnd|vnb|agnd|dgnd|vssa|vssd|vssio)[a-z0-9_]*!?$';

@@ -1,0 +1,331 @@
+// The netlist parser. The lexer runs once over the file; a small pass joins '+' continuations
+// into logical lines; the chevrotain parser then reads each logical line on its own, so an error
+// in one line can never swallow the next. One parser instance is reused through `.input`.
+
+import { EmbeddedActionsParser, type IToken, type IRecognitionException } from 'chevrotain';
+import {
+  allTokens,
+  BraceExpr,
+  Comma,
+  CommentLine,
+  Continuation,
+  DollarComment,
+  Equals,
+  InlineComment,
+  LineBreak,
+  LParen,
+  netlistLexer,
+  QuoteExpr,
+  RParen,
+  StrayClose,
+  StringLit,
+  Unclosed,
+  Word,
+} from './tokens';
+import type { AssignItem, DirectiveLine, GroupItem, Item, PinInfoLine, Statement, SyntaxFile, ValueItem, WordItem } from './tree';
+import { diag, type Diagnostic } from '../core/diagnostics';
+import { rangeOf, type Range } from '../core/source';
+
+export function tokenRange(t: IToken): Range {
+  const line = (t.startLine ?? 1) - 1;
+  const ch = (t.startColumn ?? 1) - 1;
+  const endLine = (t.endLine ?? t.startLine ?? 1) - 1;
+  const endCh = t.endColumn ?? ch + t.image.length;
+  return rangeOf(line, ch, endLine, endCh);
+}
+
+function wordOf(t: IToken): WordItem {
+  return { kind: 'word', text: t.image, range: tokenRange(t) };
+}
+
+class StatementParser extends EmbeddedActionsParser {
+  constructor() {
+    super(allTokens, { recoveryEnabled: true, maxLookahead: 2 });
+    this.performSelfAnalysis();
+  }
+
+  public statement = this.RULE('statement', (): Statement | undefined => {
+    const head = this.CONSUME(Word);
+    const items: Item[] = [];
+    this.MANY(() => {
+      const it = this.SUBRULE(this.item);
+      if (it) items.push(it);
+    });
+    return this.ACTION(() => {
+      const headItem = wordOf(head);
+      const last = items.length > 0 ? items[items.length - 1]!.range : headItem.range;
+      return { head: headItem, items, range: { start: headItem.range.start, end: last.end } };
+    });
+  });
+
+  private item = this.RULE('item', (): Item | undefined =>
+    this.OR([
+      {
+        ALT: () => {
+          const name = this.CONSUME(Word);
+          let value: ValueItem | undefined;
+          let hasEquals = false;
+          this.OPTION(() => {
+            this.CONSUME(Equals);
+            hasEquals = true;
+            value = this.SUBRULE(this.value);
+          });
+          return this.ACTION((): Item => {
+            const w = wordOf(name);
+            if (!hasEquals) return w;
+            const a: AssignItem = { kind: 'assign', name: w, value, range: { start: w.range.start, end: (value ?? w).range.end } };
+            return a;
+          });
+        },
+      },
+      { ALT: () => this.SUBRULE(this.nonWordValue) },
+      {
+        ALT: () => {
+          this.CONSUME(Comma);
+          return undefined;
+        },
+      },
+    ]),
+  );
+
+  private value = this.RULE('value', (): ValueItem | undefined =>
+    this.OR([
+      {
+        ALT: () => {
+          const t = this.CONSUME(Word);
+          return this.ACTION(() => wordOf(t));
+        },
+      },
+      { ALT: () => this.SUBRULE(this.nonWordValue) },
+    ]),
+  );
+
+  private nonWordValue = this.RULE('nonWordValue', (): ValueItem | undefined =>
+    this.OR([
+      {
+        ALT: () => {
+          const t = this.CONSUME(BraceExpr);
+          return this.ACTION((): ValueItem => ({ kind: 'expr', text: t.image.slice(1, -1), delimiter: '{', range: tokenRange(t) }));
+        },
+      },
+      {
+        ALT: () => {
+          const t = this.CONSUME(QuoteExpr);
+          return this.ACTION((): ValueItem => ({ kind: 'expr', text: t.image.slice(1, -1), delimiter: "'", range: tokenRange(t) }));
+        },
+      },
+      {
+        ALT: () => {
+          const t = this.CONSUME(StringLit);
+          return this.ACTION((): ValueItem => ({ kind: 'string', text: t.image.slice(1, -1), range: tokenRange(t) }));
+        },
+      },
+      { ALT: () => this.SUBRULE(this.group) },
+    ]),
+  );
+
+  private group = this.RULE('group', (): GroupItem | undefined => {
+    const open = this.CONSUME(LParen);
+    const items: Item[] = [];
+    this.MANY(() => {
+      const it = this.SUBRULE(this.item);
+      if (it) items.push(it);
+    });
+    const close = this.CONSUME(RParen);
+    return this.ACTION(() => {
+      const start = tokenRange(open).start;
+      const end = close.image ? tokenRange(close).end : items.length ? items[items.length - 1]!.range.end : tokenRange(open).end;
+      return { kind: 'group' as const, items, range: { start, end } };
+    });
+  });
+}
+
+let sharedParser: StatementParser | undefined;
+function parser(): StatementParser {
+  return (sharedParser ??= new StatementParser());
+}
+
+export interface ParseOptions {
+  /** A top-level deck's first line is its title; an included file has none. */
+  hasTitle: boolean;
+}
+
+const DIRECTIVE_PREFIX = /^\*\s*tidemark\s*:\s*/i;
+const PININFO_PREFIX = /^\*\.pininfo\b/i;
+
+/**
+ * Parses one file. Never throws: anything it cannot read becomes a `syntax` diagnostic with the
+ * range of the offending text, and the rest of the file is read as usual.
+ */
+export function parseNetlist(file: string, text: string, options: ParseOptions = { hasTitle: true }): SyntaxFile {
+  const diagnostics: Diagnostic[] = [];
+  const lexed = netlistLexer.tokenize(text);
+  for (const e of lexed.errors) {
+    // Unreachable by construction (every character matches a token); kept as a guard.
+    diagnostics.push(diag('syntax', file, rangeOf(e.line! - 1, e.column! - 1, e.line! - 1, e.column! - 1 + e.length), e.message));
+  }
+  let lineCount = 1;
+  for (let i = 0; i < text.length; i++) {
+    const c = text.charCodeAt(i);
+    if (c === 10 || (c === 13 && text.charCodeAt(i + 1) !== 10)) lineCount++;
+  }
+
+  const titleLine = options.hasTitle ? 1 : 0;
+  let title: string | undefined;
+  if (options.hasTitle) {
+    const eol = text.search(/\r|\n/);
+    title = (eol < 0 ? text : text.slice(0, eol)).trim();
+  }
+
+  // Logical lines: join '+' continuations, even across comment lines in between.
+  const logical: IToken[][] = [];
+  let current: IToken[] = [];
+  let lineEnded = false;
+  for (const t of lexed.tokens) {
+    if (t.startLine === titleLine) continue;
+    const type = t.tokenType;
+    if (type === LineBreak) {
+      if (current.length > 0) lineEnded = true;
+      continue;
+    }
+    if (type === Continuation) {
+      if (current.length === 0 && !lineEnded) {
+        diagnostics.push(diag('syntax', file, tokenRange(t), "'+' continues a line, but there is no line before it to continue", 'warning'));
+      }
+      lineEnded = false;
+      continue;
+    }
+    if (lineEnded) {
+      logical.push(current);
+      current = [];
+      lineEnded = false;
+    }
+    current.push(t);
+  }
+  if (current.length > 0) logical.push(current);
+
+  const statements: Statement[] = [];
+  const p = parser();
+  let inControl = false;
+  let ended = false;
+  const statementStartLines: number[] = [];
+  for (const tokens of logical) {
+    const first = tokens[0]!;
+    const headText = first.tokenType === Word ? first.image.toLowerCase() : '';
+    // .control ... .endc holds simulator commands, not circuit; after .end nothing is read.
+    if (ended) break;
+    if (inControl) {
+      if (headText === '.endc') inControl = false;
+      continue;
+    }
+    if (headText === '.control') {
+      inControl = true;
+      continue;
+    }
+    if (reportMalformedTokens(file, tokens, diagnostics)) continue;
+    if (first.tokenType !== Word) {
+      diagnostics.push(diag('syntax', file, tokenRange(first), `a line must start with an element name or a dot card, not '${first.image.slice(0, 20)}'`));
+      continue;
+    }
+    p.input = tokens;
+    const stmt = p.statement();
+    if (p.errors.length > 0) {
+      diagnostics.push(syntaxErrorOf(file, p.errors[0]!, tokens));
+      continue;
+    }
+    if (!stmt) continue;
+    if (headText === '.end') {
+      ended = true;
+      continue;
+    }
+    statements.push(stmt);
+    statementStartLines.push(stmt.range.start.line);
+  }
+
+  const { directives, pinInfos } = readSpecialComments(file, lexed.groups['comments'] ?? [], statementStartLines, titleLine, diagnostics);
+  return { file, title, statements, directives, pinInfos, diagnostics, lineCount };
+}
+
+function reportMalformedTokens(file: string, tokens: IToken[], out: Diagnostic[]): boolean {
+  for (const t of tokens) {
+    if (t.tokenType === Unclosed) {
+      const what = t.image[0] === '{' ? "'{' has no matching '}'" : t.image[0] === '"' ? 'the string is not closed' : "the quote ' is not closed";
+      out.push(diag('syntax', file, tokenRange(t), `${what} on this line`));
+      return true;
+    }
+    if (t.tokenType === StrayClose) {
+      out.push(diag('syntax', file, tokenRange(t), "'}' with no '{' before it"));
+      return true;
+    }
+  }
+  return false;
+}
+
+function syntaxErrorOf(file: string, e: IRecognitionException, tokens: IToken[]): Diagnostic {
+  const t = e.token;
+  const last = tokens[tokens.length - 1]!;
+  // At the end of a line chevrotain reports the virtual EOF token: point just past the line.
+  const atEnd = !t || t.tokenType.name === 'EOF' || t.startOffset === undefined || Number.isNaN(t.startOffset);
+  const range = atEnd ? (() => { const r = tokenRange(last); return rangeOf(r.end.line, r.end.character, r.end.line, r.end.character); })() : tokenRange(t);
+  let message: string;
+  const tokName = atEnd ? 'the end of the line' : `'${t.image}'`;
+  if (e.name === 'MismatchedTokenException' && /RParen/.test(e.message)) message = `')' expected before ${tokName}`;
+  else if (e.name === 'NoViableAltException' && tokens.some((x) => x.tokenType === Equals)) message = `a value is expected after '=' (found ${tokName})`;
+  else message = `unexpected ${tokName}`;
+  return diag('syntax', file, range, message);
+}
+
+function readSpecialComments(
+  file: string,
+  comments: IToken[],
+  statementStartLines: number[],
+  titleLine: number,
+  out: Diagnostic[],
+): { directives: DirectiveLine[]; pinInfos: PinInfoLine[] } {
+  const directives: DirectiveLine[] = [];
+  const pinInfos: PinInfoLine[] = [];
+  let si = 0;
+  for (const c of comments) {
+    if (c.tokenType !== CommentLine || c.startLine === titleLine) continue;
+    const line = c.startLine! - 1;
+    while (si < statementStartLines.length && statementStartLines[si]! <= line) si++;
+    const text = c.image;
+    const startCol = c.startColumn! - 1;
+    const prefix = DIRECTIVE_PREFIX.exec(text);
+    if (prefix) {
+      const words = splitWords(text, prefix[0].length, line, startCol);
+      if (words.length === 0) {
+        out.push(diag('directive', file, tokenRange(c), 'a tidemark directive needs a verb, for example `* tidemark: clock clk period=1n high=0.5n`'));
+        continue;
+      }
+      directives.push({ verb: words[0]!.text.toLowerCase(), args: words.slice(1), range: tokenRange(c), statementIndex: si });
+      continue;
+    }
+    if (PININFO_PREFIX.test(text)) {
+      const words = splitWords(text, '*.pininfo'.length, line, startCol);
+      const pins: PinInfoLine['pins'] = [];
+      for (const w of words) {
+        const m = /^(.+):([IOB])$/i.exec(w.text);
+        if (!m) continue;
+        const d = m[2]!.toUpperCase();
+        pins.push({ name: m[1]!, direction: d === 'I' ? 'input' : d === 'O' ? 'output' : 'inout', range: w.range });
+      }
+      pinInfos.push({ pins, range: tokenRange(c), statementIndex: si });
+    }
+  }
+  void DollarComment;
+  void InlineComment;
+  return { directives, pinInfos };
+}
+
+function splitWords(text: string, from: number, line: number, startCol: number): WordItem[] {
+  const words: WordItem[] = [];
+  const re = /\S+/g;
+  re.lastIndex = from;
+  let m: RegExpExecArray | null;
+  while ((m = re.exec(text))) {
+    const ch = startCol + m.index;
+    words.push({ kind: 'word', text: m[0], range: rangeOf(line, ch, line, ch + m[0].length) });
+  }
+  return words;
+}
