@@ -124,6 +124,8 @@ class Elaborator {
 
     // Top-level cards: parameters, options, temperature, models (models anywhere are global).
     for (const { file, item } of deck.top) this.topCard(file, item);
+    // Every global parameter is evaluated, used or not, so its errors are reported (as ngspice does).
+    for (const name of this.globalScope.ownNames()) this.globalScope.tryLookup(name, this.paramReport);
     const modelStatements = (defs: Map<string, SubcktDefinition>) => {
       for (const d of defs.values()) {
         for (const { file, item } of d.body) if (item.head.text.toLowerCase() === '.model') this.modelCard(file, item);

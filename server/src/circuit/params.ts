@@ -99,6 +99,16 @@ export class ParamScope {
     return [...this.entries.keys()];
   }
 
+  /** Like lookup, but a failure already reported is undefined instead of an exception. */
+  tryLookup(name: string, report: ParamReport): number | undefined {
+    try {
+      return this.lookup(name, report);
+    } catch (e) {
+      if (e instanceof DependencyError || e instanceof CycleError) return undefined;
+      throw e;
+    }
+  }
+
   /**
    * The value of `name` seen from this scope: undefined when no scope defines it. A parameter
    * whose own value failed throws, so the failure is reported once, where it is.

@@ -24,7 +24,7 @@ import {
 } from './tokens';
 import type { AssignItem, DirectiveLine, GroupItem, Item, PinInfoLine, Statement, SyntaxFile, ValueItem, WordItem } from './tree';
 import { diag, type Diagnostic } from '../core/diagnostics';
-import { rangeOf, type Range } from '../core/source';
+import { rangeOf, spanRanges, type Range } from '../core/source';
 
 export function tokenRange(t: IToken): Range {
   const line = (t.startLine ?? 1) - 1;
@@ -247,7 +247,19 @@ export function parseNetlist(file: string, text: string, options: ParseOptions =
 }
 
 function reportMalformedTokens(file: string, tokens: IToken[], out: Diagnostic[]): boolean {
-  for (const t of tokens) {
+  for (let i = 0; i < tokens.length; i++) {
+    const t = tokens[i]!;
+    if (t.tokenType === Equals) {
+      // `w= l=1u`: the word after '=' is the next parameter's name, not this one's value
+      const next = tokens[i + 1];
+      const after = tokens[i + 2];
+      const missing = !next || next.tokenType === Equals || next.tokenType === RParen || next.tokenType === Comma || (next.tokenType === Word && after?.tokenType === Equals);
+      if (missing && i > 0) {
+        const name = tokens[i - 1]!;
+        out.push(diag('syntax', file, spanRanges(tokenRange(name), tokenRange(t)), `a value is expected after '${name.image}='`));
+        return true;
+      }
+    }
     if (t.tokenType === Unclosed) {
       const what = t.image[0] === '{' ? "'{' has no matching '}'" : t.image[0] === '"' ? 'the string is not closed' : "the quote ' is not closed";
       out.push(diag('syntax', file, tokenRange(t), `${what} on this line`));
