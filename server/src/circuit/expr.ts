@@ -180,7 +180,7 @@ class ExprParser extends EmbeddedActionsParser {
 
 let sharedParser: ExprParser | undefined;
 
-export type ParsedExpr = { ok: true; node: ExprNode; refs: string[] } | { ok: false; message: string };
+export type ParsedExpr = { ok: true; node: ExprNode } | { ok: false; message: string };
 
 const parseCache = new Map<string, ParsedExpr>();
 
@@ -194,7 +194,19 @@ export function parseExpression(text: string): ParsedExpr {
   return result;
 }
 
+/** Deeper nesting than any real netlist writes; beyond it the recursive parser could overflow. */
+const MAX_NESTING = 100;
+
 function parseUncached(text: string): ParsedExpr {
+  let depth = 0;
+  let maxDepth = 0;
+  for (let i = 0; i < text.length; i++) {
+    const c = text.charCodeAt(i);
+    if (c === 40) maxDepth = Math.max(maxDepth, ++depth);
+    else if (c === 41) depth--;
+  }
+  if (maxDepth > MAX_NESTING) return { ok: false, message: `expression nests parentheses ${maxDepth} deep; at most ${MAX_NESTING} are read` };
+  if (text.length > 20_000) return { ok: false, message: `expression is ${text.length} characters long; at most 20000 are read` };
   const lexed = exprLexer.tokenize(text);
   if (lexed.errors.length > 0) {
     const e = lexed.errors[0]!;
@@ -203,40 +215,20 @@ function parseUncached(text: string): ParsedExpr {
   if (lexed.tokens.length === 0) return { ok: false, message: 'empty expression' };
   const p = (sharedParser ??= new ExprParser());
   p.input = lexed.tokens;
-  const node = p.expression();
+  let node: ExprNode;
+  try {
+    node = p.expression();
+  } catch (e) {
+    // A pathological chain (thousands of unary operators) can exhaust the stack: say so.
+    if (e instanceof RangeError) return { ok: false, message: 'expression is too deeply nested to read' };
+    throw e;
+  }
   if (p.errors.length > 0 || !node) {
     const t = p.errors[0]?.token;
     const where = t && t.image ? `at '${t.image}'` : 'at the end';
     return { ok: false, message: `cannot parse expression '${text}' ${where}` };
   }
-  const refs = new Set<string>();
-  collectRefs(node, refs);
-  return { ok: true, node: node ?? BAD, refs: [...refs] };
-}
-
-function collectRefs(n: ExprNode, out: Set<string>): void {
-  switch (n.op) {
-    case 'ref':
-      if (!(n.name in CONSTANTS)) out.add(n.name);
-      return;
-    case 'call':
-      n.args.forEach((a) => collectRefs(a, out));
-      return;
-    case 'unary':
-      collectRefs(n.arg, out);
-      return;
-    case 'binary':
-      collectRefs(n.left, out);
-      collectRefs(n.right, out);
-      return;
-    case 'ternary':
-      collectRefs(n.test, out);
-      collectRefs(n.then, out);
-      collectRefs(n.else, out);
-      return;
-    default:
-      return;
-  }
+  return { ok: true, node: node ?? BAD };
 }
 
 export const CONSTANTS: Record<string, number> = {

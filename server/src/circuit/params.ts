@@ -54,6 +54,10 @@ export function evaluateValue(item: ValueItem, file: string, scope: ParamScope |
     return v;
   } catch (e) {
     if (e instanceof DependencyError) return undefined;
+    if (e instanceof RangeError) {
+      report(file, item.range, 'expression is too deeply nested to evaluate');
+      return undefined;
+    }
     if (e instanceof CycleError) {
       report(file, item.range, e.message);
       return undefined;

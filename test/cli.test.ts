@@ -1,0 +1,99 @@
+// The real CLI as a subprocess (dist/cli.js, built by the global setup), on real files.
+
+import { spawnSync } from 'node:child_process';
+import * as fs from 'node:fs';
+import * as os from 'node:os';
+import * as path from 'node:path';
+import { describe, expect, it } from 'vitest';
+
+const ROOT = path.join(__dirname, '..');
+const CLI = path.join(ROOT, 'dist', 'cli.js');
+
+function tidemark(args: string[], cwd = ROOT): { code: number | null; stdout: string; stderr: string } {
+  const r = spawnSync(process.execPath, [CLI, ...args], { cwd, encoding: 'utf8', timeout: 60_000 });
+  return { code: r.status, stdout: r.stdout, stderr: r.stderr };
+}
+
+function tempDir(files: Record<string, string>): string {
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'tidemark-cli-'));
+  for (const [name, text] of Object.entries(files)) {
+    fs.mkdirSync(path.dirname(path.join(dir, name)), { recursive: true });
+    fs.writeFileSync(path.join(dir, name), text);
+  }
+  return dir;
+}
+
+describe('tidemark check', () => {
+  it('prints the JSON contract for a sample and exits 0', () => {
+    const r = tidemark(['check', 'samples/tern_dynamic_latch.sp', '--format', 'json', '--all-nodes']);
+    expect(r.stderr).toBe('');
+    expect(r.code).toBe(0);
+    const j = JSON.parse(r.stdout);
+    expect(j.schema).toBe(1);
+    expect(j.supplies).toContainEqual(expect.objectContaining({ net: 'vdd', volts: 1 }));
+    expect(j.corners).toEqual([{ temp_C: 25 }, { temp_C: 110 }]);
+    expect(Array.isArray(j.phases)).toBe(true);
+    expect(Array.isArray(j.diagnostics)).toBe(true);
+    const st = j.nodes.find((n: { name: string }) => n.name === 'xcap0.st');
+    expect(st).toMatchObject({ subckt: 'capture_latch', local: 'st', file: 'samples/tern_dynamic_latch.sp', line: 8 });
+    // a net that crosses levels takes its name at the highest level
+    expect(j.nodes.find((n: { name: string }) => n.name === 'xcap0.q')).toBeUndefined();
+    expect(j.nodes.find((n: { name: string }) => n.name === 'bit0_q')).toBeDefined();
+  });
+
+  it('exits 1 on an error finding, 0 with --fail-on never, and reports file:line', () => {
+    const dir = tempDir({ 'bad.sp': 'bad deck\r\nM1 a b 0 0 nch w={1u\r\n.end\r\n' });
+    const r = tidemark(['check', 'bad.sp', '--no-colour'], dir);
+    expect(r.code).toBe(1);
+    expect(r.stdout).toMatch(/bad\.sp:2:\d+: error \[syntax\]/);
+    expect(tidemark(['check', 'bad.sp', '--fail-on', 'never'], dir).code).toBe(0);
+  });
+
+  it('--fail-on warning counts warnings', () => {
+    const dir = tempDir({ 'w.sp': 'w\nM1 y a 0 0 nch w=0.4 l=0.15\nva a 0 1\n.end\n' });
+    expect(tidemark(['check', 'w.sp'], dir).code).toBe(0);
+    expect(tidemark(['check', 'w.sp', '--fail-on', 'warning'], dir).code).toBe(1);
+    expect(tidemark(['check', 'w.sp', '--scale', '1u', '--fail-on', 'warning', '--format', 'json'], dir).stdout).not.toMatch(/geometry-scale/);
+  });
+
+  it('exits 2 with a usage message for bad usage and missing input', () => {
+    const a = tidemark([]);
+    expect(a.code).toBe(2);
+    expect(a.stderr).toMatch(/usage: tidemark check/);
+    expect(tidemark(['check', '--format', 'xml', 'x.sp']).code).toBe(2);
+    expect(tidemark(['check', '--bogus', 'x.sp']).code).toBe(2);
+    const m = tidemark(['check', 'no/such/file.sp']);
+    expect(m.code).toBe(2);
+    expect(m.stderr).toMatch(/cannot read 'no\/such\/file.sp'/);
+  });
+
+  it('writes SARIF 2.1.0 with rules and regions', () => {
+    const dir = tempDir({ 'bad.sp': 'bad\nX1 a b nothere\n.end\n' });
+    const r = tidemark(['check', 'bad.sp', '--format', 'sarif'], dir);
+    const s = JSON.parse(r.stdout);
+    expect(s.version).toBe('2.1.0');
+    const run = s.runs[0];
+    expect(run.tool.driver.name).toBe('Tidemark');
+    expect(run.tool.driver.rules.map((x: { id: string }) => x.id)).toContain('unknown-subckt');
+    expect(run.results[0]).toMatchObject({ ruleId: 'unknown-subckt', level: 'error', locations: [{ physicalLocation: { artifactLocation: { uri: 'bad.sp' }, region: { startLine: 2, startColumn: 8 } } }] });
+  });
+
+  it('checks every netlist in a folder and follows includes relative to each file', () => {
+    const dir = tempDir({
+      'lib/m.inc': '.model nch nmos level=1\n',
+      'a/deck.sp': 'deck\n.include ../lib/m.inc\nM1 y a 0 0 nch w=1u l=0.1u\nva a 0 1\n.end\n',
+      'a/notes.txt': 'not a netlist',
+    });
+    const r = tidemark(['check', '.', '--format', 'json'], dir);
+    expect(r.code).toBe(0);
+    const j = JSON.parse(r.stdout);
+    expect(j.netlists.map((n: { file: string }) => n.file)).toEqual([path.join('a', 'deck.sp')]);
+    expect(j.diagnostics).toEqual([]);
+  });
+
+  it('--top elaborates one subcircuit standalone', () => {
+    const dir = tempDir({ 'lib.sp': '* lib\n.subckt inv a y vdd vss\nM1 y a vss vss nch w=1u l=1u\nM2 y a vdd vdd pch w=1u l=1u\n.ends\n.subckt other a\n.ends\nX1 p q vdd 0 inv\n' });
+    const j = JSON.parse(tidemark(['check', 'lib.sp', '--top', 'inv', '--format', 'json'], dir).stdout);
+    expect(j.netlists[0].circuits).toEqual([expect.objectContaining({ name: 'inv', standalone: true, mosfets: 2 })]);
+  });
+});
