@@ -56,7 +56,7 @@ export function interpretElement(stmt: Statement): ElementSyntax | undefined {
       const slash = w.findIndex((x) => x.text === '/' || x.text.startsWith('/'));
       if (slash >= 0) {
         const s = w[slash]!;
-        const subckt = s.text === '/' ? w[slash + 1] : { ...s, text: s.text.slice(1) };
+        const subckt: WordItem | undefined = s.text === '/' ? w[slash + 1] : { kind: 'word', text: s.text.slice(1), range: s.range };
         return { kind: 'instance', name, nodes: w.slice(0, slash), subckt, params };
       }
       return { kind: 'instance', name, nodes: w.slice(0, -1), subckt: w[w.length - 1], params };

@@ -6,20 +6,18 @@
 
 const NUMBER_PREFIX = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?/;
 
-const SCALE: ReadonlyArray<readonly [string, number]> = [
-  // longest first, so `meg` and `mil` win over `m`
-  ['meg', 1e6],
-  ['mil', 25.4e-6],
-  ['t', 1e12],
-  ['g', 1e9],
-  ['k', 1e3],
-  ['m', 1e-3],
-  ['u', 1e-6],
-  ['n', 1e-9],
-  ['p', 1e-12],
-  ['f', 1e-15],
-  ['a', 1e-18],
-];
+/** Single-letter scale factors; `meg` and `mil` are matched before `m`. */
+const SINGLE_SCALE: Readonly<Record<string, number>> = {
+  t: 1e12,
+  g: 1e9,
+  k: 1e3,
+  m: 1e-3,
+  u: 1e-6,
+  n: 1e-9,
+  p: 1e-12,
+  f: 1e-15,
+  a: 1e-18,
+};
 
 export interface NumberScan {
   value: number;
@@ -34,15 +32,29 @@ export function scanSpiceNumber(text: string, from = 0): NumberScan | undefined 
   if (!m) return undefined;
   let value = Number(m[0]);
   let i = m[0].length;
-  const tail = rest.slice(i, i + 3).toLowerCase();
-  for (const [suffix, factor] of SCALE) {
-    if (tail.startsWith(suffix)) {
+  if (i < rest.length) {
+    const c0 = rest.charCodeAt(i) | 0x20; // lower-case ASCII letters
+    if (c0 >= 97 && c0 <= 122) {
+      const c1 = rest.charCodeAt(i + 1) | 0x20;
+      const c2 = rest.charCodeAt(i + 2) | 0x20;
+      let factor = 1;
+      let len = 1;
+      if (c0 === 109 /* m */ && c1 === 101 /* e */ && c2 === 103 /* g */) (factor = 1e6), (len = 3);
+      else if (c0 === 109 && c1 === 105 /* i */ && c2 === 108 /* l */) (factor = 25.4e-6), (len = 3);
+      else {
+        const f = SINGLE_SCALE[String.fromCharCode(c0)];
+        if (f !== undefined) factor = f;
+        else len = 0;
+      }
       value *= factor;
-      i += suffix.length;
-      break;
+      i += len;
+      while (i < rest.length) {
+        const c = rest.charCodeAt(i) | 0x20;
+        if (c < 97 || c > 122) break;
+        i++;
+      }
     }
   }
-  while (i < rest.length && /[A-Za-z]/.test(rest[i]!)) i++;
   return { value, length: i };
 }
 

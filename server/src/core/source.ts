@@ -17,10 +17,34 @@ export interface Location {
   range: Range;
 }
 
+/**
+ * A range stored as four numbers: one object instead of three, which matters for syntax trees of
+ * 100k-line netlists. `start` and `end` are built on access; `toJSON` keeps the wire shape.
+ */
+export class Span implements Range {
+  constructor(
+    readonly startLine: number,
+    readonly startChar: number,
+    readonly endLine: number,
+    readonly endChar: number,
+  ) {}
+  get start(): Position {
+    return { line: this.startLine, character: this.startChar };
+  }
+  get end(): Position {
+    return { line: this.endLine, character: this.endChar };
+  }
+  toJSON(): { start: Position; end: Position } {
+    return { start: this.start, end: this.end };
+  }
+}
+
 export function rangeOf(startLine: number, startChar: number, endLine: number, endChar: number): Range {
-  return { start: { line: startLine, character: startChar }, end: { line: endLine, character: endChar } };
+  return new Span(startLine, startChar, endLine, endChar);
 }
 
 export function spanRanges(a: Range, b: Range): Range {
-  return { start: a.start, end: b.end };
+  const s = a.start;
+  const e = b.end;
+  return new Span(s.line, s.character, e.line, e.character);
 }

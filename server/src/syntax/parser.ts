@@ -24,7 +24,7 @@ import {
 } from './tokens';
 import type { AssignItem, DirectiveLine, GroupItem, Item, PinInfoLine, Statement, SyntaxFile, ValueItem, WordItem } from './tree';
 import { diag, type Diagnostic } from '../core/diagnostics';
-import { rangeOf, spanRanges, type Range } from '../core/source';
+import { rangeOf, Span, spanRanges, type Range } from '../core/source';
 
 export function tokenRange(t: IToken): Range {
   const line = (t.startLine ?? 1) - 1;
@@ -34,8 +34,50 @@ export function tokenRange(t: IToken): Range {
   return rangeOf(line, ch, endLine, endCh);
 }
 
+/**
+ * Tree nodes built by the parser keep their position as plain numbers and make a Range only on
+ * access: a 100k-line netlist then holds about half as many objects (and the collector walks
+ * half as many). They satisfy the tree's interfaces like any object literal would.
+ */
+class ParsedWord implements WordItem {
+  constructor(
+    readonly text: string,
+    private readonly sl: number,
+    private readonly sc: number,
+    private readonly el: number,
+    private readonly ec: number,
+  ) {}
+  get kind(): 'word' {
+    return 'word';
+  }
+  get range(): Range {
+    return new Span(this.sl, this.sc, this.el, this.ec);
+  }
+  toJSON(): WordItem {
+    return { kind: 'word', text: this.text, range: this.range };
+  }
+}
+
+class ParsedAssign implements AssignItem {
+  constructor(
+    readonly name: WordItem,
+    readonly value: ValueItem | undefined,
+  ) {}
+  get kind(): 'assign' {
+    return 'assign';
+  }
+  get range(): Range {
+    return spanRanges(this.name.range, (this.value ?? this.name).range);
+  }
+  toJSON(): AssignItem {
+    return { kind: 'assign', name: this.name, value: this.value, range: this.range };
+  }
+}
+
 function wordOf(t: IToken): WordItem {
-  return { kind: 'word', text: t.image, range: tokenRange(t) };
+  const line = t.startLine! - 1;
+  const ch = t.startColumn! - 1;
+  return new ParsedWord(t.image, line, ch, t.endLine! - 1, t.endColumn!);
 }
 
 class StatementParser extends EmbeddedActionsParser {
@@ -54,7 +96,7 @@ class StatementParser extends EmbeddedActionsParser {
     return this.ACTION(() => {
       const headItem = wordOf(head);
       const last = items.length > 0 ? items[items.length - 1]!.range : headItem.range;
-      return { head: headItem, items, range: { start: headItem.range.start, end: last.end } };
+      return { head: headItem, items, range: spanRanges(headItem.range, last) };
     });
   });
 
@@ -73,8 +115,7 @@ class StatementParser extends EmbeddedActionsParser {
           return this.ACTION((): Item => {
             const w = wordOf(name);
             if (!hasEquals) return w;
-            const a: AssignItem = { kind: 'assign', name: w, value, range: { start: w.range.start, end: (value ?? w).range.end } };
-            return a;
+            return new ParsedAssign(w, value);
           });
         },
       },
@@ -133,9 +174,8 @@ class StatementParser extends EmbeddedActionsParser {
     });
     const close = this.CONSUME(RParen);
     return this.ACTION(() => {
-      const start = tokenRange(open).start;
-      const end = close.image ? tokenRange(close).end : items.length ? items[items.length - 1]!.range.end : tokenRange(open).end;
-      return { kind: 'group' as const, items, range: { start, end } };
+      const end = close.image ? tokenRange(close) : items.length ? items[items.length - 1]!.range : tokenRange(open);
+      return { kind: 'group' as const, items, range: spanRanges(tokenRange(open), end) };
     });
   });
 }
@@ -159,16 +199,10 @@ const PININFO_PREFIX = /^\*\.pininfo\b/i;
  */
 export function parseNetlist(file: string, text: string, options: ParseOptions = { hasTitle: true }): SyntaxFile {
   const diagnostics: Diagnostic[] = [];
-  const lexed = netlistLexer.tokenize(text);
-  for (const e of lexed.errors) {
-    // Unreachable by construction (every character matches a token); kept as a guard.
-    diagnostics.push(diag('syntax', file, rangeOf(e.line! - 1, e.column! - 1, e.line! - 1, e.column! - 1 + e.length), e.message));
-  }
-  let lineCount = 1;
-  for (let i = 0; i < text.length; i++) {
-    const c = text.charCodeAt(i);
-    if (c === 10 || (c === 13 && text.charCodeAt(i + 1) !== 10)) lineCount++;
-  }
+  // The optimised lexer knows only ASCII first characters: lex a copy with every other UTF-16
+  // unit replaced by '~' (same length, so offsets, lines and columns hold), then restore images.
+  const nonAscii = /[^\x00-\x7f]/.test(text);
+  const lexText = nonAscii ? text.replace(/[^\x00-\x7f]/g, '~') : text;
 
   const titleLine = options.hasTitle ? 1 : 0;
   let title: string | undefined;
@@ -177,73 +211,133 @@ export function parseNetlist(file: string, text: string, options: ParseOptions =
     title = (eol < 0 ? text : text.slice(0, eol)).trim();
   }
 
-  // Logical lines: join '+' continuations, even across comment lines in between.
-  const logical: IToken[][] = [];
-  let current: IToken[] = [];
-  let lineEnded = false;
-  for (const t of lexed.tokens) {
-    if (t.startLine === titleLine) continue;
-    const type = t.tokenType;
-    if (type === LineBreak) {
-      if (current.length > 0) lineEnded = true;
-      continue;
-    }
-    if (type === Continuation) {
-      if (current.length === 0 && !lineEnded) {
-        diagnostics.push(diag('syntax', file, tokenRange(t), "'+' continues a line, but there is no line before it to continue", 'warning'));
-      }
-      lineEnded = false;
-      continue;
-    }
-    if (lineEnded) {
-      logical.push(current);
-      current = [];
-      lineEnded = false;
-    }
-    current.push(t);
-  }
-  if (current.length > 0) logical.push(current);
-
   const statements: Statement[] = [];
+  const statementStartLines: number[] = [];
+  const comments: IToken[] = [];
   const p = parser();
   let inControl = false;
   let ended = false;
-  const statementStartLines: number[] = [];
-  for (const tokens of logical) {
+
+  const parseLogicalLine = (tokens: IToken[]): void => {
     const first = tokens[0]!;
     const headText = first.tokenType === Word ? first.image.toLowerCase() : '';
     // .control ... .endc holds simulator commands, not circuit; after .end nothing is read.
-    if (ended) break;
+    if (ended) return;
     if (inControl) {
       if (headText === '.endc') inControl = false;
-      continue;
+      return;
     }
     if (headText === '.control') {
       inControl = true;
-      continue;
+      return;
     }
-    if (reportMalformedTokens(file, tokens, diagnostics)) continue;
+    if (reportMalformedTokens(file, tokens, diagnostics)) return;
     if (first.tokenType !== Word) {
       diagnostics.push(diag('syntax', file, tokenRange(first), `a line must start with an element name or a dot card, not '${first.image.slice(0, 20)}'`));
-      continue;
+      return;
     }
     p.input = tokens;
     const stmt = p.statement();
     if (p.errors.length > 0) {
       diagnostics.push(syntaxErrorOf(file, p.errors[0]!, tokens));
-      continue;
+      return;
     }
-    if (!stmt) continue;
+    if (!stmt) return;
     if (headText === '.end') {
       ended = true;
-      continue;
+      return;
     }
     statements.push(stmt);
     statementStartLines.push(stmt.range.start.line);
+  };
+
+  // Lexed in chunks of whole logical lines, so tokens die young (cheap for the garbage
+  // collector) instead of a million of them living until the whole file is read.
+  let lineCount = 1;
+  for (const chunk of chunksOf(lexText)) {
+    const lexed = netlistLexer.tokenize(chunk.start === 0 && chunk.end === lexText.length ? lexText : lexText.slice(chunk.start, chunk.end));
+    const adjust = (t: IToken) => {
+      if (chunk.start) {
+        t.startOffset += chunk.start;
+        t.endOffset! += chunk.start;
+        t.startLine! += chunk.line;
+        t.endLine! += chunk.line;
+      }
+      if (nonAscii) t.image = text.slice(t.startOffset, t.endOffset! + 1);
+    };
+    for (const e of lexed.errors) {
+      // Unreachable by construction (every character matches a token); kept as a guard.
+      diagnostics.push(diag('syntax', file, rangeOf(e.line! - 1 + chunk.line, e.column! - 1, e.line! - 1 + chunk.line, e.column! - 1 + e.length), e.message));
+    }
+    for (const t of lexed.groups['comments'] ?? []) {
+      adjust(t);
+      if (t.tokenType === CommentLine) comments.push(t);
+    }
+    // Logical lines: join '+' continuations, even across comment lines in between.
+    let current: IToken[] = [];
+    let lineEnded = false;
+    for (const t of lexed.tokens) {
+      adjust(t);
+      const type = t.tokenType;
+      if (type === LineBreak) lineCount++;
+      if (t.startLine === titleLine) continue;
+      if (type === LineBreak) {
+        if (current.length > 0) lineEnded = true;
+        continue;
+      }
+      if (type === Continuation) {
+        if (current.length === 0 && !lineEnded) {
+          diagnostics.push(diag('syntax', file, tokenRange(t), "'+' continues a line, but there is no line before it to continue", 'warning'));
+        }
+        lineEnded = false;
+        continue;
+      }
+      if (lineEnded) {
+        parseLogicalLine(current);
+        current = [];
+        lineEnded = false;
+      }
+      current.push(t);
+    }
+    if (current.length > 0) parseLogicalLine(current);
   }
 
-  const { directives, pinInfos } = readSpecialComments(file, lexed.groups['comments'] ?? [], statementStartLines, titleLine, diagnostics);
+  const { directives, pinInfos } = readSpecialComments(file, comments, statementStartLines, titleLine, diagnostics);
   return { file, title, statements, directives, pinInfos, diagnostics, lineCount };
+}
+
+const CHUNK_CHARS = 1 << 16;
+
+/**
+ * Splits the text at line starts roughly every 64 KiB, never before a '+' continuation, so each
+ * chunk holds whole logical lines. `line` is the 0-based line the chunk starts on.
+ */
+function* chunksOf(text: string): Generator<{ start: number; end: number; line: number }> {
+  let start = 0;
+  let line = 0;
+  while (start < text.length || start === 0) {
+    let end = Math.min(text.length, start + CHUNK_CHARS);
+    while (end < text.length) {
+      // advance to just after a line break
+      const nl = text.indexOf('\n', end);
+      if (nl < 0) {
+        end = text.length;
+        break;
+      }
+      end = nl + 1;
+      let k = end;
+      while (k < text.length && (text.charCodeAt(k) === 32 || text.charCodeAt(k) === 9)) k++;
+      const c = text.charCodeAt(k);
+      if (k < text.length && c !== 43 /* + */ && c !== 10 && c !== 13) break;
+    }
+    yield { start, end, line };
+    if (end >= text.length) return;
+    for (let i = start; i < end; i++) {
+      const c = text.charCodeAt(i);
+      if (c === 10 || (c === 13 && text.charCodeAt(i + 1) !== 10)) line++;
+    }
+    start = end;
+  }
 }
 
 function reportMalformedTokens(file: string, tokens: IToken[], out: Diagnostic[]): boolean {
@@ -289,7 +383,7 @@ function syntaxErrorOf(file: string, e: IRecognitionException, tokens: IToken[])
 
 function readSpecialComments(
   file: string,
-  comments: IToken[],
+  comments: IToken[], // comment lines, in file order
   statementStartLines: number[],
   titleLine: number,
   out: Diagnostic[],

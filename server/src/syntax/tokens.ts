@@ -91,7 +91,8 @@ export const LParen = createToken({ name: 'LParen', pattern: /\(/ });
 export const RParen = createToken({ name: 'RParen', pattern: /\)/ });
 export const Comma = createToken({ name: 'Comma', pattern: /,/ });
 /** Names, numbers with scale factors, dot cards, keywords: everything else up to a delimiter. */
-export const Word = createToken({ name: 'Word', pattern: /[^\s=(),{}'";]+/ });
+const WORD_START = Array.from({ length: 94 }, (_, i) => String.fromCharCode(33 + i)).filter((c) => !'=(),{}\'";'.includes(c));
+export const Word = createToken({ name: 'Word', pattern: /[^\s=(),{}'";]+/, start_chars_hint: WORD_START });
 
 export const allTokens: TokenType[] = [
   LineBreak,
@@ -112,10 +113,14 @@ export const allTokens: TokenType[] = [
   Word,
 ];
 
-/** One lexer for the whole process (chevrotain's performance guide: build once, reuse). */
+/**
+ * One lexer for the whole process (chevrotain's performance guide: build once, reuse). It runs
+ * with first-character optimisation, which needs every token's possible first characters; the
+ * parser hands it ASCII-only text (see `asciiForLexer`) so the hints above are complete.
+ */
 export const netlistLexer = new Lexer(allTokens, {
   positionTracking: 'full',
-  ensureOptimizations: false,
+  ensureOptimizations: true,
   lineTerminatorCharacters: ['\n', '\r'],
   lineTerminatorsPattern: /\r\n|\r|\n/g,
 });
