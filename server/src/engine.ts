@@ -7,13 +7,26 @@ import type { FileHost } from './core/host';
 import type { EngineOptions } from './core/options';
 import { loadDeck, type Deck } from './circuit/deck';
 import { elaborate } from './circuit/elaborate';
-import type { Design } from './circuit/circuit';
+import type { Circuit, Design } from './circuit/circuit';
+import { findClocks } from './phases/clocks';
+import { buildPhases, type PhasePlan } from './phases/phases';
+import { buildSwitchNetwork } from './analysis/switchNetwork';
+import { classify, type Classification } from './analysis/classify';
+import { classificationFindings } from './findings/classificationFindings';
 import { parseNetlist } from './syntax/parser';
 import type { SyntaxFile } from './syntax/tree';
+
+export interface CircuitAnalysis {
+  circuit: Circuit;
+  plan: PhasePlan;
+  classification: Classification;
+}
 
 export interface AnalysisResult {
   deck: Deck;
   design: Design;
+  /** One per circuit of the design, in the same order. */
+  circuits: CircuitAnalysis[];
   /** Every finding of every stage, in file order. */
   diagnostics: Diagnostic[];
 }
@@ -39,6 +52,28 @@ export function analyse(host: FileHost, file: string, options: EngineOptions = {
   const deck = loadDeck(hostWithPaths, roots, parseCached);
   const { design, diagnostics } = elaborate(deck, options);
   const all = [...deck.diagnostics, ...diagnostics];
+  const circuits: CircuitAnalysis[] = [];
+  if (options.frontEndOnly !== true) {
+    for (const circuit of design.circuits) {
+      const clocks = findClocks(circuit, design.directives, options);
+      const plan = buildPhases(circuit, clocks.clocks, design.directives, options);
+      const network = buildSwitchNetwork(circuit, clocks.clocks);
+      const classification = classify(network, plan);
+      circuits.push({ circuit, plan, classification });
+      all.push(...clocks.diagnostics, ...plan.diagnostics, ...classificationFindings(circuit, classification, options));
+    }
+  }
   all.sort((a, b) => (a.file < b.file ? -1 : a.file > b.file ? 1 : a.range.start.line - b.range.start.line || a.range.start.character - b.range.start.character));
-  return { deck, design, diagnostics: all };
+  return { deck, design, circuits, diagnostics: dedupe(all) };
+}
+
+/** Directive notes about nets are raised per circuit; a cell library would repeat them. */
+function dedupe(list: Diagnostic[]): Diagnostic[] {
+  const seen = new Set<string>();
+  return list.filter((d) => {
+    const k = `${d.rule}|${d.file}|${d.range.start.line}|${d.range.start.character}|${d.message}`;
+    if (seen.has(k)) return false;
+    seen.add(k);
+    return true;
+  });
 }

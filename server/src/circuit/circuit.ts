@@ -71,7 +71,8 @@ export interface Resistor extends TwoTerminal {
 export type Waveform =
   | { kind: 'dc'; volts: number | undefined }
   | { kind: 'pulse'; v1: number; v2: number; delayS: number; riseS: number; fallS: number; widthS: number; periodS: number }
-  | { kind: 'pwl'; points: Array<[number, number]> }
+  /** `repeatFromS`: ngspice `r=`, the waveform repeats from that time to its last point. */
+  | { kind: 'pwl'; points: Array<[number, number]>; repeatFromS?: number; delayS?: number }
   | { kind: 'sin'; offset: number; amplitude: number; freqHz: number; delayS: number }
   | { kind: 'other'; name: string };
 

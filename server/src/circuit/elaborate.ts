@@ -563,7 +563,15 @@ class Elaborator {
       case 'pwl': {
         const points: Array<[number, number]> = [];
         for (let i = 0; i + 1 < a.length; i += 2) points.push([a[i] ?? 0, a[i + 1] ?? 0]);
-        return { kind: 'pwl', points };
+        const pwl: Waveform = { kind: 'pwl', points };
+        for (const o of w.options) {
+          const k = o.name.text.toLowerCase();
+          const v = this.num(o.value, file, scope);
+          if (v === undefined) continue;
+          if (k === 'r') pwl.repeatFromS = v;
+          else if (k === 'td') pwl.delayS = v;
+        }
+        return pwl;
       }
       case 'sin':
         return { kind: 'sin', offset: at(0, 0), amplitude: at(1, 0), freqHz: at(2, 0), delayS: at(3, 0) };

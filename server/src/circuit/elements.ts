@@ -3,10 +3,11 @@
 // result can be cached with the statement.
 
 import type { AssignItem, GroupItem, Item, Statement, ValueItem, WordItem } from '../syntax/tree';
+import { spanRanges } from '../core/source';
 
 export type WaveformSyntax =
   | { kind: 'dc'; value: ValueItem | undefined }
-  | { kind: 'pulse' | 'pwl' | 'sin' | 'exp' | 'sffm' | 'am'; args: ValueItem[]; dc: ValueItem | undefined; range: GroupItem['range'] | WordItem['range'] };
+  | { kind: 'pulse' | 'pwl' | 'sin' | 'exp' | 'sffm' | 'am'; args: ValueItem[]; options: AssignItem[]; dc: ValueItem | undefined; range: GroupItem['range'] | WordItem['range'] };
 
 export type ElementSyntax =
   | { kind: 'mos'; name: WordItem; nodes: WordItem[]; model: WordItem | undefined; params: AssignItem[] }
@@ -79,7 +80,7 @@ export function interpretElement(stmt: Statement): ElementSyntax | undefined {
     }
     case 'v':
     case 'i':
-      return { kind: 'source', letter, name, nodes: words(positional.slice(0, 2)), waveform: readWaveform(positional.slice(2)), params };
+      return { kind: 'source', letter, name, nodes: words(positional.slice(0, 2)), waveform: readWaveform(positional.slice(2), params), params };
     case 'd': {
       const w = words(positional);
       return { kind: 'diode', name, nodes: w.slice(0, 2), model: w[2], params };
@@ -102,7 +103,7 @@ export function interpretElement(stmt: Statement): ElementSyntax | undefined {
 const WAVE_KINDS = new Set(['pulse', 'pwl', 'sin', 'exp', 'sffm', 'am']);
 
 /** `[DC] v`, `DC v PULSE(...)`, `PULSE v1 v2 ...` (with or without parentheses), `AC ...` ignored. */
-export function readWaveform(items: ValueItem[]): WaveformSyntax {
+export function readWaveform(items: ValueItem[], trailing: AssignItem[] = []): WaveformSyntax {
   let dc: ValueItem | undefined;
   for (let i = 0; i < items.length; i++) {
     const it = items[i]!;
@@ -121,8 +122,10 @@ export function readWaveform(items: ValueItem[]): WaveformSyntax {
     if (WAVE_KINDS.has(wk)) {
       const next = items[i + 1];
       const args = next?.kind === 'group' ? next.items.filter((x): x is ValueItem => x.kind !== 'assign') : items.slice(i + 1).filter((x) => !isKeyword(x));
-      const range = next?.kind === 'group' ? { start: it.range.start, end: next.range.end } : it.range;
-      return { kind: wk as 'pulse', args, dc, range };
+      const range = next?.kind === 'group' ? spanRanges(it.range, next.range) : it.range;
+      // PWL options such as r= (repeat) and td= sit inside the parentheses or after them
+      const options = [...(next?.kind === 'group' ? next.items.filter((x): x is AssignItem => x.kind === 'assign') : []), ...trailing];
+      return { kind: wk as 'pulse', args, options, dc, range };
     }
     if (it.kind !== 'group') dc ??= it;
   }

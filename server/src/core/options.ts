@@ -18,7 +18,17 @@ export interface EngineOptions {
   /** Elaborate only this subcircuit, standalone. */
   top?: string;
   includePaths?: string[];
+  /** Clocks for netlists with no periodic sources (a bare subcircuit): times in seconds. */
+  clocks?: { net: string; periodS?: number; highS?: number; delayS?: number; inverseOf?: string }[];
+  standby?: { net: string; level: 0 | 1; forS: number }[];
+  /** Stop after elaboration (very large files in the editor). */
+  frontEndOnly?: boolean;
+  /** Name rule for nets that are clocks (regular expression, case-insensitive). */
+  clockNamePattern?: string;
 }
+
+/** Applied to a net's leaf name (after the last '.'): clk..., ...clock..., phi1, ph2, ck, pre, prech_b. */
+export const DEFAULT_CLOCK_PATTERN = '^(.*clk.*|.*clock.*|phi[0-9]*[a-z_]*|ph[0-9]+[a-z_]*|ck[0-9]*[bn]?|pre(ch|charge)?(_?[bn]|_?[0-9]+)?)$';
 
 export const DEFAULT_SUPPLY_PATTERN = '^(vdd|vcc|vpwr|vpb|kapwr|lowlvpwr|vpwrin|avdd|dvdd|vddio|vdda|vddd|vcca|vccd)[a-z0-9_]*!?$';
 export const DEFAULT_GROUND_PATTERN = '^(0|gnd|vss|vgnd|vnb|agnd|dgnd|vssa|vssd|vssio)[a-z0-9_]*!?$';

@@ -3,6 +3,18 @@
 
 import type { Diagnostic } from '../core/diagnostics';
 import type { AnalysisResult } from '../engine';
+import { nodeFloatWindow } from '../analysis/classify';
+
+export interface ReportState {
+  phase: string;
+  state: string;
+  when?: Record<string, 0 | 1>;
+  float_cover?: Array<Record<string, 0 | 1>>;
+  contention_when?: Record<string, 0 | 1>;
+  kept_level?: 0 | 1;
+  exact?: boolean;
+  cut_off?: string[];
+}
 
 export interface ReportNode {
   name: string;
@@ -14,8 +26,20 @@ export interface ReportNode {
   kind: string;
   role?: 'storage' | 'internal';
   capacitance_F?: number | null;
-  states?: unknown[];
+  states?: ReportState[];
   float_window_s?: number | null;
+  /** True when it floats in every phase of the cycle: never restored. */
+  float_unbounded?: boolean;
+}
+
+export interface ReportPhase {
+  name: string;
+  circuit: string;
+  file: string;
+  start_s: number | null;
+  duration_s: number | null;
+  clocks: Record<string, 0 | 1>;
+  standby: boolean;
 }
 
 export interface ReportDiagnostic {
@@ -37,7 +61,7 @@ export interface Report {
   supplies: { net: string; volts: number | null; circuit: string; file: string; from: string }[];
   corners: { temp_C: number }[];
   budget_V: number | null;
-  phases: unknown[];
+  phases: ReportPhase[];
   nodes: ReportNode[];
   diagnostics: ReportDiagnostic[];
 }
@@ -77,21 +101,62 @@ export function addToReport(report: Report, file: string, result: AnalysisResult
     geometry_scale: design.geometryScale.value,
     geometry_scale_from: design.geometryScale.from,
   });
-  for (const c of design.circuits) {
+  design.circuits.forEach((c, ci) => {
     for (const s of c.supplies) report.supplies.push({ net: c.nets[s.net]!.name, volts: s.volts, circuit: c.name, file, from: s.from });
-    if (options.allNodes) {
-      for (const n of c.nets) {
-        report.nodes.push({
-          name: n.name,
+    const analysis = result.circuits[ci];
+    if (analysis) {
+      for (const p of analysis.plan.phases) {
+        report.phases.push({
+          name: p.name,
           circuit: c.name,
-          subckt: n.origin.subckt,
-          local: n.origin.local,
-          file: n.origin.file,
-          line: n.origin.range.start.line + 1,
-          kind: n.kind,
+          file,
+          start_s: p.startS,
+          duration_s: p.durationS,
+          clocks: Object.fromEntries([...p.clocks].map(([n, v]) => [c.nets[n]!.name, v])),
+          standby: p.standby,
         });
       }
     }
-  }
+    for (const n of c.nets) {
+      const cl = analysis?.classification;
+      const strong = cl ? cl.network.role[n.id] !== 0 : n.kind !== 'signal';
+      const states: ReportState[] = [];
+      let risky = false;
+      if (cl && !strong) {
+        cl.plan.phases.forEach((p, i) => {
+          const r = cl.perPhase[i]!.get(n.id);
+          const st: ReportState = { phase: p.name, state: r?.state ?? 'driven' };
+          if (r) {
+            risky = true;
+            if (r.when) st.when = r.when;
+            if (r.floatCover && r.state !== 'floating') st.float_cover = r.floatCover;
+            if (r.contentionWhen) st.contention_when = r.contentionWhen;
+            if (r.keptLevel !== undefined) st.kept_level = r.keptLevel;
+            if (!r.exact) st.exact = false;
+            if (r.cutOff?.length) st.cut_off = r.cutOff.map((m) => c.mosfets[m]!.name);
+          }
+          states.push(st);
+        });
+      }
+      if (!options.allNodes && !risky) continue;
+      const node: ReportNode = {
+        name: n.name,
+        circuit: c.name,
+        subckt: n.origin.subckt,
+        local: n.origin.local,
+        file: n.origin.file,
+        line: n.origin.range.start.line + 1,
+        kind: n.kind,
+      };
+      if (cl && !strong) {
+        node.role = cl.storage[n.id] ? 'storage' : 'internal';
+        node.states = states;
+        const w = nodeFloatWindow(cl, n.id);
+        node.float_window_s = w === Infinity ? null : w;
+        if (w === Infinity) node.float_unbounded = true;
+      }
+      report.nodes.push(node);
+    }
+  });
   for (const d of result.diagnostics) report.diagnostics.push(reportDiagnostic(d));
 }

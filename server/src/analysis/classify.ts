@@ -1,0 +1,420 @@
+// Per-phase classification of every node (DOMAIN 3): for each channel-connected component, the
+// gate nets that are not constants in the phase are free Boolean variables; enumerating them
+// tells, for each node, under which inputs a conducting path reaches a strong source. Candidate
+// witnesses (a float or a contention) are then checked against the logic that drives those gate
+// nets, traced back a few levels, so a net and its inverted or buffered copy are not treated as
+// independent, and feedback from the node itself (keepers, static latches) is recognised.
+
+import type { PhasePlan, Phase } from '../phases/phases';
+import { floatWindow } from '../phases/phases';
+import { evaluateComponent, newScratch, propagateConstants, X, type Scratch } from './constants';
+import { NetRole, SwitchKind, type Component, type SwitchNetwork } from './switchNetwork';
+
+export type NodeStateName = 'driven' | 'conditional' | 'floating' | 'kept' | 'contention' | 'undriven';
+
+export interface NodePhaseResult {
+  state: NodeStateName;
+  /** A minimal assignment of the free inputs under which the node floats (or contends). */
+  when?: Record<string, 0 | 1>;
+  /** Assignments (cubes) that together cover every input combination under which it floats. */
+  floatCover?: Array<Record<string, 0 | 1>>;
+  /** For contention: the input values that make two drivers fight. */
+  contentionWhen?: Record<string, 0 | 1>;
+  /** The level a keeper holds, for `kept`. */
+  keptLevel?: 0 | 1;
+  /** False when the component was too wide to enumerate or to check the witness exactly. */
+  exact: boolean;
+  /** MOSFETs (indices into circuit.mosfets) that are off around the floating node under `when`. */
+  cutOff?: number[];
+  /** Feedback devices holding a kept node. */
+  keepers?: number[];
+}
+
+export interface Classification {
+  network: SwitchNetwork;
+  plan: PhasePlan;
+  /** Per phase (same order as plan.phases): non-driven nodes only. */
+  perPhase: Array<Map<number, NodePhaseResult>>;
+  /** 1 for storage (drives a gate or is an output), 0 for internal. */
+  storage: Uint8Array;
+  /** Components too wide to enumerate, and components whose witnesses could not be checked. */
+  wideComponents: number;
+  uncheckedComponents: number;
+}
+
+/** Enumeration limits: free gate variables of one component, and leaves of a witness check. */
+export const MAX_FREE_GATES = 16;
+export const MAX_LEAVES = 14;
+const MAX_TRACE_DEPTH = 4;
+
+const B0 = 1;
+const B1 = 2;
+const BX = 4;
+/** Set when two different free drivers reach a node. */
+const BMULTI = 8;
+
+/** Source masks of the component's nodes for one assignment of gate values, through ON switches. */
+function reachOnce(net: SwitchNetwork, comp: Component, gateValue: (g: number) => number, skipSwitch: Uint8Array | undefined, local: Int32Array, values: Uint8Array, out: Uint8Array, outBase: number, driverId: Int32Array): void {
+  const sw = net.switches;
+  const role = net.role;
+  const nodes = comp.nodes;
+  for (let i = 0; i < nodes.length; i++) (out[outBase + i] = 0), (driverId[i] = -1);
+  let changed = true;
+  for (let pass = 0; changed && pass < nodes.length + 2; pass++) {
+    changed = false;
+    for (let k = 0; k < comp.switches.length; k++) {
+      if (skipSwitch && skipSwitch[k]) continue;
+      const s = sw[comp.switches[k]!]!;
+      if (s.kind !== SwitchKind.On) {
+        const g = gateValue(s.gate);
+        if (g === X) continue; // unknown gate: not a definite path
+        if ((s.kind === SwitchKind.N) !== (g === 1)) continue;
+      }
+      const la = role[s.a] === NetRole.Internal ? local[s.a]! : -1;
+      const lb = role[s.b] === NetRole.Internal ? local[s.b]! : -1;
+      const src = (n: number): [number, number] => {
+        const v = values[n]!;
+        return v === 0 ? [B0, -1] : v === 1 ? [B1, -1] : [BX, n];
+      };
+      const [ma, ia] = la >= 0 ? [out[outBase + la]!, driverId[la]!] : src(s.a);
+      const [mb, ib] = lb >= 0 ? [out[outBase + lb]!, driverId[lb]!] : src(s.b);
+      const merge = (m: number, id: number, tl: number) => {
+        let nm = out[outBase + tl]! | m;
+        let nid = driverId[tl]!;
+        if (id >= 0) {
+          if (nid === -1) nid = id;
+          else if (nid !== id && nid !== -2) (nid = -2), (nm |= BMULTI);
+        } else if (id === -2) (nid = -2), (nm |= BMULTI);
+        if (nm !== out[outBase + tl] || nid !== driverId[tl]) {
+          out[outBase + tl] = nm;
+          driverId[tl] = nid;
+          changed = true;
+        }
+      };
+      if (lb >= 0) merge(ma, ia, lb);
+      if (la >= 0) merge(mb, ib, la);
+    }
+  }
+}
+
+function contends(mask: number): boolean {
+  const rails = mask & (B0 | B1);
+  if (rails === (B0 | B1)) return true;
+  if (mask & BMULTI) return true;
+  return rails !== 0 && (mask & BX) !== 0;
+}
+
+interface TraceNode {
+  net: number;
+  comp: Component;
+}
+
+interface Trace {
+  leaves: number[];
+  leafKind: Array<'input' | 'opaque' | 'state'>;
+  /** Components to evaluate, children before parents. */
+  order: TraceNode[];
+  /** Gate nets whose value depends on a state leaf (feedback from the component itself). */
+  dependsOnState: Set<number>;
+}
+
+function trace(net: SwitchNetwork, comp: Component, free: number[], values: Uint8Array, depth: number): Trace {
+  const leaves: number[] = [];
+  const leafKind: Trace['leafKind'] = [];
+  const leafOf = new Map<number, number>();
+  const order: TraceNode[] = [];
+  const expanded = new Set<number>();
+  const dependsOnState = new Set<number>();
+  const onStack = new Set<number>();
+  const addLeaf = (g: number, kind: 'input' | 'opaque' | 'state') => {
+    if (!leafOf.has(g)) {
+      leafOf.set(g, leaves.length);
+      leaves.push(g);
+      leafKind.push(kind);
+    }
+    if (kind === 'state') dependsOnState.add(g);
+  };
+  // returns whether g depends on a state leaf
+  const visit = (g: number, d: number): boolean => {
+    if (values[g] !== X) return false;
+    if (net.role[g] !== NetRole.Internal) {
+      addLeaf(g, 'input');
+      return false;
+    }
+    const cid = net.componentOf[g]!;
+    if (cid === comp.id) {
+      addLeaf(g, 'state');
+      return true;
+    }
+    if (expanded.has(g)) return dependsOnState.has(g);
+    const d2 = net.components[cid]!;
+    const dGates = d2.gates.filter((h) => values[h] === X);
+    if (d >= depth || onStack.has(cid) || dGates.length > 6) {
+      addLeaf(g, 'opaque');
+      return false;
+    }
+    onStack.add(cid);
+    let dep = false;
+    for (const h of dGates) dep = visit(h, d + 1) || dep;
+    onStack.delete(cid);
+    expanded.add(g);
+    order.push({ net: g, comp: d2 });
+    if (dep) dependsOnState.add(g);
+    return dep;
+  };
+  for (const g of free) visit(g, 0);
+  return { leaves, leafKind, order, dependsOnState };
+}
+
+interface KeyFlags {
+  floatLevels: number; // bit0: floats holding 0, bit1: holding 1 (3 when it has no own state)
+  heldLevels: number;
+  contention: boolean;
+}
+
+/** Classifies every node of a circuit in every phase of the plan. */
+export function classify(net: SwitchNetwork, plan: PhasePlan): Classification {
+  const c = net.circuit;
+  const storage = new Uint8Array(c.nets.length);
+  for (let i = 0; i < c.nets.length; i++) if (net.drivesGate[i]) storage[i] = 1;
+  for (const o of c.outputs) storage[o] = 1;
+  const scratch = newScratch(c.nets.length);
+  const local = new Int32Array(c.nets.length).fill(-1);
+  const result: Classification = { network: net, plan, perPhase: [], storage, wideComponents: 0, uncheckedComponents: 0 };
+  const wide = new Set<number>();
+  const unchecked = new Set<number>();
+  for (const phase of plan.phases) {
+    const values = propagateConstants(net, phase.clocks, scratch);
+    const states = new Map<number, NodePhaseResult>();
+    for (const comp of net.components) {
+      for (let i = 0; i < comp.nodes.length; i++) local[comp.nodes[i]!] = i;
+      classifyComponent(net, comp, values, local, scratch, states, wide, unchecked);
+    }
+    for (let i = 0; i < c.nets.length; i++) if (net.unreachable[i]) states.set(i, { state: 'undriven', exact: true });
+    result.perPhase.push(states);
+  }
+  result.wideComponents = wide.size;
+  result.uncheckedComponents = unchecked.size;
+  return result;
+}
+
+function name(net: SwitchNetwork, n: number): string {
+  return net.circuit.nets[n]!.name;
+}
+
+function classifyComponent(
+  net: SwitchNetwork,
+  comp: Component,
+  values: Uint8Array,
+  local: Int32Array,
+  scratch: Scratch,
+  states: Map<number, NodePhaseResult>,
+  wide: Set<number>,
+  unchecked: Set<number>,
+): void {
+  const free = comp.gates.filter((g) => values[g] === X);
+  const nodes = comp.nodes;
+  const nn = nodes.length;
+  if (free.length > MAX_FREE_GATES) {
+    // Too wide to enumerate: only what is certain without the free gates is reported as driven.
+    wide.add(comp.id);
+    const out = new Uint8Array(values.length);
+    evaluateComponent(net, comp, values, out, scratch);
+    for (const node of nodes) if (out[node] === X) states.set(node, { state: 'conditional', exact: false });
+    return;
+  }
+  const gateIndex = new Map<number, number>();
+  free.forEach((g, i) => gateIndex.set(g, i));
+  const assignments = 1 << free.length;
+  const masks = new Uint8Array(assignments * nn);
+  const driverId = new Int32Array(nn);
+  let anyProblem = false;
+  for (let a = 0; a < assignments; a++) {
+    const gv = (g: number) => {
+      const i = gateIndex.get(g);
+      return i === undefined ? values[g]! : (a >> i) & 1;
+    };
+    reachOnce(net, comp, gv, undefined, local, values, masks, a * nn, driverId);
+    if (!anyProblem) for (let i = 0; i < nn; i++) if (masks[a * nn + i] === 0 || contends(masks[a * nn + i]!)) anyProblem = true;
+  }
+  if (!anyProblem) return;
+
+  // Check the candidate witnesses against the driving logic, as deep as the leaf budget allows.
+  let tr: Trace | undefined;
+  for (let depth = MAX_TRACE_DEPTH; depth >= 0; depth--) {
+    const t = trace(net, comp, free, values, depth);
+    if (t.leaves.length <= MAX_LEAVES) {
+      tr = t;
+      break;
+    }
+  }
+  if (!tr) {
+    unchecked.add(comp.id);
+    tr = { leaves: free, leafKind: free.map((g) => (net.componentOf[g] === comp.id ? 'state' : 'opaque')), order: [], dependsOnState: new Set(free.filter((g) => net.componentOf[g] === comp.id)) };
+  }
+  const feedback = new Uint8Array(comp.switches.length);
+  comp.switches.forEach((si, k) => {
+    const g = net.switches[si]!.gate;
+    if (g >= 0 && tr!.dependsOnState.has(g)) feedback[k] = 1;
+  });
+  const hasFeedback = feedback.some((x) => x === 1);
+  const noFbMasks = new Map<number, Uint8Array>();
+  const noFb = (a: number): Uint8Array => {
+    let m = noFbMasks.get(a);
+    if (!m) {
+      m = new Uint8Array(nn);
+      const gv = (g: number) => {
+        const i = gateIndex.get(g);
+        return i === undefined ? values[g]! : (a >> i) & 1;
+      };
+      reachOnce(net, comp, gv, feedback, local, values, m, 0, driverId);
+      noFbMasks.set(a, m);
+    }
+    return m;
+  };
+
+  const leaves = tr.leaves;
+  const stateLeafPos = new Map<number, number>(); // node -> leaf position
+  leaves.forEach((l, i) => tr!.leafKind[i] === 'state' && stateLeafPos.set(l, i));
+  const inputPositions = leaves.map((_, i) => i).filter((i) => tr!.leafKind[i] !== 'state');
+  const keyCount = 1 << inputPositions.length;
+  const flags: KeyFlags[][] = nodes.map(() => Array.from({ length: keyCount }, () => ({ floatLevels: 0, heldLevels: 0, contention: false })));
+  const work = values.slice();
+  const out = new Uint8Array(values.length);
+  const leafCount = 1 << leaves.length;
+  for (let la = 0; la < leafCount; la++) {
+    for (let i = 0; i < leaves.length; i++) work[leaves[i]!] = (la >> i) & 1;
+    for (const t of tr.order) {
+      evaluateComponent(net, t.comp, work, out, scratch);
+      work[t.net] = out[t.net]!;
+    }
+    let key = 0;
+    inputPositions.forEach((p, k) => (key |= ((la >> p) & 1) << k));
+    // The free gates' values; X ones (driven by a floating or contended net) take both values.
+    let base = 0;
+    const wild: number[] = [];
+    free.forEach((g, i) => {
+      const v = work[g]!;
+      if (v === X) wild.push(i);
+      else base |= v << i;
+    });
+    for (let w = 0; w < 1 << wild.length; w++) {
+      let a = base;
+      wild.forEach((i, k) => (a |= ((w >> k) & 1) << i));
+      // consistency: a node standing for its own stored value must not be driven to the other
+      let consistent = true;
+      for (const [node, pos] of stateLeafPos) {
+        const m = masks[a * nn + local[node]!]! & (B0 | B1);
+        const s = (la >> pos) & 1;
+        if ((m === B0 && s === 1) || (m === B1 && s === 0)) consistent = false;
+      }
+      if (!consistent) continue;
+      const nf = hasFeedback ? noFb(a) : undefined;
+      for (let i = 0; i < nn; i++) {
+        const node = nodes[i]!;
+        const full = masks[a * nn + i]!;
+        const pos = stateLeafPos.get(node);
+        const level = pos === undefined ? 3 : 1 << ((la >> pos) & 1);
+        const f = flags[i]![key]!;
+        if (full === 0) f.floatLevels |= level;
+        else if (nf && nf[i] === 0) f.heldLevels |= full & B1 ? 2 : 1;
+        if (contends(nf ? nf[i]! : full)) f.contention = true;
+      }
+    }
+  }
+
+  const inputNames = inputPositions.map((p) => name(net, leaves[p]!));
+  const cube = (key: number, mask: number): Record<string, 0 | 1> => {
+    const r: Record<string, 0 | 1> = {};
+    inputNames.forEach((n, k) => {
+      if ((mask >> k) & 1) r[n] = ((key >> k) & 1) as 0 | 1;
+    });
+    return r;
+  };
+  const exact = !unchecked.has(comp.id);
+  for (let i = 0; i < nn; i++) {
+    const node = nodes[i]!;
+    const fl = flags[i]!;
+    const floats = fl.map((f) => f.floatLevels !== 0 && f.heldLevels === 0);
+    const kept = fl.map((f) => f.floatLevels !== 0 && f.heldLevels !== 0);
+    const contentionKey = fl.findIndex((f) => f.contention);
+    const floatCount = floats.filter(Boolean).length;
+    let res: NodePhaseResult | undefined;
+    if (floatCount > 0) {
+      const cover = minimalCover(floats, inputNames.length).map(([k, m]) => cube(k, m));
+      res = { state: floatCount === keyCount ? 'floating' : 'conditional', exact, floatCover: cover };
+      if (floatCount !== keyCount) res.when = cover[0]!;
+      res.cutOff = cutOffDevices(net, comp, masks, nn, firstAssignmentFloating(masks, nn, i, free.length));
+    } else if (kept.some(Boolean)) {
+      const levels = fl.reduce((acc, f) => acc | f.heldLevels, 0);
+      res = { state: 'kept', exact, keptLevel: levels & 2 ? 1 : 0, keepers: comp.switches.filter((_, k) => feedback[k]).map((si) => net.switches[si]!.mosfet).filter((m) => m >= 0) };
+    }
+    if (contentionKey >= 0) {
+      const cw = cube(contentionKey, (1 << inputNames.length) - 1);
+      res = res ? { ...res, state: 'contention', contentionWhen: cw } : { state: 'contention', exact, contentionWhen: cw };
+    }
+    if (res) states.set(node, res);
+  }
+}
+
+function firstAssignmentFloating(masks: Uint8Array, nn: number, i: number, freeCount: number): number {
+  for (let a = 0; a < 1 << freeCount; a++) if (masks[a * nn + i] === 0) return a;
+  return 0;
+}
+
+/** The MOSFETs on the boundary of the floating island around `node` that are off under `a`. */
+function cutOffDevices(net: SwitchNetwork, comp: Component, masks: Uint8Array, nn: number, a: number): number[] {
+  const island = new Set<number>();
+  for (let i = 0; i < nn; i++) if (masks[a * nn + i] === 0) island.add(comp.nodes[i]!);
+  const out: number[] = [];
+  for (const si of comp.switches) {
+    const s = net.switches[si]!;
+    if (s.mosfet >= 0 && island.has(s.a) !== island.has(s.b)) out.push(s.mosfet);
+  }
+  return out;
+}
+
+/**
+ * A small set of cubes (value key, care mask) covering the true entries of a truth table over
+ * `vars` variables: greedy, each cube grown by dropping variables while it stays inside the set.
+ */
+export function minimalCover(table: boolean[], vars: number): Array<[number, number]> {
+  const covered = new Array<boolean>(table.length).fill(false);
+  const cubes: Array<[number, number]> = [];
+  const full = (1 << vars) - 1;
+  const inside = (key: number, mask: number): boolean => {
+    const freeBits = full & ~mask;
+    // every assignment of the dropped bits must be true
+    for (let sub = freeBits; ; sub = (sub - 1) & freeBits) {
+      if (!table[(key & mask) | sub]) return false;
+      if (sub === 0) break;
+    }
+    return true;
+  };
+  for (let k = 0; k < table.length && cubes.length < 16; k++) {
+    if (!table[k] || covered[k]) continue;
+    let mask = full;
+    for (let b = 0; b < vars; b++) {
+      const m2 = mask & ~(1 << b);
+      if (inside(k, m2)) mask = m2;
+    }
+    cubes.push([k & mask, mask]);
+    const freeBits = full & ~mask;
+    for (let sub = freeBits; ; sub = (sub - 1) & freeBits) {
+      covered[(k & mask) | sub] = true;
+      if (sub === 0) break;
+    }
+  }
+  return cubes;
+}
+
+/** Whether a node is left unrestored in a phase (floating, conditional, or floating while contended). */
+export function floatsIn(r: NodePhaseResult | undefined): boolean {
+  if (!r) return false;
+  return r.state === 'floating' || r.state === 'conditional' || r.state === 'undriven' || (r.state === 'contention' && r.floatCover !== undefined);
+}
+
+export function nodeFloatWindow(cl: Classification, node: number): number | null {
+  const idx = new Map<Phase, number>(cl.plan.phases.map((p, i) => [p, i]));
+  return floatWindow(cl.plan, (p) => floatsIn(cl.perPhase[idx.get(p)!]!.get(node)));
+}

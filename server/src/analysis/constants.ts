@@ -1,0 +1,119 @@
+// Constant propagation per phase: clocks are constants in a phase, and a ternary switch-level
+// evaluation (0, 1, X) carries them through the network until nothing changes, so buffered and
+// inverted clocks (and nets tied to rails through logic) are constants too.
+
+import { NetRole, SwitchKind, type Component, type SwitchNetwork } from './switchNetwork';
+
+export const X = 2;
+export type Ternary = 0 | 1 | 2;
+
+/** Conduction of a switch for a gate value: 1 on, 0 off, 2 unknown. */
+export function conducts(kind: SwitchKind, gate: number): Ternary {
+  if (kind === SwitchKind.On) return 1;
+  if (gate === X) return X;
+  return (kind === SwitchKind.N ? gate === 1 : gate === 0) ? 1 : 0;
+}
+
+/** The value every strong net has in a phase (inputs and free clocks X). */
+export function sourceValues(net: SwitchNetwork, clocks: Map<number, 0 | 1>): Uint8Array {
+  const v = new Uint8Array(net.role.length).fill(X);
+  for (let i = 0; i < v.length; i++) {
+    const r = net.role[i];
+    if (r === NetRole.Rail0) v[i] = 0;
+    else if (r === NetRole.Rail1) v[i] = 1;
+  }
+  for (const [k, val] of clocks) v[k] = val;
+  return v;
+}
+
+const B0 = 1;
+const B1 = 2;
+const BX = 4;
+
+/** Scratch masks indexed by net, reused across evaluations (reset per component). */
+export interface Scratch {
+  definite: Uint8Array;
+  possible: Uint8Array;
+}
+
+export function newScratch(netCount: number): Scratch {
+  return { definite: new Uint8Array(netCount), possible: new Uint8Array(netCount) };
+}
+
+/**
+ * Ternary values of a component's nodes given the current values of every net, written to
+ * `out[node]`. A node is 1 when a definitely conducting path reaches a 1 and no possibly
+ * conducting path reaches a 0 or an unknown driver; likewise 0; otherwise X (floating,
+ * contended or unknown).
+ */
+export function evaluateComponent(net: SwitchNetwork, comp: Component, values: Uint8Array, out: Uint8Array, scratch: Scratch): void {
+  const sw = net.switches;
+  const role = net.role;
+  const { definite, possible } = scratch;
+  for (const node of comp.nodes) definite[node] = possible[node] = 0;
+  const maskOf = (v: number) => (v === 0 ? B0 : v === 1 ? B1 : BX);
+  // Relax masks over switches until stable (bounded by the component's size).
+  let changed = true;
+  for (let pass = 0; changed && pass < comp.nodes.length + 2; pass++) {
+    changed = false;
+    for (const si of comp.switches) {
+      const s = sw[si]!;
+      const c = conducts(s.kind, s.gate >= 0 ? values[s.gate]! : 1);
+      if (c === 0) continue;
+      const aInt = role[s.a] === NetRole.Internal;
+      const bInt = role[s.b] === NetRole.Internal;
+      const da = aInt ? definite[s.a]! : maskOf(values[s.a]!);
+      const pa = aInt ? possible[s.a]! : da;
+      const db = bInt ? definite[s.b]! : maskOf(values[s.b]!);
+      const pb = bInt ? possible[s.b]! : db;
+      if (bInt) {
+        const nd = c === 1 ? db | da : db;
+        const np = pb | pa;
+        if (nd !== db || np !== pb) (definite[s.b] = nd), (possible[s.b] = np), (changed = true);
+      }
+      if (aInt) {
+        const nd = c === 1 ? definite[s.a]! | db : definite[s.a]!;
+        const np = possible[s.a]! | pb;
+        if (nd !== definite[s.a] || np !== possible[s.a]) (definite[s.a] = nd), (possible[s.a] = np), (changed = true);
+      }
+    }
+  }
+  for (const node of comp.nodes) {
+    const d = definite[node]!;
+    const p = possible[node]!;
+    out[node] = p === B1 && d & B1 ? 1 : p === B0 && d & B0 ? 0 : X;
+  }
+}
+
+/** Net values in a phase after propagating the phase's constants to a fixpoint. */
+export function propagateConstants(net: SwitchNetwork, clocks: Map<number, 0 | 1>, scratch: Scratch = newScratch(net.role.length)): Uint8Array {
+  const values = sourceValues(net, clocks);
+  const out = new Uint8Array(values.length);
+  const queued = new Uint8Array(net.components.length);
+  const queue: number[] = [];
+  for (const comp of net.components) {
+    queue.push(comp.id);
+    queued[comp.id] = 1;
+  }
+  // Each component re-evaluates only when a gate it depends on changes; the budget keeps
+  // pathological feedback (an oscillating ring) from looping.
+  let budget = net.components.length * 8 + 100;
+  for (let head = 0; head < queue.length && budget-- > 0; head++) {
+    const id = queue[head]!;
+    queued[id] = 0;
+    const comp = net.components[id]!;
+    evaluateComponent(net, comp, values, out, scratch);
+    for (const node of comp.nodes) {
+      const v = out[node]!;
+      if (values[node] === v) continue;
+      values[node] = v;
+      for (const g of net.gatedComponents[node]!) {
+        if (!queued[g]) {
+          queued[g] = 1;
+          queue.push(g);
+        }
+      }
+    }
+  }
+  return values;
+}
