@@ -46,6 +46,8 @@ export interface Classification {
 export const MAX_FREE_GATES = 16;
 export const MAX_LEAVES = 14;
 const MAX_TRACE_DEPTH = 4;
+/** Explicit capacitance that makes a node a storage node by itself (common practice, no source). */
+export const STORAGE_CAPACITOR_F = 5e-15;
 
 const B0 = 1;
 const B1 = 2;
@@ -148,7 +150,8 @@ function trace(net: SwitchNetwork, comp: Component, free: number[], values: Uint
     }
     if (expanded.has(g)) return dependsOnState.has(g);
     const d2 = net.components[cid]!;
-    const dGates = d2.gates.filter((h) => values[h] === X);
+    // gates that are nodes of the same component are computed with it, not leaves
+    const dGates = d2.gates.filter((h) => values[h] === X && net.componentOf[h] !== cid);
     if (d >= depth || onStack.has(cid) || dGates.length > 6) {
       addLeaf(g, 'opaque');
       return false;
@@ -178,6 +181,15 @@ export function classify(net: SwitchNetwork, plan: PhasePlan): Classification {
   const storage = new Uint8Array(c.nets.length);
   for (let i = 0; i < c.nets.length; i++) if (net.drivesGate[i]) storage[i] = 1;
   for (const o of c.outputs) storage[o] = 1;
+  // A node with a deliberate storage capacitor (DRAM-style) stores charge even if it drives no gate;
+  // the threshold keeps an extracted netlist's small parasitics from making every node storage.
+  const explicitF = new Float64Array(c.nets.length);
+  for (const cap of c.capacitors) {
+    if (cap.capacitanceF === undefined || cap.a === cap.b) continue;
+    explicitF[cap.a] += cap.capacitanceF;
+    explicitF[cap.b] += cap.capacitanceF;
+  }
+  for (let i = 0; i < c.nets.length; i++) if (explicitF[i]! >= STORAGE_CAPACITOR_F) storage[i] = 1;
   const scratch = newScratch(c.nets.length);
   const local = new Int32Array(c.nets.length).fill(-1);
   const result: Classification = { network: net, plan, perPhase: [], storage, wideComponents: 0, uncheckedComponents: 0 };
@@ -284,10 +296,7 @@ function classifyComponent(
   const leafCount = 1 << leaves.length;
   for (let la = 0; la < leafCount; la++) {
     for (let i = 0; i < leaves.length; i++) work[leaves[i]!] = (la >> i) & 1;
-    for (const t of tr.order) {
-      evaluateComponent(net, t.comp, work, out, scratch);
-      work[t.net] = out[t.net]!;
-    }
+    for (const t of tr.order) settle(net, t.comp, work, out, scratch);
     let key = 0;
     inputPositions.forEach((p, k) => (key |= ((la >> p) & 1) << k));
     // The free gates' values; X ones (driven by a floating or contended net) take both values.
@@ -299,6 +308,7 @@ function classifyComponent(
       else base |= v << i;
     });
     for (let w = 0; w < 1 << wild.length; w++) {
+      // w > 0 only for completions of unknown gates
       let a = base;
       wild.forEach((i, k) => (a |= ((w >> k) & 1) << i));
       // consistency: a node standing for its own stored value must not be driven to the other
@@ -318,7 +328,8 @@ function classifyComponent(
         const f = flags[i]![key]!;
         if (full === 0) f.floatLevels |= level;
         else if (nf && nf[i] === 0) f.heldLevels |= full & B1 ? 2 : 1;
-        if (contends(nf ? nf[i]! : full)) f.contention = true;
+        // a gate of unknown value (X) may float the node, but is no proof of a fight
+        if (w === 0 && contends(nf ? nf[i]! : full)) f.contention = true;
       }
     }
   }
@@ -354,6 +365,25 @@ function classifyComponent(
       res = res ? { ...res, state: 'contention', contentionWhen: cw } : { state: 'contention', exact, contentionWhen: cw };
     }
     if (res) states.set(node, res);
+  }
+}
+
+/**
+ * Evaluates a component whose own nodes may gate its devices (pass-gate logic, an inverter
+ * output feeding a transmission gate in the same group): repeat until its nodes stop changing.
+ */
+function settle(net: SwitchNetwork, comp: Component, work: Uint8Array, out: Uint8Array, scratch: Scratch): void {
+  for (const n of comp.nodes) work[n] = X;
+  for (let pass = 0; pass <= comp.nodes.length; pass++) {
+    evaluateComponent(net, comp, work, out, scratch);
+    let changed = false;
+    for (const n of comp.nodes) {
+      if (work[n] !== out[n]) {
+        work[n] = out[n]!;
+        changed = true;
+      }
+    }
+    if (!changed) return;
   }
 }
 

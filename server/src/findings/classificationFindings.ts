@@ -57,7 +57,7 @@ export function classificationFindings(c: Circuit, cl: Classification, options: 
       if (r.state === 'contention') k = true;
     }
     if (f && cl.storage[n]) floating.push(n);
-    if (k) contended.push(n);
+    if (k && cl.storage[n]) contended.push(n);
   }
   for (const g of groupByOrigin(c, floating).values()) {
     const n = g.first;
