@@ -46,6 +46,8 @@ export interface Classification {
 export const MAX_FREE_GATES = 16;
 export const MAX_LEAVES = 14;
 const MAX_TRACE_DEPTH = 4;
+/** A driving component with more free gates than this is not traced through. */
+const MAX_TRACE_GATES = 10;
 /** Explicit capacitance that makes a node a storage node by itself (common practice, no source). */
 export const STORAGE_CAPACITOR_F = 5e-15;
 
@@ -152,7 +154,7 @@ function trace(net: SwitchNetwork, comp: Component, free: number[], values: Uint
     const d2 = net.components[cid]!;
     // gates that are nodes of the same component are computed with it, not leaves
     const dGates = d2.gates.filter((h) => values[h] === X && net.componentOf[h] !== cid);
-    if (d >= depth || onStack.has(cid) || dGates.length > 6) {
+    if (d >= depth || onStack.has(cid) || dGates.length > MAX_TRACE_GATES) {
       addLeaf(g, 'opaque');
       return false;
     }
