@@ -6,6 +6,10 @@ import { memoryHost } from '../server/src/core/host';
 import { loadDeck } from '../server/src/circuit/deck';
 import { elaborate } from '../server/src/circuit/elaborate';
 import { parseNetlist } from '../server/src/syntax/parser';
+import { findClocks } from '../server/src/phases/clocks';
+import { buildPhases } from '../server/src/phases/phases';
+import { buildSwitchNetwork } from '../server/src/analysis/switchNetwork';
+import { classify } from '../server/src/analysis/classify';
 
 const LEAF_CELLS = `
 .subckt b_inv a y vdd vss
@@ -87,27 +91,35 @@ function measure(label: string, text: string): void {
   const { design } = elaborate(deck);
   const t2 = performance.now();
   const c = design.circuits[0]!;
+  const clocks = findClocks(c, design.directives, {});
+  const plan = buildPhases(c, clocks.clocks, design.directives, {});
+  const network = buildSwitchNetwork(c, clocks.clocks);
+  const cl = classify(network, plan);
+  const t3 = performance.now();
   const n = c.mosfets.length;
-  const mb = (x: number) => (x / 1048576).toFixed(0);
+  let risky = 0;
+  for (const m of cl.perPhase) risky += m.size;
   const mem = process.memoryUsage();
+  const ms = (x: number) => x.toFixed(0).padStart(5);
   console.log(
-    `${label.padEnd(14)} ${String(n).padStart(8)} transistors ${String(c.nets.length).padStart(8)} nets  ` +
-      `text ${(text.length / 1048576).toFixed(1).padStart(5)} MB  parse ${(t1 - t0).toFixed(0).padStart(5)} ms  ` +
-      `elaborate ${(t2 - t1).toFixed(0).padStart(5)} ms  total ${(t2 - t0).toFixed(0).padStart(5)} ms  ` +
-      `${Math.round(n / ((t2 - t0) / 1000)).toLocaleString('en-US').padStart(11)} transistors/s  heap ${mb(mem.heapUsed)} MB`,
+    `${label.padEnd(13)} ${String(n).padStart(8)} transistors ${String(c.nets.length).padStart(7)} nets ${String(network.components.length).padStart(7)} groups ` +
+      `${plan.phases.length} phases | parse ${ms(t1 - t0)} ms  elaborate ${ms(t2 - t1)} ms  classify ${ms(t3 - t2)} ms  total ${ms(t3 - t0)} ms | ` +
+      `${Math.round(n / ((t2 - t0) / 1000)).toLocaleString('en-US')} transistors/s to elaborate | heap ${(mem.heapUsed / 1048576).toFixed(0)} MB | ` +
+      `non-driven (node, phase) pairs ${risky}, wide groups ${cl.wideComponents}, unchecked ${cl.uncheckedComponents}`,
   );
 }
 
-main();
 
 function main(): void {
   const large = process.argv.includes('--large');
-const sizes = large ? [100_000, 1_000_000] : [100_000];
-// warm up the JIT and chevrotain's caches on a small case first, as an editor session would be
-measure('warm-up', hierarchicalNetlist(2_000));
-for (const n of sizes) {
-  measure('hierarchical', hierarchicalNetlist(n));
-  measure('flat', flatNetlist(n));
+  const sizes = large ? [100_000, 1_000_000] : [100_000];
+  // warm up the JIT and chevrotain's caches on a small case first, as an editor session would be
+  measure('warm-up', hierarchicalNetlist(2_000));
+  for (const n of sizes) {
+    measure('hierarchical', hierarchicalNetlist(n));
+    measure('flat', flatNetlist(n));
+  }
+  console.log(`peak RSS ${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MB (node ${process.version}, ${require('node:os').cpus().length} cores)`);
 }
-console.log(`peak RSS ${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MB (node ${process.version}, ${require('node:os').cpus().length} cores)`);
-}
+
+main();

@@ -57,48 +57,84 @@ const BX = 4;
 /** Set when two different free drivers reach a node. */
 const BMULTI = 8;
 
-/** Source masks of the component's nodes for one assignment of gate values, through ON switches. */
-function reachOnce(net: SwitchNetwork, comp: Component, gateValue: (g: number) => number, skipSwitch: Uint8Array | undefined, local: Int32Array, values: Uint8Array, out: Uint8Array, outBase: number, driverId: Int32Array): void {
+/**
+ * Source masks of the component's nodes for one assignment `a` of the free gates (gate net g has
+ * bit gatePos[g] of `a`; other gates take their phase value), through ON switches. Written to
+ * out[outBase + local index]; driverId tracks which free driver reached a node.
+ */
+function reachOnce(
+  net: SwitchNetwork,
+  comp: Component,
+  gatePos: Int32Array,
+  a: number,
+  skipSwitch: Uint8Array | undefined,
+  local: Int32Array,
+  values: Uint8Array,
+  out: Uint8Array,
+  outBase: number,
+  driverId: Int32Array,
+): void {
   const sw = net.switches;
   const role = net.role;
   const nodes = comp.nodes;
-  for (let i = 0; i < nodes.length; i++) (out[outBase + i] = 0), (driverId[i] = -1);
+  for (let i = 0; i < nodes.length; i++) {
+    out[outBase + i] = 0;
+    driverId[i] = -1;
+  }
   let changed = true;
   for (let pass = 0; changed && pass < nodes.length + 2; pass++) {
     changed = false;
     for (let k = 0; k < comp.switches.length; k++) {
-      if (skipSwitch && skipSwitch[k]) continue;
+      if (skipSwitch !== undefined && skipSwitch[k]) continue;
       const s = sw[comp.switches[k]!]!;
       if (s.kind !== SwitchKind.On) {
-        const g = gateValue(s.gate);
+        const gp = gatePos[s.gate]!;
+        const g = gp >= 0 ? (a >> gp) & 1 : values[s.gate]!;
         if (g === X) continue; // unknown gate: not a definite path
         if ((s.kind === SwitchKind.N) !== (g === 1)) continue;
       }
       const la = role[s.a] === NetRole.Internal ? local[s.a]! : -1;
       const lb = role[s.b] === NetRole.Internal ? local[s.b]! : -1;
-      const src = (n: number): [number, number] => {
-        const v = values[n]!;
-        return v === 0 ? [B0, -1] : v === 1 ? [B1, -1] : [BX, n];
-      };
-      const [ma, ia] = la >= 0 ? [out[outBase + la]!, driverId[la]!] : src(s.a);
-      const [mb, ib] = lb >= 0 ? [out[outBase + lb]!, driverId[lb]!] : src(s.b);
-      const merge = (m: number, id: number, tl: number) => {
-        let nm = out[outBase + tl]! | m;
-        let nid = driverId[tl]!;
-        if (id >= 0) {
-          if (nid === -1) nid = id;
-          else if (nid !== id && nid !== -2) (nid = -2), (nm |= BMULTI);
-        } else if (id === -2) (nid = -2), (nm |= BMULTI);
-        if (nm !== out[outBase + tl] || nid !== driverId[tl]) {
-          out[outBase + tl] = nm;
-          driverId[tl] = nid;
-          changed = true;
-        }
-      };
-      if (lb >= 0) merge(ma, ia, lb);
-      if (la >= 0) merge(mb, ib, la);
+      let ma: number, ia: number, mb: number, ib: number;
+      if (la >= 0) {
+        ma = out[outBase + la]!;
+        ia = driverId[la]!;
+      } else {
+        const v = values[s.a]!;
+        ma = v === 0 ? B0 : v === 1 ? B1 : BX;
+        ia = v === X ? s.a : -1;
+      }
+      if (lb >= 0) {
+        mb = out[outBase + lb]!;
+        ib = driverId[lb]!;
+      } else {
+        const v = values[s.b]!;
+        mb = v === 0 ? B0 : v === 1 ? B1 : BX;
+        ib = v === X ? s.b : -1;
+      }
+      if (lb >= 0 && mergeInto(out, outBase, driverId, lb, ma, ia)) changed = true;
+      if (la >= 0 && mergeInto(out, outBase, driverId, la, mb, ib)) changed = true;
     }
   }
+}
+
+function mergeInto(out: Uint8Array, outBase: number, driverId: Int32Array, tl: number, m: number, id: number): boolean {
+  let nm = out[outBase + tl]! | m;
+  let nid = driverId[tl]!;
+  if (id >= 0) {
+    if (nid === -1) nid = id;
+    else if (nid !== id && nid !== -2) {
+      nid = -2;
+      nm |= BMULTI;
+    }
+  } else if (id === -2) {
+    nid = -2;
+    nm |= BMULTI;
+  }
+  if (nm === out[outBase + tl] && nid === driverId[tl]) return false;
+  out[outBase + tl] = nm;
+  driverId[tl] = nid;
+  return true;
 }
 
 function contends(mask: number): boolean {
@@ -171,11 +207,6 @@ function trace(net: SwitchNetwork, comp: Component, free: number[], values: Uint
   return { leaves, leafKind, order, dependsOnState };
 }
 
-interface KeyFlags {
-  floatLevels: number; // bit0: floats holding 0, bit1: holding 1 (3 when it has no own state)
-  heldLevels: number;
-  contention: boolean;
-}
 
 /** Classifies every node of a circuit in every phase of the plan. */
 export function classify(net: SwitchNetwork, plan: PhasePlan): Classification {
@@ -197,12 +228,16 @@ export function classify(net: SwitchNetwork, plan: PhasePlan): Classification {
   const result: Classification = { network: net, plan, perPhase: [], storage, wideComponents: 0, uncheckedComponents: 0 };
   const wide = new Set<number>();
   const unchecked = new Set<number>();
+  const buffers: Buffers = { gatePos: new Int32Array(c.nets.length).fill(-1), masks: new Uint8Array(1024), driverId: new Int32Array(64) };
   for (const phase of plan.phases) {
     const values = propagateConstants(net, phase.clocks, scratch);
     const states = new Map<number, NodePhaseResult>();
+    // `work` is the phase's values, changed by a witness check and restored after it
+    const work = values.slice();
+    const out = new Uint8Array(values.length);
     for (const comp of net.components) {
       for (let i = 0; i < comp.nodes.length; i++) local[comp.nodes[i]!] = i;
-      classifyComponent(net, comp, values, local, scratch, states, wide, unchecked);
+      classifyComponent(net, comp, values, local, scratch, states, wide, unchecked, work, out, storage, buffers);
     }
     for (let i = 0; i < c.nets.length; i++) if (net.unreachable[i]) states.set(i, { state: 'undriven', exact: true });
     result.perPhase.push(states);
@@ -225,33 +260,83 @@ function classifyComponent(
   states: Map<number, NodePhaseResult>,
   wide: Set<number>,
   unchecked: Set<number>,
+  work: Uint8Array,
+  out: Uint8Array,
+  storage: Uint8Array,
+  buffers: Buffers,
 ): void {
   const free = comp.gates.filter((g) => values[g] === X);
   const nodes = comp.nodes;
-  const nn = nodes.length;
   if (free.length > MAX_FREE_GATES) {
     // Too wide to enumerate: only what is certain without the free gates is reported as driven.
     wide.add(comp.id);
-    const out = new Uint8Array(values.length);
     evaluateComponent(net, comp, values, out, scratch);
     for (const node of nodes) if (out[node] === X) states.set(node, { state: 'conditional', exact: false });
     return;
   }
-  const gateIndex = new Map<number, number>();
-  free.forEach((g, i) => gateIndex.set(g, i));
+  const gatePos = buffers.gatePos;
+  free.forEach((g, i) => (gatePos[g] = i));
+  try {
+    classifyEnumerated(net, comp, values, local, scratch, states, unchecked, work, out, storage, free, buffers);
+  } finally {
+    for (const g of free) gatePos[g] = -1;
+  }
+}
+
+/** Buffers reused across components (grown on demand) so the inner loops allocate nothing. */
+interface Buffers {
+  gatePos: Int32Array;
+  masks: Uint8Array;
+  driverId: Int32Array;
+}
+
+function classifyEnumerated(
+  net: SwitchNetwork,
+  comp: Component,
+  values: Uint8Array,
+  local: Int32Array,
+  scratch: Scratch,
+  states: Map<number, NodePhaseResult>,
+  unchecked: Set<number>,
+  work: Uint8Array,
+  out: Uint8Array,
+  storage: Uint8Array,
+  free: number[],
+  buffers: Buffers,
+): void {
+  const nodes = comp.nodes;
+  const nn = nodes.length;
+  const gatePos = buffers.gatePos;
   const assignments = 1 << free.length;
-  const masks = new Uint8Array(assignments * nn);
-  const driverId = new Int32Array(nn);
+  if (buffers.masks.length < assignments * nn) buffers.masks = new Uint8Array(Math.max(assignments * nn, buffers.masks.length * 2));
+  const masks = buffers.masks;
+  if (buffers.driverId.length < nn) buffers.driverId = new Int32Array(Math.max(nn, buffers.driverId.length * 2));
+  const driverId = buffers.driverId;
   let anyProblem = false;
+  let storageProblem = false;
   for (let a = 0; a < assignments; a++) {
-    const gv = (g: number) => {
-      const i = gateIndex.get(g);
-      return i === undefined ? values[g]! : (a >> i) & 1;
-    };
-    reachOnce(net, comp, gv, undefined, local, values, masks, a * nn, driverId);
-    if (!anyProblem) for (let i = 0; i < nn; i++) if (masks[a * nn + i] === 0 || contends(masks[a * nn + i]!)) anyProblem = true;
+    reachOnce(net, comp, gatePos, a, undefined, local, values, masks, a * nn, driverId);
+    for (let i = 0; i < nn; i++) {
+      const m = masks[a * nn + i]!;
+      if (m === 0 || contends(m)) {
+        anyProblem = true;
+        if (storage[nodes[i]!] || m !== 0) storageProblem = true;
+      }
+    }
   }
   if (!anyProblem) return;
+  if (!storageProblem) {
+    // Only internal stack nodes float (a NAND's middle node with both inputs low): harmless by
+    // themselves, so the float condition over the gate nets is kept without the deeper check.
+    fromGateEnumeration(net, comp, free, masks, states, free.every((g) => net.role[g] !== NetRole.Internal), storage);
+    return;
+  }
+  if (independentGates(net, comp, free, values, MAX_TRACE_DEPTH)) {
+    // The free gates depend on disjoint inputs and not on this component: every assignment of
+    // them can happen, so the enumeration over the gates is already exact.
+    fromGateEnumeration(net, comp, free, masks, states, true, storage);
+    return;
+  }
 
   // Check the candidate witnesses against the driving logic, as deep as the leaf budget allows.
   let tr: Trace | undefined;
@@ -277,11 +362,7 @@ function classifyComponent(
     let m = noFbMasks.get(a);
     if (!m) {
       m = new Uint8Array(nn);
-      const gv = (g: number) => {
-        const i = gateIndex.get(g);
-        return i === undefined ? values[g]! : (a >> i) & 1;
-      };
-      reachOnce(net, comp, gv, feedback, local, values, m, 0, driverId);
+      reachOnce(net, comp, gatePos, a, feedback, local, values, m, 0, driverId);
       noFbMasks.set(a, m);
     }
     return m;
@@ -292,9 +373,9 @@ function classifyComponent(
   leaves.forEach((l, i) => tr!.leafKind[i] === 'state' && stateLeafPos.set(l, i));
   const inputPositions = leaves.map((_, i) => i).filter((i) => tr!.leafKind[i] !== 'state');
   const keyCount = 1 << inputPositions.length;
-  const flags: KeyFlags[][] = nodes.map(() => Array.from({ length: keyCount }, () => ({ floatLevels: 0, heldLevels: 0, contention: false })));
-  const work = values.slice();
-  const out = new Uint8Array(values.length);
+  // per (node, key): bit0/1 floats holding 0/1, bit2/3 held by feedback at 0/1, bit4 contention
+  const flags = new Uint8Array(nn * keyCount);
+  const touched = [...leaves, ...tr.order.flatMap((t) => t.comp.nodes)];
   const leafCount = 1 << leaves.length;
   for (let la = 0; la < leafCount; la++) {
     for (let i = 0; i < leaves.length; i++) work[leaves[i]!] = (la >> i) & 1;
@@ -327,15 +408,16 @@ function classifyComponent(
         const full = masks[a * nn + i]!;
         const pos = stateLeafPos.get(node);
         const level = pos === undefined ? 3 : 1 << ((la >> pos) & 1);
-        const f = flags[i]![key]!;
-        if (full === 0) f.floatLevels |= level;
-        else if (nf && nf[i] === 0) f.heldLevels |= full & B1 ? 2 : 1;
+        const fi = i * keyCount + key;
+        if (full === 0) flags[fi]! |= level;
+        else if (nf && nf[i] === 0) flags[fi]! |= full & B1 ? 8 : 4;
         // a gate of unknown value (X) may float the node, but is no proof of a fight
-        if (w === 0 && contends(nf ? nf[i]! : full)) f.contention = true;
+        if (w === 0 && contends(nf ? nf[i]! : full)) flags[fi]! |= 16;
       }
     }
   }
 
+  for (const n of touched) work[n] = values[n]!;
   const inputNames = inputPositions.map((p) => name(net, leaves[p]!));
   const cube = (key: number, mask: number): Record<string, 0 | 1> => {
     const r: Record<string, 0 | 1> = {};
@@ -347,10 +429,10 @@ function classifyComponent(
   const exact = !unchecked.has(comp.id);
   for (let i = 0; i < nn; i++) {
     const node = nodes[i]!;
-    const fl = flags[i]!;
-    const floats = fl.map((f) => f.floatLevels !== 0 && f.heldLevels === 0);
-    const kept = fl.map((f) => f.floatLevels !== 0 && f.heldLevels !== 0);
-    const contentionKey = fl.findIndex((f) => f.contention);
+    const fl = flags.subarray(i * keyCount, (i + 1) * keyCount);
+    const floats = Array.from(fl, (f) => (f & 3) !== 0 && (f & 12) === 0);
+    const kept = Array.from(fl, (f) => (f & 3) !== 0 && (f & 12) !== 0);
+    const contentionKey = fl.findIndex((f) => (f & 16) !== 0);
     const floatCount = floats.filter(Boolean).length;
     let res: NodePhaseResult | undefined;
     if (floatCount > 0) {
@@ -359,8 +441,8 @@ function classifyComponent(
       if (floatCount !== keyCount) res.when = cover[0]!;
       res.cutOff = cutOffDevices(net, comp, masks, nn, firstAssignmentFloating(masks, nn, i, free.length));
     } else if (kept.some(Boolean)) {
-      const levels = fl.reduce((acc, f) => acc | f.heldLevels, 0);
-      res = { state: 'kept', exact, keptLevel: levels & 2 ? 1 : 0, keepers: comp.switches.filter((_, k) => feedback[k]).map((si) => net.switches[si]!.mosfet).filter((m) => m >= 0) };
+      const levels = fl.reduce((acc, f) => acc | f, 0);
+      res = { state: 'kept', exact, keptLevel: levels & 8 ? 1 : 0, keepers: comp.switches.filter((_, k) => feedback[k]).map((si) => net.switches[si]!.mosfet).filter((m) => m >= 0) };
     }
     if (contentionKey >= 0) {
       const cw = cube(contentionKey, (1 << inputNames.length) - 1);
@@ -387,6 +469,80 @@ function settle(net: SwitchNetwork, comp: Component, work: Uint8Array, out: Uint
     }
     if (!changed) return;
   }
+}
+
+/** States straight from the enumeration over the free gates (no deeper witness check needed). */
+function fromGateEnumeration(net: SwitchNetwork, comp: Component, free: number[], masks: Uint8Array, states: Map<number, NodePhaseResult>, exact: boolean, storage: Uint8Array): void {
+  const nn = comp.nodes.length;
+  const assignments = 1 << free.length;
+  const names = free.map((g) => name(net, g));
+  const cube = (k: number, m: number) => {
+    const r: Record<string, 0 | 1> = {};
+    names.forEach((n, b) => {
+      if ((m >> b) & 1) r[n] = ((k >> b) & 1) as 0 | 1;
+    });
+    return r;
+  };
+  for (let i = 0; i < nn; i++) {
+    let count = 0;
+    let contentionAt = -1;
+    for (let a = 0; a < assignments; a++) {
+      const m = masks[a * nn + i]!;
+      if (m === 0) count++;
+      else if (contentionAt < 0 && contends(m)) contentionAt = a;
+    }
+    if (count === 0 && contentionAt < 0) continue;
+    let res: NodePhaseResult | undefined;
+    if (count > 0) {
+      const table: boolean[] = new Array(assignments);
+      for (let a = 0; a < assignments; a++) table[a] = masks[a * nn + i] === 0;
+      const cover = minimalCover(table, free.length).map(([k, m]) => cube(k, m));
+      res = { state: count === assignments ? 'floating' : 'conditional', exact, floatCover: cover };
+      if (count !== assignments) res.when = cover[0]!;
+      // the devices that cut it off matter for the findings, which are about storage nodes
+      if (storage[comp.nodes[i]!]) res.cutOff = cutOffDevices(net, comp, masks, nn, firstAssignmentFloating(masks, nn, i, free.length));
+    }
+    if (contentionAt >= 0) {
+      const cw = cube(contentionAt, assignments - 1);
+      res = res ? { ...res, state: 'contention', contentionWhen: cw } : { state: 'contention', exact, contentionWhen: cw };
+    }
+    if (res) states.set(comp.nodes[i]!, res);
+  }
+}
+
+/**
+ * True when each free gate's logic, traced back `depth` levels, reaches inputs no other free gate
+ * reaches and none of the component's own nodes: then the gates are independent variables.
+ */
+function independentGates(net: SwitchNetwork, comp: Component, free: number[], values: Uint8Array, depth: number): boolean {
+  const owner = new Map<number, number>();
+  // an undriven gate has no value at all: leave it to the full check, which treats it as unknown
+  if (free.some((g) => net.unreachable[g])) return false;
+  for (let gi = 0; gi < free.length; gi++) {
+    const seen = new Set<number>();
+    const stack: Array<[number, number]> = [[free[gi]!, 0]];
+    while (stack.length) {
+      const [g, d] = stack.pop()!;
+      if (values[g] !== X || seen.has(g)) continue;
+      seen.add(g);
+      const o = owner.get(g);
+      if (o !== undefined && o !== gi) return false;
+      owner.set(g, gi);
+      if (net.role[g] !== NetRole.Internal) continue;
+      const cid = net.componentOf[g]!;
+      if (cid === comp.id) return false;
+      if (d >= depth) continue;
+      const d2 = net.components[cid]!;
+      for (const n of d2.nodes) {
+        if (n === g) continue;
+        const on = owner.get(n);
+        if (on !== undefined && on !== gi) return false;
+        owner.set(n, gi);
+      }
+      for (const h of d2.gates) if (values[h] === X) stack.push([h, d + 1]);
+    }
+  }
+  return true;
 }
 
 function firstAssignmentFloating(masks: Uint8Array, nn: number, i: number, freeCount: number): number {
