@@ -23,6 +23,8 @@ const USAGE = `usage: tidemark check <netlist|folder>... [options]
   --scale <m>                metres per written unit of W and L when the netlist does not say (e.g. 1u)
   --supply <net>=<volts>     declare a supply (repeatable)
   --include-path <dir>       search folder for .include and .lib (repeatable)
+  --clock <net>,period=<t>,high=<t>[,delay=<t>] | <net>,inverse=<net>   declare a clock (repeatable)
+  --standby <net>=<0|1>,for=<t>   a scenario with that clock held (repeatable)
   --no-colour                plain text even on a terminal
 `;
 
@@ -98,6 +100,33 @@ function parseArgs(argv: string[]): CliArgs {
         const v = m ? parseSpiceNumber(m[2]!) : undefined;
         if (!m || v === undefined) throw new UsageError('--supply needs <net>=<volts>');
         (a.options.supplies ??= {})[m[1]!.toLowerCase()] = v;
+        break;
+      }
+      case '--clock': {
+        // --clock clk,period=1n,high=0.5n[,delay=0.1n]  or  --clock clkb,inverse=clk
+        const [netName, ...kvs] = take().split(',');
+        const k: NonNullable<EngineOptions['clocks']>[number] = { net: netName!.toLowerCase() };
+        for (const kv of kvs) {
+          const [key, val] = kv.split('=');
+          if (key === 'inverse' && val) k.inverseOf = val.toLowerCase();
+          else {
+            const v = val === undefined ? undefined : parseSpiceNumber(val.replace(/s$/i, ''));
+            if (v === undefined || (key !== 'period' && key !== 'high' && key !== 'delay')) throw new UsageError(`--clock: cannot read '${kv}' (use period=, high=, delay= or inverse=)`);
+            if (key === 'period') k.periodS = v;
+            else if (key === 'high') k.highS = v;
+            else k.delayS = v;
+          }
+        }
+        if (!netName || (!k.inverseOf && (k.periodS === undefined || k.highS === undefined))) throw new UsageError('--clock needs <net>,period=<t>,high=<t> or <net>,inverse=<net>');
+        (a.options.clocks ??= []).push(k);
+        break;
+      }
+      case '--standby': {
+        // --standby clk=0,for=1m
+        const m = /^([^=,]+)=([01]),for=(.+)$/.exec(take());
+        const forS = m ? parseSpiceNumber(m[3]!.replace(/s$/i, '')) : undefined;
+        if (!m || forS === undefined) throw new UsageError('--standby needs <net>=<0|1>,for=<t>');
+        (a.options.standby ??= []).push({ net: m[1]!.toLowerCase(), level: m[2] === '1' ? 1 : 0, forS });
         break;
       }
       case '--include-path':

@@ -141,6 +141,12 @@ export const RULES = {
     explanation:
       'The keeper-to-pull-down strength ratio is above the common-practice range (about 0.1 to 0.3), so evaluation is slowed or may fail.',
   },
+  'hyperperiod-capped': {
+    severity: 'info',
+    title: 'Clock cycle capped',
+    explanation:
+      'The clocks have periods whose common multiple is very long (or would need thousands of phases), so the phases are built over a capped stretch of time. Float windows longer than that stretch are not seen; declare clocks with commensurate periods if that matters.',
+  },
   'clock-unknown': {
     severity: 'warning',
     title: 'Clock without a waveform',

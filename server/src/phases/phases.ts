@@ -98,7 +98,7 @@ export function buildPhases(c: Circuit, clocks: Clock[], directives: DirectiveSe
       const src = c.sources.find((s) => s.p === first.net);
       const where = src?.origin ?? c.nets[first.net]!.origin;
       diagnostics.push(
-        diag('clock-unknown', where.file, where.range, `the clocks' common period is longer than ${MAX_PERIODS} periods of the slowest clock; phases are built over ${(H * 1e9).toPrecision(3)} ns only`, 'info'),
+        diag('hyperperiod-capped', where.file, where.range, `the clocks' common period is longer than ${MAX_PERIODS} periods of the slowest clock; phases are built over ${(H * 1e9).toPrecision(3)} ns only`, 'info'),
       );
     }
     // Intervals between edges; adjacent ones with the same clock values merge (wrap included).
@@ -129,8 +129,8 @@ export function buildPhases(c: Circuit, clocks: Clock[], directives: DirectiveSe
     }
     for (const p of raw) {
       // whole femtoseconds, so reports do not show float noise (7.300000000000001e-10)
-      p.startS = Math.round(p.startS! / FS) * FS;
-      p.durationS = Math.round(p.durationS! / FS) * FS;
+      p.startS = Math.round(p.startS! / FS) / 1e15;
+      p.durationS = Math.round(p.durationS! / FS) / 1e15;
     }
     cycle = raw;
     phases.push(...raw);
