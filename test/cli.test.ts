@@ -41,6 +41,38 @@ describe('tidemark check', () => {
     expect(j.nodes.find((n: { name: string }) => n.name === 'bit0_q')).toBeDefined();
   });
 
+  it('shows phases, states and witnesses in the JSON', () => {
+    const dir = tempDir({
+      'dom.sp': [
+        'domino AND',
+        '.model nch nmos level=1',
+        '.model pch pmos level=1',
+        '* tidemark: input a b',
+        'Mpre dyn clk vdd vdd pch w=1u l=0.1u',
+        'Mna dyn a n1 0 nch w=1u l=0.1u',
+        'Mnb n1 b ft 0 nch w=1u l=0.1u',
+        'Mft ft clk 0 0 nch w=1u l=0.1u',
+        'Mi out dyn 0 0 nch w=1u l=0.1u',
+        'Mj out dyn vdd vdd pch w=1u l=0.1u',
+        'vdd vdd 0 1',
+        'vclk clk 0 PULSE(0 1 0 0 0 0.5n 1n)',
+        '.end',
+      ].join('\n'),
+    });
+    const r = tidemark(['check', 'dom.sp', '--format', 'json'], dir);
+    const j = JSON.parse(r.stdout);
+    expect(j.phases.map((p: { name: string; duration_s: number }) => [p.name, p.duration_s])).toEqual([
+      ['clk=1', 5e-10],
+      ['clk=0', 5e-10],
+    ]);
+    const dyn = j.nodes.find((n: { name: string }) => n.name === 'dyn');
+    expect(dyn).toMatchObject({ role: 'storage', float_window_s: 5e-10, states: [{ phase: 'clk=1', state: 'conditional' }, { phase: 'clk=0', state: 'driven' }] });
+    expect(dyn.states[0].when).toBeDefined();
+    expect(Object.values(dyn.states[0].when).every((v) => v === 0)).toBe(true);
+    expect(j.diagnostics).toContainEqual(expect.objectContaining({ rule: 'floating-node', node: 'dyn', severity: 'warning', line: 5 }));
+    expect(r.code).toBe(0);
+  });
+
   it('exits 1 on an error finding, 0 with --fail-on never, and reports file:line', () => {
     const dir = tempDir({ 'bad.sp': 'bad deck\r\nM1 a b 0 0 nch w={1u\r\n.end\r\n' });
     const r = tidemark(['check', 'bad.sp', '--no-colour'], dir);

@@ -57,7 +57,23 @@ export interface ReportDiagnostic {
 export interface Report {
   schema: 1;
   tool: { name: 'tidemark'; version: string };
-  netlists: { file: string; title: string | null; circuits: { name: string; standalone: boolean; nets: number; mosfets: number; instances: number }[]; geometry_scale: number; geometry_scale_from: string }[];
+  netlists: {
+    file: string;
+    title: string | null;
+    circuits: {
+      name: string;
+      standalone: boolean;
+      nets: number;
+      mosfets: number;
+      instances: number;
+      /** Channel-connected groups with more free gate inputs than the enumeration limit. */
+      wide_groups?: number;
+      /** Groups whose witnesses could not be checked against their driving logic. */
+      unchecked_groups?: number;
+    }[];
+    geometry_scale: number;
+    geometry_scale_from: string;
+  }[];
   supplies: { net: string; volts: number | null; circuit: string; file: string; from: string }[];
   corners: { temp_C: number }[];
   budget_V: number | null;
@@ -97,7 +113,17 @@ export function addToReport(report: Report, file: string, result: AnalysisResult
   report.netlists.push({
     file,
     title: design.title ?? null,
-    circuits: design.circuits.map((c) => ({ name: c.name, standalone: c.standalone, nets: c.nets.length, mosfets: c.mosfets.length, instances: c.instances.length })),
+    circuits: design.circuits.map((c, i) => {
+      const cl = result.circuits[i]?.classification;
+      return {
+        name: c.name,
+        standalone: c.standalone,
+        nets: c.nets.length,
+        mosfets: c.mosfets.length,
+        instances: c.instances.length,
+        ...(cl ? { wide_groups: cl.wideComponents, unchecked_groups: cl.uncheckedComponents } : {}),
+      };
+    }),
     geometry_scale: design.geometryScale.value,
     geometry_scale_from: design.geometryScale.from,
   });
