@@ -21,8 +21,13 @@ export async function runNgspice(netlist: string): Promise<Map<string, number[]>
   const r = await s.runSim();
   const out = new Map<string, number[]>();
   if (r.dataType === 'real') for (const d of r.data) out.set(d.name.toLowerCase(), d.values as number[]);
-  const errors = s.getError();
-  if (errors.length) throw new Error('ngspice: ' + errors.join('\n'));
+  // model-parameter warnings are not failures; anything else, or no output at all, is
+  const errors = s
+    .getError()
+    .flatMap((e) => e.split('\n'))
+    .map((e) => e.trim())
+    .filter((e) => e && !/^warning/i.test(e) && !/^checking parameters/i.test(e));
+  if (errors.length || out.size === 0) throw new Error('ngspice: ' + (errors.join('\n') || 'no output'));
   return out;
 }
 
