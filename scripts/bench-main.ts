@@ -10,6 +10,8 @@ import { findClocks } from '../server/src/phases/clocks';
 import { buildPhases } from '../server/src/phases/phases';
 import { buildSwitchNetwork } from '../server/src/analysis/switchNetwork';
 import { classify } from '../server/src/analysis/classify';
+import { buildContext } from '../server/src/analysis/electrical/context';
+import { estimateNodes } from '../server/src/analysis/electrical/estimate';
 
 const LEAF_CELLS = `
 .subckt b_inv a y vdd vss
@@ -96,6 +98,9 @@ function measure(label: string, text: string): void {
   const network = buildSwitchNetwork(c, clocks.clocks);
   const cl = classify(network, plan);
   const t3 = performance.now();
+  const ctx = buildContext(c, network, plan, cl, { vddV: 1.0, vddFrom: 'netlist', corners: [{ tempC: 25, tempK: 298.15 }, { tempC: 110, tempK: 383.15 }], budgetV: 0.1 });
+  const estimates = estimateNodes(ctx);
+  const t4 = performance.now();
   const n = c.mosfets.length;
   let risky = 0;
   for (const m of cl.perPhase) risky += m.size;
@@ -103,7 +108,7 @@ function measure(label: string, text: string): void {
   const ms = (x: number) => x.toFixed(0).padStart(5);
   console.log(
     `${label.padEnd(13)} ${String(n).padStart(8)} transistors ${String(c.nets.length).padStart(7)} nets ${String(network.components.length).padStart(7)} groups ` +
-      `${plan.phases.length} phases | parse ${ms(t1 - t0)} ms  elaborate ${ms(t2 - t1)} ms  classify ${ms(t3 - t2)} ms  total ${ms(t3 - t0)} ms | ` +
+      `${plan.phases.length} phases | parse ${ms(t1 - t0)} ms  elaborate ${ms(t2 - t1)} ms  classify ${ms(t3 - t2)} ms  estimate ${ms(t4 - t3)} ms (${estimates.size} nodes)  total ${ms(t4 - t0)} ms | ` +
       `${Math.round(n / ((t2 - t0) / 1000)).toLocaleString('en-US')} transistors/s to elaborate | heap ${(mem.heapUsed / 1048576).toFixed(0)} MB | ` +
       `non-driven (node, phase) pairs ${risky}, wide groups ${cl.wideComponents}, unchecked ${cl.uncheckedComponents}`,
   );

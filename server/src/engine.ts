@@ -13,6 +13,14 @@ import { buildPhases, type PhasePlan } from './phases/phases';
 import { buildSwitchNetwork } from './analysis/switchNetwork';
 import { classify, type Classification } from './analysis/classify';
 import { classificationFindings } from './findings/classificationFindings';
+import { buildContext, type ElectricalContext } from './analysis/electrical/context';
+import { estimateNodes, type NodeEstimate } from './analysis/electrical/estimate';
+import { DEFAULT_BUDGET_FRACTION, receiverBudget } from './analysis/electrical/budget';
+import { existingInverter } from './analysis/electrical/keeper';
+import { FALLBACK_PROFILE_NAME, FALLBACK_SUPPLY_V } from './analysis/devices/catalogue';
+import { electricalFindings } from './findings/electricalFindings';
+import { celsiusToKelvin } from './analysis/devices/physics';
+import { diag } from './core/diagnostics';
 import { parseNetlist } from './syntax/parser';
 import type { SyntaxFile } from './syntax/tree';
 
@@ -20,7 +28,12 @@ export interface CircuitAnalysis {
   circuit: Circuit;
   plan: PhasePlan;
   classification: Classification;
+  /** Absent when estimates were skipped. */
+  electrical?: ElectricalContext;
+  estimates?: Map<number, NodeEstimate>;
 }
+
+export const DEFAULT_TEMPS_C = [25, 110];
 
 export interface AnalysisResult {
   deck: Deck;
@@ -59,12 +72,65 @@ export function analyse(host: FileHost, file: string, options: EngineOptions = {
       const plan = buildPhases(circuit, clocks.clocks, design.directives, options);
       const network = buildSwitchNetwork(circuit, clocks.clocks);
       const classification = classify(network, plan);
-      circuits.push({ circuit, plan, classification });
+      const analysis: CircuitAnalysis = { circuit, plan, classification };
+      circuits.push(analysis);
       all.push(...clocks.diagnostics, ...plan.diagnostics, ...classificationFindings(circuit, classification, options));
+      if (options.skipEstimates !== true) {
+        const ctx = electricalContext(circuit, design, plan, classification, options);
+        analysis.electrical = ctx;
+        analysis.estimates = estimateNodes(ctx);
+        all.push(...electricalFindings(ctx, analysis.estimates));
+        all.push(...modelNotes(circuit));
+      }
     }
   }
   all.sort((a, b) => (a.file < b.file ? -1 : a.file > b.file ? 1 : a.range.start.line - b.range.start.line || a.range.start.character - b.range.start.character));
   return { deck, design, circuits, diagnostics: dedupe(all) };
+}
+
+/** Supply, corners and budget: directives win over settings, settings over defaults. */
+function electricalContext(circuit: Circuit, design: Design, plan: PhasePlan, classification: Classification, options: EngineOptions): ElectricalContext {
+  const known = circuit.supplies.map((s) => s.volts).filter((v): v is number => v !== null && v > 0);
+  const vddV = known.length ? Math.max(...known) : (options.defaultSupplyVolts ?? FALLBACK_SUPPLY_V);
+  const vddFrom = known.length ? 'netlist' : options.defaultSupplyVolts !== undefined ? 'setting' : 'fallback';
+  const temps = design.directives.tempsC?.values ?? options.tempsC ?? DEFAULT_TEMPS_C;
+  const corners = temps.map((t) => ({ tempC: t, tempK: celsiusToKelvin(t) }));
+  const b = design.directives.budget ?? options.budget ?? {};
+  const base = buildContext(circuit, buildNetworkOf(classification), plan, classification, { vddV, vddFrom, corners, budgetV: DEFAULT_BUDGET_FRACTION * vddV });
+  let budgetV = b.volts ?? (b.fraction !== undefined ? b.fraction * vddV : DEFAULT_BUDGET_FRACTION * vddV);
+  if (b.receiver) {
+    // the first storage node's receiving inverter sets the threshold
+    for (let n = 0; n < circuit.nets.length; n++) {
+      if (!classification.storage[n] || !classification.perPhase.some((m) => m.has(n))) continue;
+      const out = existingInverter(base, n);
+      if (out === undefined) continue;
+      const gated = base.gateOf[n]!.map((i) => circuit.mosfets[i]!).filter((m) => m.d === out || m.s === out);
+      const nm = gated.find((m) => m.polarity === 'n');
+      const pm = gated.find((m) => m.polarity === 'p');
+      if (nm && pm) {
+        budgetV = receiverBudget(vddV, { m: nm, model: base.model(nm) }, { m: pm, model: base.model(pm) }, corners[0]!.tempK);
+        break;
+      }
+    }
+  }
+  return { ...base, budgetV };
+}
+
+function buildNetworkOf(cl: Classification) {
+  return cl.network;
+}
+
+/** One note per model card Tidemark cannot evaluate, and when the fallback supply is assumed. */
+function modelNotes(circuit: Circuit): Diagnostic[] {
+  const out: Diagnostic[] = [];
+  const seen = new Set<string>();
+  for (const m of circuit.mosfets) {
+    const card = m.card;
+    if (!card || card.family !== 'unsupported' || seen.has(card.name)) continue;
+    seen.add(card.name);
+    out.push(diag('unknown-model', card.file, card.range, `model '${card.name}' is level ${card.level}, which Tidemark does not evaluate: its devices use the ${FALLBACK_PROFILE_NAME}`));
+  }
+  return out;
 }
 
 /** Directive notes about nets are raised per circuit; a cell library would repeat them. */

@@ -28,6 +28,8 @@ export interface NodePhaseResult {
   cutOff?: number[];
   /** Feedback devices holding a kept node. */
   keepers?: number[];
+  /** Values of the group's free gate nets in one assignment under which the node floats. */
+  gateAssignment?: Array<[number, 0 | 1]>;
 }
 
 export interface Classification {
@@ -35,6 +37,8 @@ export interface Classification {
   plan: PhasePlan;
   /** Per phase (same order as plan.phases): non-driven nodes only. */
   perPhase: Array<Map<number, NodePhaseResult>>;
+  /** Net values (0, 1, 2 = X) after constant propagation, per phase. */
+  phaseValues: Uint8Array[];
   /** 1 for storage (drives a gate or is an output), 0 for internal. */
   storage: Uint8Array;
   /** Components too wide to enumerate, and components whose witnesses could not be checked. */
@@ -225,12 +229,13 @@ export function classify(net: SwitchNetwork, plan: PhasePlan): Classification {
   for (let i = 0; i < c.nets.length; i++) if (explicitF[i]! >= STORAGE_CAPACITOR_F) storage[i] = 1;
   const scratch = newScratch(c.nets.length);
   const local = new Int32Array(c.nets.length).fill(-1);
-  const result: Classification = { network: net, plan, perPhase: [], storage, wideComponents: 0, uncheckedComponents: 0 };
+  const result: Classification = { network: net, plan, perPhase: [], phaseValues: [], storage, wideComponents: 0, uncheckedComponents: 0 };
   const wide = new Set<number>();
   const unchecked = new Set<number>();
   const buffers: Buffers = { gatePos: new Int32Array(c.nets.length).fill(-1), masks: new Uint8Array(1024), driverId: new Int32Array(64) };
   for (const phase of plan.phases) {
     const values = propagateConstants(net, phase.clocks, scratch);
+    result.phaseValues.push(values);
     const states = new Map<number, NodePhaseResult>();
     // `work` is the phase's values, changed by a witness check and restored after it
     const work = values.slice();
@@ -439,10 +444,15 @@ function classifyEnumerated(
       const cover = minimalCover(floats, inputNames.length).map(([k, m]) => cube(k, m));
       res = { state: floatCount === keyCount ? 'floating' : 'conditional', exact, floatCover: cover };
       if (floatCount !== keyCount) res.when = cover[0]!;
-      res.cutOff = cutOffDevices(net, comp, masks, nn, firstAssignmentFloating(masks, nn, i, free.length));
+      const fa = firstAssignmentFloating(masks, nn, i, free.length);
+      res.gateAssignment = free.map((g, b) => [g, ((fa >> b) & 1) as 0 | 1]);
+      res.cutOff = cutOffDevices(net, comp, masks, nn, fa);
     } else if (kept.some(Boolean)) {
       const levels = fl.reduce((acc, f) => acc | f, 0);
       res = { state: 'kept', exact, keptLevel: levels & 8 ? 1 : 0, keepers: comp.switches.filter((_, k) => feedback[k]).map((si) => net.switches[si]!.mosfet).filter((m) => m >= 0) };
+      // an assignment with the keeper off: the leakage the keeper has to supply
+      const fa = firstAssignmentFloating(masks, nn, i, free.length);
+      res.gateAssignment = free.map((g, b) => [g, ((fa >> b) & 1) as 0 | 1]);
     }
     if (contentionKey >= 0) {
       const cw = cube(contentionKey, (1 << inputNames.length) - 1);
@@ -500,7 +510,9 @@ function fromGateEnumeration(net: SwitchNetwork, comp: Component, free: number[]
       res = { state: count === assignments ? 'floating' : 'conditional', exact, floatCover: cover };
       if (count !== assignments) res.when = cover[0]!;
       // the devices that cut it off matter for the findings, which are about storage nodes
-      if (storage[comp.nodes[i]!]) res.cutOff = cutOffDevices(net, comp, masks, nn, firstAssignmentFloating(masks, nn, i, free.length));
+      const fa = firstAssignmentFloating(masks, nn, i, free.length);
+      res.gateAssignment = free.map((g, b) => [g, ((fa >> b) & 1) as 0 | 1]);
+      if (storage[comp.nodes[i]!]) res.cutOff = cutOffDevices(net, comp, masks, nn, fa);
     }
     if (contentionAt >= 0) {
       const cw = cube(contentionAt, assignments - 1);

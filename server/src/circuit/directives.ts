@@ -31,7 +31,7 @@ export interface DirectiveSet {
   inputs: (Sourced & { net: string })[];
   outputs: (Sourced & { net: string })[];
   tempsC: (Sourced & { values: number[] }) | undefined;
-  budget: (Sourced & { fraction?: number; volts?: number }) | undefined;
+  budget: (Sourced & { fraction?: number; volts?: number; receiver?: boolean }) | undefined;
   accepts: (Sourced & { node: string; rule: string; reason: string })[];
   devices: (Sourced & { pattern: string; kind: DeviceKind })[];
   /** Geometry scale for W and L (metres per written unit). */
@@ -133,9 +133,10 @@ export function readDirectives(lines: { file: string; item: DirectiveLine }[], i
         const t = args[0]?.text ?? '';
         const pct = /^([\d.]+)%$/.exec(t);
         const volts = /^([\d.]+(?:e-?\d+)?)(m?)v$/i.exec(t);
-        if (pct) into.budget = { ...src, fraction: Number(pct[1]) / 100 };
+        if (t.toLowerCase() === 'receiver') into.budget = { ...src, receiver: true };
+        else if (pct) into.budget = { ...src, fraction: Number(pct[1]) / 100 };
         else if (volts) into.budget = { ...src, volts: Number(volts[1]) * (volts[2] ? 1e-3 : 1) };
-        else bad('budget needs a percentage of the supply (`10%`) or volts (`0.12V`)');
+        else bad('budget needs a percentage of the supply (`10%`), volts (`0.12V`) or `receiver`');
         break;
       }
       case 'accept': {

@@ -75,12 +75,16 @@ function parseArgs(argv: string[]): CliArgs {
         const t = take().split(',').map((x) => Number(x.trim()));
         if (t.some((x) => !Number.isFinite(x))) throw new UsageError('--temps needs numbers such as 25,110');
         a.tempsC = t;
+        a.options.tempsC = t;
         break;
       }
       case '--budget': {
         const b = take();
-        if (!/^[\d.]+%$|^[\d.]+(e-?\d+)?m?v$/i.test(b)) throw new UsageError(`--budget needs a percentage (10%) or volts (0.12V), not '${b}'`);
+        if (!/^[\d.]+%$|^[\d.]+(e-?\d+)?m?v$|^receiver$/i.test(b)) throw new UsageError(`--budget needs a percentage (10%), volts (0.12V) or receiver, not '${b}'`);
         a.budget = b;
+        const pct = /^([\d.]+)%$/.exec(b);
+        const mv = /^([\d.]+(?:e-?\d+)?)(m?)v$/i.exec(b);
+        a.options.budget = pct ? { fraction: Number(pct[1]) / 100 } : mv ? { volts: Number(mv[1]) * (mv[2] ? 1e-3 : 1) } : { receiver: true };
         break;
       }
       case '--fail-on': {
@@ -204,7 +208,7 @@ export function main(argv: string[]): number {
     const result = analyse(host, f, args.options);
     addToReport(report, f, result, { allNodes: args.allNodes });
   }
-  report.corners = (args.tempsC ?? [25, 110]).map((t) => ({ temp_C: t }));
+  if (report.corners.length === 0) report.corners = (args.tempsC ?? [25, 110]).map((t) => ({ temp_C: t }));
   const out = args.format === 'json' ? JSON.stringify(report, null, 2) + '\n' : args.format === 'sarif' ? formatSarif(report) : formatText(report, args.colour);
   process.stdout.write(out);
   const levels = args.failOn === 'never' ? [] : args.failOn === 'warning' ? ['error', 'warning'] : ['error'];

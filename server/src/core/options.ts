@@ -21,6 +21,12 @@ export interface EngineOptions {
   /** Clocks for netlists with no periodic sources (a bare subcircuit): times in seconds. */
   clocks?: { net: string; periodS?: number; highS?: number; delayS?: number; inverseOf?: string }[];
   standby?: { net: string; level: 0 | 1; forS: number }[];
+  /** Temperature corners in degrees C (default 25 and 110). */
+  tempsC?: number[];
+  /** Droop budget: a fraction of the supply, volts, or derived from the receiving gate. */
+  budget?: { fraction?: number; volts?: number; receiver?: boolean };
+  /** Skip the electrical estimates (classification only). */
+  skipEstimates?: boolean;
   /** Stop after elaboration (very large files in the editor). */
   frontEndOnly?: boolean;
   /** Name rule for nets that are clocks (regular expression, case-insensitive). */

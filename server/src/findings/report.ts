@@ -4,6 +4,8 @@
 import type { Diagnostic } from '../core/diagnostics';
 import type { AnalysisResult } from '../engine';
 import { nodeFloatWindow } from '../analysis/classify';
+import type { NodeEstimate } from '../analysis/electrical/estimate';
+import type { Circuit } from '../circuit/circuit';
 
 export interface ReportState {
   phase: string;
@@ -30,6 +32,18 @@ export interface ReportNode {
   float_window_s?: number | null;
   /** True when it floats in every phase of the cycle: never restored. */
   float_unbounded?: boolean;
+  capacitance?: { gate_F: number; diffusion_F: number; overlap_F: number; explicit_F: number; coupling_F: number; estimated_geometry: boolean };
+  stored?: Array<{ level: 0 | 1; volts: number; phase: string; corners: Array<{ temp_C: number; leakage_A: number; retention_s: number | null; held: boolean; contributors: Array<{ device: string; mechanism: string; current_A: number }> }> }>;
+  charge_share_droop_V?: number;
+  charge_share?: { when: Record<string, 0 | 1>; joined: string[]; shared_F: number };
+  coupling_droop_V?: number;
+  aggressors?: Array<{ net: string; capacitance_F: number; droop_V: number; via: string }>;
+  qcrit_C?: number;
+  min_clock_Hz?: number | null;
+  max_float_s?: number | null;
+  keeper?: { devices: string[]; hold_current_A: number; hot_leakage_A: number; strength_ratio: number };
+  suggested_keeper?: { polarity: string; w_m: number; l_m: number; model: string; inverter: Record<string, string | number>; hold_current_A: number; strength_ratio: number; reasoning: string[] };
+  notes?: string[];
 }
 
 export interface ReportPhase {
@@ -77,6 +91,9 @@ export interface Report {
   supplies: { net: string; volts: number | null; circuit: string; file: string; from: string }[];
   corners: { temp_C: number }[];
   budget_V: number | null;
+  /** The supply the estimates assumed and where it came from (netlist, setting, fallback). */
+  supply_assumed_V?: number;
+  supply_from?: string;
   phases: ReportPhase[];
   nodes: ReportNode[];
   diagnostics: ReportDiagnostic[];
@@ -101,6 +118,42 @@ export function reportDiagnostic(d: Diagnostic): ReportDiagnostic {
 
 export interface ReportOptions {
   allNodes: boolean;
+}
+
+function addEstimate(node: ReportNode, e: NodeEstimate, c: Circuit): void {
+  const cap = e.capacitance;
+  node.capacitance_F = cap.totalF;
+  node.capacitance = { gate_F: cap.gateF, diffusion_F: cap.diffusionF, overlap_F: cap.overlapF, explicit_F: cap.explicitF, coupling_F: cap.couplingF, estimated_geometry: cap.estimatedGeometry };
+  node.stored = e.stored.map((s) => ({
+    level: s.level,
+    volts: s.volts,
+    phase: s.phase,
+    corners: s.corners.map((k) => ({
+      temp_C: k.tempC,
+      leakage_A: k.leakageA,
+      retention_s: k.retentionS,
+      held: k.held,
+      contributors: k.contributors.map((x) => ({ device: c.mosfets[x.device]!.name, mechanism: x.mechanism, current_A: x.currentA })),
+    })),
+  }));
+  node.charge_share_droop_V = e.chargeSharing?.droopV ?? 0;
+  if (e.chargeSharing && e.chargeSharing.droopV > 0) node.charge_share = { when: e.chargeSharing.when, joined: e.chargeSharing.joined.map((j) => c.nets[j]!.name), shared_F: e.chargeSharing.sharedF };
+  node.coupling_droop_V = e.coupling.droopV;
+  if (e.coupling.aggressors.length) node.aggressors = e.coupling.aggressors.map((a) => ({ net: a.net, capacitance_F: a.capacitanceF, droop_V: a.droopV, via: a.via }));
+  node.qcrit_C = e.qcritC;
+  node.min_clock_Hz = e.minClockHz;
+  node.max_float_s = e.maxFloatS;
+  if (e.keeper) node.keeper = { devices: e.keeper.devices.map((i) => c.mosfets[i]!.name), hold_current_A: e.keeper.holdCurrentA, hot_leakage_A: e.keeper.hotLeakageA, strength_ratio: e.keeper.ratio };
+  if (e.suggestedKeeper) {
+    const k = e.suggestedKeeper;
+    const inverter: Record<string, string | number> = {};
+    if (k.inverter.existingOutput) inverter['existing_output'] = k.inverter.existingOutput;
+    if (k.inverter.newWnM) inverter['new_wn_m'] = k.inverter.newWnM;
+    if (k.inverter.newWpM) inverter['new_wp_m'] = k.inverter.newWpM;
+    if (k.inverter.newLM) inverter['new_l_m'] = k.inverter.newLM;
+    node.suggested_keeper = { polarity: k.polarity, w_m: k.wM, l_m: k.lM, model: k.model, inverter, hold_current_A: k.holdCurrentA, strength_ratio: k.strengthRatio, reasoning: k.reasoning };
+  }
+  if (e.notes.length) node.notes = e.notes;
 }
 
 export function emptyReport(): Report {
@@ -181,8 +234,17 @@ export function addToReport(report: Report, file: string, result: AnalysisResult
         node.float_window_s = w === Infinity ? null : w;
         if (w === Infinity) node.float_unbounded = true;
       }
+      const e = analysis?.estimates?.get(n.id);
+      if (e) addEstimate(node, e, c);
       report.nodes.push(node);
     }
   });
+  const first = result.circuits.find((a) => a.electrical)?.electrical;
+  if (first && report.budget_V === null) {
+    report.budget_V = first.budgetV;
+    report.corners = first.corners.map((k) => ({ temp_C: k.tempC }));
+    report.supply_assumed_V = first.vddV;
+    report.supply_from = first.vddFrom;
+  }
   for (const d of result.diagnostics) report.diagnostics.push(reportDiagnostic(d));
 }

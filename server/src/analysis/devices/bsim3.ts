@@ -59,10 +59,16 @@ export function createBsim3(card: Readonly<Record<string, number>>, polarity: 'n
   defaults['dsub'] = param(p, 'drout', 0.56);
 
   const cache = new Map<string, Sized>();
+  let last: { w: number; l: number; t: number; s: Sized } | undefined;
   const sized = (wM: number, lM: number, tempK: number): Sized => {
+    // most calls repeat the previous device's size and temperature
+    if (last && last.w === wM && last.l === lM && last.t === tempK) return last.s;
     const key = `${wM}|${lM}|${tempK}`;
     const hit = cache.get(key);
-    if (hit) return hit;
+    if (hit) {
+      last = { w: wM, l: lM, t: tempK, s: hit };
+      return hit;
+    }
     const leff = lM - 2 * lint;
     const weff = wM - 2 * wint;
     const invL = 1e-6 / leff;
@@ -132,6 +138,7 @@ export function createBsim3(card: Readonly<Record<string, number>>, polarity: 'n
     s['thetaRout'] = s['pdibl1']! * (t0 + 2 * t0 * t0) + s['pdibl2']!;
     s['tRatio'] = tRatio;
     cache.set(key, s);
+    last = { w: wM, l: lM, t: tempK, s };
     return s;
   };
   const factor1 = Math.sqrt((EPS_SI_F_PER_M / EPS_OX_F_PER_M) * tox);

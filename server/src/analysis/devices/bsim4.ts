@@ -65,10 +65,16 @@ export function createBsim4(card: Readonly<Record<string, number>>, polarity: 'n
   const voffl = param(p, 'voffl', 0);
 
   const cache = new Map<string, Record<string, number>>();
+  let last: { w: number; l: number; t: number; s: Record<string, number> } | undefined;
   const sized = (wM: number, lM: number, tempK: number): Record<string, number> => {
+    // most calls repeat the previous device's size and temperature
+    if (last && last.w === wM && last.l === lM && last.t === tempK) return last.s;
     const key = `${wM}|${lM}|${tempK}`;
     const hit = cache.get(key);
-    if (hit) return hit;
+    if (hit) {
+      last = { w: wM, l: lM, t: tempK, s: hit };
+      return hit;
+    }
     const leff = lM - 2 * lint;
     const weff = wM - 2 * wint;
     const invL = 1e-6 / leff;
@@ -137,6 +143,7 @@ export function createBsim4(card: Readonly<Record<string, number>>, polarity: 'n
     s['thetaRout'] = s['pdibl1']! * thetaOf((s['drout']! * leff) / tmp) + s['pdibl2']!;
     s['tRatio'] = tRatio;
     cache.set(key, s);
+    last = { w: wM, l: lM, t: tempK, s };
     return s;
   };
 

@@ -1,0 +1,183 @@
+// Electrical estimates for every node that is not always driven: capacitance, leakage at each
+// stored level and corner, retention to the droop budget, charge sharing, coupling, critical
+// charge and, where one is needed, a sized keeper. Pure: reads the context, returns records.
+
+import { floatsIn, nodeFloatWindow, type NodePhaseResult } from '../classify';
+import { NetRole } from '../switchNetwork';
+import type { ElectricalContext } from './context';
+import { capacitanceSignature, islandCapacitance, type CapacitanceBreakdown } from './capacitance';
+import { buildLeakageNetwork, leakageAt, leakageSignature, type LeakageContributor } from './leakage';
+import { retentionTime } from './retention';
+import { chargeSharing, type ChargeSharingResult } from './chargeSharing';
+import { couplingDroop, type CouplingResult } from './coupling';
+import { HOLD_MARGIN, keeperHoldCurrent, keeperRatio, sizeKeeper, type KeeperSuggestion } from './keeper';
+
+export interface CornerEstimate {
+  tempC: number;
+  leakageA: number;
+  contributors: LeakageContributor[];
+  retentionS: number | null;
+  held: boolean;
+}
+
+export interface StoredEstimate {
+  level: 0 | 1;
+  volts: number;
+  phase: string;
+  corners: CornerEstimate[];
+}
+
+export interface NodeEstimate {
+  node: number;
+  storage: boolean;
+  capacitance: CapacitanceBreakdown;
+  stored: StoredEstimate[];
+  /** The level the node is meant to hold (its precharge or kept level), for the findings. */
+  primaryLevel: 0 | 1;
+  chargeSharing: ChargeSharingResult | undefined;
+  coupling: CouplingResult;
+  qcritC: number;
+  floatWindowS: number | null;
+  /** Clock frequency below which leakage exceeds the budget within the float window. */
+  minClockHz: number | null;
+  /** Longest time the node can float (standby) at the hot corner before the budget is used. */
+  maxFloatS: number | null;
+  keeper?: { devices: number[]; holdCurrentA: number; hotLeakageA: number; ratio: number; against: number[] };
+  suggestedKeeper?: KeeperSuggestion;
+  notes: string[];
+}
+
+/** Results of identical leakage problems (repeated cells), keyed by their structure. */
+type LeakCache = Map<string, { corners: Array<{ leakageA: number; retentionS: number | null; held: boolean; contributors: Array<{ pos: number; mechanism: LeakageContributor['mechanism']; currentA: number }> }> }>;
+
+export function estimateNodes(ctx: ElectricalContext): Map<number, NodeEstimate> {
+  const cache: LeakCache = new Map();
+  const cl = ctx.classification;
+  const phases = ctx.plan.phases;
+  const values = cl.phaseValues;
+  void phases;
+  const out = new Map<number, NodeEstimate>();
+  const c = ctx.circuit;
+  const constantEverywhere = (n: number) => Number.isFinite(ctx.railVolts[n]!) || values.every((v) => v[n] !== 2 && v[n] === values[0]![n]);
+  for (let n = 0; n < c.nets.length; n++) {
+    if (ctx.network.role[n] !== NetRole.Internal || ctx.network.unreachable[n]) continue;
+    const states = cl.perPhase.map((m) => m.get(n));
+    const floating = states.map((s, i) => ({ s, i })).filter(({ s }) => s && (floatsIn(s) || s.state === 'kept')) as Array<{ s: NodePhaseResult; i: number }>;
+    if (floating.length === 0) continue;
+    out.set(n, estimateNode(ctx, n, floating, values, constantEverywhere, cache));
+  }
+  return out;
+}
+
+function estimateNode(ctx: ElectricalContext, n: number, floating: Array<{ s: NodePhaseResult; i: number }>, values: Uint8Array[], constantEverywhere: (n: number) => boolean, cache: LeakCache): NodeEstimate {
+  const c = ctx.circuit;
+  const cl = ctx.classification;
+  const vdd = ctx.vddV;
+  const storage = cl.storage[n] === 1;
+  const notes: string[] = [];
+  const keptState = floating.find((f) => f.s.state === 'kept')?.s;
+  // the level a dynamic node is meant to keep: what other phases drive it to, else its keeper's
+  const drivenTo = values.map((v, i) => (floating.some((f) => f.i === i) ? 2 : v[n]!)).find((v) => v !== 2);
+  const primaryLevel: 0 | 1 = keptState?.keptLevel ?? (drivenTo === 0 ? 0 : 1);
+  const island = new Set<number>([n]);
+  const capAt = (v: number) => islandCapacitance(ctx, island, v).totalF;
+  const capacitance = islandCapacitance(ctx, island, primaryLevel * vdd);
+  const stored: StoredEstimate[] = [];
+  const hotIndex = ctx.corners.reduce((b, k, i) => (k.tempK > ctx.corners[b]!.tempK ? i : b), 0);
+  let keeperInfo: NodeEstimate['keeper'];
+  for (const level of [1, 0] as const) {
+    const vs = level * vdd;
+    const hot = ctx.corners[hotIndex]!;
+    // the worst floating phase for this level: the largest leakage at the hot corner
+    let pick: { i: number; ln: ReturnType<typeof buildLeakageNetwork>; keepers: number[]; assignment: Map<number, 0 | 1> } | undefined;
+    let pickLeak = -Infinity;
+    for (const { s, i } of floating) {
+      const assignment = new Map<number, 0 | 1>(s.gateAssignment ?? []);
+      const keepers = s.state === 'kept' && s.keptLevel === level ? (s.keepers ?? []) : [];
+      const ln = buildLeakageNetwork(ctx, n, values[i]!, assignment, level, keepers);
+      const o = leakageAt(ctx, ln, vs, hot.tempK, level, false).outA;
+      const leak = level === 1 ? o : -o;
+      if (!pick || leak > pickLeak) {
+        pickLeak = leak;
+        pick = { i, ln, keepers, assignment };
+      }
+    }
+    const { i, ln, keepers, assignment } = pick!;
+    const key = `${storage ? 'S' : 'I'}${level}|${leakageSignature(ctx, ln)}|${capacitanceSignature(ctx, island)}`;
+    const hit = cache.get(key);
+    if (hit) {
+      stored.push({
+        level,
+        volts: vs,
+        phase: ctx.plan.phases[i]!.name,
+        corners: hit.corners.map((k, ci) => ({ tempC: ctx.corners[ci]!.tempC, leakageA: k.leakageA, retentionS: k.retentionS, held: k.held, contributors: k.contributors.map((x) => ({ device: ln.devices[x.pos] ?? ln.keepers[x.pos - ln.devices.length]!, mechanism: x.mechanism, currentA: x.currentA })) })),
+      });
+      continue;
+    }
+    const corners: CornerEstimate[] = ctx.corners.map((k) => {
+      const at = leakageAt(ctx, ln, vs, k.tempK, level, true);
+      const leak = level === 1 ? at.outA : -at.outA;
+      let ret: { seconds: number | null; held: boolean };
+      if (storage) {
+        const harmful = (v: number) => {
+          const o = leakageAt(ctx, ln, v, k.tempK, level, false).outA;
+          return level === 1 ? o : -o;
+        };
+        ret = retentionTime(vs, ctx.budgetV, level === 1 ? -1 : 1, capAt, harmful);
+      } else {
+        // an internal node: first order, C dV / I at the stored level
+        ret = leak > 0 ? { seconds: (capAt(vs) * ctx.budgetV) / leak, held: false } : { seconds: null, held: true };
+      }
+      return { tempC: k.tempC, leakageA: leak, contributors: at.contributors.slice(0, 8), retentionS: ret.seconds, held: ret.held };
+    });
+    stored.push({ level, volts: vs, phase: ctx.plan.phases[i]!.name, corners });
+    if (!keepers.length) {
+      const pos = new Map<number, number>([...ln.devices, ...ln.keepers].map((d, k) => [d, k]));
+      cache.set(key, { corners: corners.map((k) => ({ leakageA: k.leakageA, retentionS: k.retentionS, held: k.held, contributors: k.contributors.map((x) => ({ pos: pos.get(x.device)!, mechanism: x.mechanism, currentA: x.currentA })) })) });
+    }
+    if (keepers.length && !keeperInfo) {
+      const km = c.mosfets[keepers[0]!]!;
+      const noKeeper = buildLeakageNetwork(ctx, n, values[i]!, assignment, level, []);
+      const hotLeak = Math.abs(leakageAt(ctx, noKeeper, vs, hot.tempK, level, false).outA);
+      const r = keeperRatio(ctx, km, n, level, hot.tempK);
+      keeperInfo = { devices: keepers, holdCurrentA: keeperHoldCurrent(ctx, km, level, ctx.budgetV, hot.tempK), hotLeakageA: hotLeak, ratio: r.ratio, against: r.against };
+    }
+  }
+  const primary = stored.find((s) => s.level === primaryLevel)!;
+  const floatWindowS = nodeFloatWindow(cl, n);
+  const hotRet = primary.corners[hotIndex]!.retentionS;
+  const hyper = ctx.plan.hyperperiodS;
+  const minClockHz = hotRet !== null && floatWindowS !== null && Number.isFinite(floatWindowS) && hyper ? floatWindowS / hotRet / hyper : null;
+  let sharing: ChargeSharingResult | undefined;
+  let coupling: CouplingResult = { droopV: 0, aggressors: [] };
+  let suggested: KeeperSuggestion | undefined;
+  if (storage) {
+    const fi = floating.find((f) => f.s.state !== 'kept') ?? floating[0]!;
+    const others = values.filter((_, i) => i !== fi.i);
+    sharing = chargeSharing(ctx, n, fi.i, values[fi.i]!, others, primaryLevel, capacitance.totalF);
+    coupling = couplingDroop(ctx, capacitance, constantEverywhere);
+    const needsKeeper = !keptState && (hotRet === null ? false : floatWindowS === null || hotRet < 3 * floatWindowS || sharing.droopV > ctx.budgetV);
+    if (needsKeeper) suggested = sizeKeeper(ctx, n, primaryLevel, primary.corners[hotIndex]!.leakageA, ctx.corners[hotIndex]!.tempK);
+  }
+  if (capacitance.estimatedGeometry) notes.push('drain/source areas not given: estimated as W x 2.5L (common practice)');
+  for (const i of ctx.channelOf[n]!) for (const note of ctx.model(c.mosfets[i]!).notes) if (!notes.includes(note)) notes.push(note);
+  const est: NodeEstimate = {
+    node: n,
+    storage,
+    capacitance,
+    stored,
+    primaryLevel,
+    chargeSharing: sharing,
+    coupling,
+    qcritC: capacitance.totalF * Math.abs(primaryLevel * vdd - vdd / 2),
+    floatWindowS,
+    minClockHz,
+    maxFloatS: hotRet,
+    notes,
+  };
+  if (keeperInfo) est.keeper = keeperInfo;
+  if (suggested) est.suggestedKeeper = suggested;
+  return est;
+}
+
+export { HOLD_MARGIN };

@@ -1,0 +1,156 @@
+// Keepers (DOMAIN 7): the strength of an existing keeper against the node's hot leakage and
+// against the pull-down it fights, and the sizing of a new one. A keeper must supply the
+// hot-corner leakage with margin when the node has drooped by the budget, yet stay weak enough
+// that evaluation wins: a keeper-to-pull-down current ratio of about 0.1 to 0.3 is common
+// practice (no source). Minimum width and a longer-than-minimum length make it weak.
+
+import type { Mosfet, Polarity } from '../../circuit/circuit';
+import { NetRole } from '../switchNetwork';
+import { channelCurrent } from './leakage';
+import type { ElectricalContext } from './context';
+
+/** Common-practice bounds (no source): keeper/pull-down ratio, and the hold margin over leakage. */
+export const KEEPER_RATIO_MIN = 0.1;
+export const KEEPER_RATIO_MAX = 0.3;
+export const HOLD_MARGIN = 10;
+
+export interface KeeperSuggestion {
+  polarity: Polarity;
+  wM: number;
+  lM: number;
+  model: string;
+  /** The keeper's gate: the node's existing inverter output, or a new inverter to add. */
+  inverter: { existingOutput?: string; newWnM?: number; newWpM?: number; newLM?: number };
+  holdCurrentA: number;
+  strengthRatio: number;
+  fightsDevice?: string;
+  meetsHold: boolean;
+  meetsRatio: boolean;
+  reasoning: string[];
+}
+
+/** Current an on keeper supplies with the node drooped by `budgetV` from `storedLevel`. */
+export function keeperHoldCurrent(ctx: ElectricalContext, m: Pick<Mosfet, 'polarity' | 'wM' | 'lM' | 'm' | 'nf' | 'card' | 'model'>, storedLevel: 0 | 1, budgetV: number, tempK: number): number {
+  const dev = asDevice(m);
+  const vdd = ctx.vddV;
+  if (storedLevel === 1) return Math.abs(channelCurrent(ctx, dev, vdd - budgetV, 0, vdd, vdd, tempK));
+  return Math.abs(channelCurrent(ctx, dev, budgetV, vdd, 0, 0, tempK));
+}
+
+/** Fighting current (half the supply across it, gate fully on). */
+function fightCurrent(ctx: ElectricalContext, m: Pick<Mosfet, 'polarity' | 'wM' | 'lM' | 'm' | 'nf' | 'card' | 'model'>, tempK: number): number {
+  const dev = asDevice(m);
+  const vdd = ctx.vddV;
+  if (m.polarity === 'p') return Math.abs(channelCurrent(ctx, dev, vdd / 2, 0, vdd, vdd, tempK));
+  return Math.abs(channelCurrent(ctx, dev, vdd / 2, vdd, 0, 0, tempK));
+}
+
+function asDevice(m: Pick<Mosfet, 'polarity' | 'wM' | 'lM' | 'm' | 'nf' | 'card' | 'model'>): Mosfet {
+  return { name: 'keeper', d: 0, g: 0, s: 0, b: 0, origin: { file: '', range: { start: { line: 0, character: 0 }, end: { line: 0, character: 0 } }, subckt: null, local: '' }, ...m } as Mosfet;
+}
+
+/**
+ * The strongest evaluation path from the node to the rail opposite its stored level, as a
+ * current: devices in series combine like conductances (1/I = sum 1/I_i).
+ */
+export function pullStrength(ctx: ElectricalContext, node: number, storedLevel: 0 | 1, tempK: number): { currentA: number; devices: number[] } {
+  const c = ctx.circuit;
+  const want: Polarity = storedLevel === 1 ? 'n' : 'p';
+  const targetRail = storedLevel === 1 ? NetRole.Rail0 : NetRole.Rail1;
+  let best = { currentA: 0, devices: [] as number[] };
+  const walk = (n: number, path: number[], seen: Set<number>) => {
+    if (path.length > 6) return;
+    for (const i of ctx.channelOf[n]!) {
+      if (path.includes(i)) continue;
+      const m = c.mosfets[i]!;
+      if (m.polarity !== want) continue;
+      const other = m.d === n ? m.s : m.d;
+      if (ctx.network.role[other] === targetRail) {
+        const devs = [...path, i];
+        const inv = devs.reduce((s, k) => s + 1 / Math.max(fightCurrent(ctx, c.mosfets[k]!, tempK), 1e-30), 0);
+        const cur = 1 / inv;
+        if (cur > best.currentA) best = { currentA: cur, devices: devs };
+      } else if (ctx.network.role[other] === NetRole.Internal && !seen.has(other)) {
+        seen.add(other);
+        walk(other, [...path, i], seen);
+        seen.delete(other);
+      }
+    }
+  };
+  walk(node, [], new Set([node]));
+  return best;
+}
+
+/** Ratio of an existing keeper's fighting current to the node's strongest pull path. */
+export function keeperRatio(ctx: ElectricalContext, keeper: Mosfet, node: number, storedLevel: 0 | 1, tempK: number): { ratio: number; against: number[] } {
+  const pull = pullStrength(ctx, node, storedLevel, tempK);
+  if (pull.currentA === 0) return { ratio: 0, against: [] };
+  return { ratio: fightCurrent(ctx, keeper, tempK) / pull.currentA, against: pull.devices };
+}
+
+/** Finds a static inverter the node drives (a p and an n device gated by it, output shared). */
+export function existingInverter(ctx: ElectricalContext, node: number): number | undefined {
+  const c = ctx.circuit;
+  const gated = ctx.gateOf[node]!.map((i) => c.mosfets[i]!);
+  for (const p of gated.filter((m) => m.polarity === 'p')) {
+    const outP = ctx.network.role[p.d] === NetRole.Rail1 ? p.s : ctx.network.role[p.s] === NetRole.Rail1 ? p.d : undefined;
+    if (outP === undefined) continue;
+    const n = gated.find((m) => m.polarity === 'n' && ((m.d === outP && ctx.network.role[m.s] === NetRole.Rail0) || (m.s === outP && ctx.network.role[m.d] === NetRole.Rail0)));
+    if (n) return outP;
+  }
+  return undefined;
+}
+
+export function sizeKeeper(ctx: ElectricalContext, node: number, storedLevel: 0 | 1, hotLeakageA: number, hotTempK: number): KeeperSuggestion | undefined {
+  const c = ctx.circuit;
+  const polarity: Polarity = storedLevel === 1 ? 'p' : 'n';
+  const same = c.mosfets.filter((m) => m.polarity === polarity);
+  const nDevices = c.mosfets.filter((m) => m.polarity === 'n');
+  const template = same.find((m) => ctx.channelOf[node]!.includes(c.mosfets.indexOf(m))) ?? same[0];
+  if (!template) return undefined;
+  const wMin = Math.min(...same.map((m) => m.wM / m.nf));
+  const lMin = Math.min(...same.map((m) => m.lM));
+  const pull = pullStrength(ctx, node, storedLevel, hotTempK);
+  const reasoning: string[] = [];
+  const base = { polarity, m: 1, nf: 1, card: template.card, model: template.model };
+  let choice: { w: number; l: number; hold: number; ratio: number } | undefined;
+  let fallbackChoice: typeof choice;
+  const need = HOLD_MARGIN * Math.max(hotLeakageA, 0);
+  for (const wf of [1, 1.5, 2, 3, 4]) {
+    for (const lf of [8, 6, 4, 3, 2, 1.5, 1]) {
+      const w = wMin * wf;
+      const l = lMin * lf;
+      const hold = keeperHoldCurrent(ctx, { ...base, wM: w, lM: l }, storedLevel, ctx.budgetV, hotTempK);
+      const ratio = pull.currentA > 0 ? fightCurrent(ctx, { ...base, wM: w, lM: l }, hotTempK) / pull.currentA : 0;
+      if (hold < need) continue;
+      if (ratio <= KEEPER_RATIO_MAX && (!choice || Math.abs(ratio - KEEPER_RATIO_MIN) < Math.abs(choice.ratio - KEEPER_RATIO_MIN))) choice = { w, l, hold, ratio };
+      if (!fallbackChoice || ratio < fallbackChoice.ratio) fallbackChoice = { w, l, hold, ratio };
+    }
+    if (choice && choice.ratio >= KEEPER_RATIO_MIN) break;
+  }
+  const picked = choice ?? fallbackChoice;
+  if (!picked) {
+    reasoning.push(`no keeper up to 4x minimum width supplies ${HOLD_MARGIN}x the hot leakage (${hotLeakageA.toExponential(2)} A)`);
+    return undefined;
+  }
+  const f = (x: number) => `${(x * 1e6).toPrecision(3)}u`;
+  reasoning.push(`hot-corner leakage ${hotLeakageA.toExponential(2)} A; the keeper supplies ${picked.hold.toExponential(2)} A with the node ${ctx.budgetV.toFixed(3)} V from its level (need ${HOLD_MARGIN}x, common practice)`);
+  if (pull.currentA > 0) reasoning.push(`keeper/pull-down ratio ${picked.ratio.toFixed(2)} against ${pull.devices.map((i) => c.mosfets[i]!.name).join(' + ')} (common practice ${KEEPER_RATIO_MIN}-${KEEPER_RATIO_MAX})`);
+  reasoning.push(`W = ${f(picked.w)} (minimum ${f(wMin)}), L = ${f(picked.l)} (${(picked.l / lMin).toFixed(1)}x minimum) to stay weak`);
+  const inv = existingInverter(ctx, node);
+  const inverter: KeeperSuggestion['inverter'] = inv !== undefined ? { existingOutput: c.nets[inv]!.name } : { newWnM: Math.min(...nDevices.map((m) => m.wM / m.nf)), newWpM: 2 * Math.min(...nDevices.map((m) => m.wM / m.nf)), newLM: Math.min(...nDevices.map((m) => m.lM)) };
+  if (inv === undefined) reasoning.push('the node drives no inverter: add one to drive the keeper gate');
+  return {
+    polarity,
+    wM: picked.w,
+    lM: picked.l,
+    model: template.model,
+    inverter,
+    holdCurrentA: picked.hold,
+    strengthRatio: picked.ratio,
+    ...(pull.devices.length ? { fightsDevice: c.mosfets[pull.devices[0]!]!.name } : {}),
+    meetsHold: picked.hold >= need,
+    meetsRatio: picked.ratio <= KEEPER_RATIO_MAX,
+    reasoning,
+  };
+}

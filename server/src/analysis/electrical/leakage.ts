@@ -1,0 +1,338 @@
+// Leakage of a floating node (DOMAIN 5). Under the phase's constants and the witness's gate
+// values, the devices of the node's channel-connected group are on or off; the node's island
+// (what conducting devices join it to) sits at the stored voltage; groups driven from a rail or
+// input sit at that voltage (an input at the level that hurts most); groups that float between
+// off devices (the middle of a stack) take the voltage at which their currents balance, which
+// is what makes a stack of off devices leak far less than one. The result sums, for every
+// device with a terminal on the island, the subthreshold current through it and the reverse
+// current of its junctions, signed so that a positive total moves the node away from its level.
+
+import type { Mosfet } from '../../circuit/circuit';
+import { siliconBandGapEv, thermalVoltage } from '../devices/physics';
+import type { MosModel } from '../devices/mosModel';
+import { NetRole, SwitchKind } from '../switchNetwork';
+import type { ElectricalContext } from './context';
+import { diffusionGeometry } from './context';
+
+export interface LeakageContributor {
+  device: number;
+  mechanism: 'subthreshold' | 'junction' | 'keeper';
+  /** Positive when it moves the node away from its stored level. */
+  currentA: number;
+}
+
+/** The node groups of one phase and assignment, ready to be solved at any island voltage. */
+export interface LeakageNetwork {
+  island: Set<number>;
+  /** Floating groups between off devices, whose voltages are solved. */
+  floatingGroups: number[][];
+  /** Net -> group index (island -1, fixed -2, floating >= 0). */
+  groupOf: Map<number, number>;
+  /** Net voltages of driven nets (rails, inputs at their worst level, driven groups). */
+  fixedVolts: Map<number, number>;
+  /** Off devices with a terminal on the island or a floating group. */
+  devices: number[];
+  /** Devices held on only by feedback (keepers), which supply current rather than leak. */
+  keepers: number[];
+}
+
+function gateVolts(ctx: ElectricalContext, net: number, phaseValues: Uint8Array, assignment: Map<number, 0 | 1>): number | undefined {
+  const rail = ctx.railVolts[net]!;
+  if (Number.isFinite(rail)) return rail;
+  const a = assignment.get(net);
+  if (a !== undefined) return a * ctx.vddV;
+  const v = phaseValues[net]!;
+  return v === 2 ? undefined : v * ctx.vddV;
+}
+
+/**
+ * Builds the leakage network of node `node` for a phase (its propagated values) and an
+ * assignment of the group's free gates. `storedLevel` decides the worst-case level of inputs.
+ */
+export function buildLeakageNetwork(ctx: ElectricalContext, node: number, phaseValues: Uint8Array, assignment: Map<number, 0 | 1>, storedLevel: 0 | 1, keepers: number[] = []): LeakageNetwork {
+  const net = ctx.network;
+  const c = ctx.circuit;
+  const comp = net.components[net.componentOf[node]!]!;
+  const keeperSet = new Set(keepers);
+  // which switches conduct
+  const on = (si: number): boolean => {
+    const s = net.switches[si]!;
+    if (s.kind === SwitchKind.On) return true;
+    if (s.mosfet >= 0 && keeperSet.has(s.mosfet)) return false;
+    const gv = gateVolts(ctx, s.gate, phaseValues, assignment);
+    if (gv === undefined) return false;
+    const high = gv > ctx.vddV / 2;
+    return s.kind === SwitchKind.N ? high : !high;
+  };
+  const parent = new Map<number, number>();
+  const find = (x: number): number => {
+    let r = x;
+    while (parent.has(r) && parent.get(r) !== r) r = parent.get(r)!;
+    return r;
+  };
+  for (const n of comp.nodes) parent.set(n, n);
+  const offDevices: number[] = [];
+  const strongOf = new Map<number, number[]>();
+  for (const si of comp.switches) {
+    const s = net.switches[si]!;
+    const aInt = net.role[s.a] === NetRole.Internal;
+    const bInt = net.role[s.b] === NetRole.Internal;
+    if (on(si)) {
+      if (aInt && bInt) parent.set(find(s.a), find(s.b));
+      else if (aInt) (strongOf.get(s.a) ?? strongOf.set(s.a, []).get(s.a)!).push(s.b);
+      else if (bInt) (strongOf.get(s.b) ?? strongOf.set(s.b, []).get(s.b)!).push(s.a);
+    } else if (s.mosfet >= 0) offDevices.push(s.mosfet);
+  }
+  const worstInput = storedLevel === 1 ? 0 : ctx.vddV;
+  const strongVolts = (n: number): number => {
+    const r = ctx.railVolts[n]!;
+    if (Number.isFinite(r)) return r;
+    const v = phaseValues[n]!;
+    return v === 2 ? worstInput : v * ctx.vddV;
+  };
+  const groups = new Map<number, number[]>();
+  for (const n of comp.nodes) {
+    const r = find(n);
+    (groups.get(r) ?? groups.set(r, []).get(r)!).push(n);
+  }
+  const islandRoot = find(node);
+  const island = new Set(groups.get(islandRoot)!);
+  const groupOf = new Map<number, number>();
+  const fixedVolts = new Map<number, number>();
+  const floatingGroups: number[][] = [];
+  for (const [root, members] of groups) {
+    if (root === islandRoot) {
+      for (const m of members) groupOf.set(m, -1);
+      continue;
+    }
+    const drivers = members.flatMap((m) => strongOf.get(m) ?? []);
+    if (drivers.length > 0) {
+      const v = drivers.map(strongVolts).reduce((a, b) => a + b, 0) / drivers.length;
+      for (const m of members) {
+        groupOf.set(m, -2);
+        fixedVolts.set(m, v);
+      }
+    } else {
+      for (const m of members) groupOf.set(m, floatingGroups.length);
+      floatingGroups.push(members);
+    }
+  }
+  for (const i of offDevices) {
+    const m = c.mosfets[i]!;
+    for (const t of [m.d, m.s, m.g, m.b]) if (!groupOf.has(t)) fixedVolts.set(t, gateOrStrong(ctx, t, phaseValues, assignment, worstInput));
+  }
+  for (const k of keepers) {
+    const m = c.mosfets[k]!;
+    for (const t of [m.d, m.s, m.b]) if (!groupOf.has(t)) fixedVolts.set(t, strongVolts(t));
+  }
+  // every device touching the island or a floating group (off ones leak; their junctions too)
+  const devices = new Set<number>(offDevices.filter((i) => {
+    const m = c.mosfets[i]!;
+    return isActive(groupOf, m.d) || isActive(groupOf, m.s);
+  }));
+  for (const n of island) for (const i of ctx.channelOf[n]!) devices.add(i);
+  for (const g of floatingGroups) for (const n of g) for (const i of ctx.channelOf[n]!) devices.add(i);
+  for (const i of devices) {
+    const m = c.mosfets[i]!;
+    for (const t of [m.d, m.s, m.g, m.b]) if (!groupOf.has(t) && !fixedVolts.has(t)) fixedVolts.set(t, gateOrStrong(ctx, t, phaseValues, assignment, worstInput));
+  }
+  return { island, floatingGroups, groupOf, fixedVolts, devices: [...devices].filter((i) => !keeperSet.has(i)), keepers };
+}
+
+function isActive(groupOf: Map<number, number>, n: number): boolean {
+  const g = groupOf.get(n);
+  return g !== undefined && g !== -2;
+}
+
+function gateOrStrong(ctx: ElectricalContext, n: number, phaseValues: Uint8Array, assignment: Map<number, 0 | 1>, worst: number): number {
+  const g = gateVolts(ctx, n, phaseValues, assignment);
+  return g ?? worst;
+}
+
+/**
+ * Root of a decreasing function on [lo, hi] by the Illinois variant of regula falsi, which
+ * keeps the bracket of bisection but converges in a handful of steps on these smooth currents.
+ */
+function solveMonotone(f: (x: number) => number, lo: number, hi: number): number {
+  let a = lo;
+  let b = hi;
+  let fa = f(a);
+  let fb = f(b);
+  if (fa <= 0) return a;
+  if (fb >= 0) return b;
+  let side = 0;
+  for (let it = 0; it < 20 && b - a > 1e-4; it++) {
+    const x = (a * fb - b * fa) / (fb - fa);
+    const fx = f(x);
+    if (fx === 0) return x;
+    if (fx > 0) {
+      a = x;
+      fa = fx;
+      if (side === 1) fb /= 2;
+      side = 1;
+    } else {
+      b = x;
+      fb = fx;
+      if (side === -1) fa /= 2;
+      side = -1;
+    }
+  }
+  return (a + b) / 2;
+}
+
+/** Temperature-scaled junction saturation current of one diffusion (SPICE diode law, XTI, EG). */
+function junctionSaturation(model: MosModel, m: Mosfet, t: 'd' | 's', tempK: number): number {
+  const j = model.junction;
+  const g = diffusionGeometry(m, t);
+  const is0 = j.jsAPerM2 * g.areaM2 + j.jswAPerM * g.perimeterM;
+  if (is0 <= 0) return 0;
+  const vt0 = thermalVoltage(j.tnomK);
+  const vt = thermalVoltage(tempK);
+  const arg = siliconBandGapEv(j.tnomK) / vt0 - siliconBandGapEv(tempK) / vt + j.xti * Math.log(tempK / j.tnomK);
+  return is0 * Math.exp(arg / j.nj);
+}
+
+/** Current from drain to source of a MOSFET at terminal voltages (physical frame), times M. */
+export function channelCurrent(ctx: ElectricalContext, m: Mosfet, vd: number, vg: number, vs: number, vb: number, tempK: number): number {
+  const model = ctx.model(m);
+  if (m.polarity === 'n') return model.drainCurrent(vg - vs, vd - vs, vb - vs, tempK, m.wM / m.nf, m.lM) * m.m * m.nf;
+  return -model.drainCurrent(vs - vg, vs - vd, vs - vb, tempK, m.wM / m.nf, m.lM) * m.m * m.nf;
+}
+
+/** Current flowing from bulk into a diffusion (physical), reverse-biased junctions give -Is. */
+function junctionCurrent(ctx: ElectricalContext, m: Mosfet, t: 'd' | 's', v: number, vb: number, tempK: number): number {
+  const model = ctx.model(m);
+  const is = junctionSaturation(model, m, t, tempK);
+  if (is === 0) return 0;
+  const nvt = model.junction.nj * thermalVoltage(tempK);
+  // n+ in p: anode is the bulk; p+ in n: anode is the diffusion
+  const vf = m.polarity === 'n' ? vb - v : v - vb;
+  const i = is * (Math.exp(Math.min(vf / nvt, 40)) - 1);
+  return m.polarity === 'n' ? i : -i;
+}
+
+export interface LeakageAt {
+  /** Net current leaving the island (A); positive discharges it. */
+  outA: number;
+  contributors: LeakageContributor[];
+}
+
+/** Currents at island voltage `v`, after solving the floating groups' voltages. */
+export function leakageAt(ctx: ElectricalContext, ln: LeakageNetwork, v: number, tempK: number, storedLevel: 0 | 1, withContributors: boolean): LeakageAt {
+  const c = ctx.circuit;
+  const volts = (n: number, groupV: number[]): number => {
+    const g = ln.groupOf.get(n);
+    if (g === -1) return v;
+    if (g !== undefined && g >= 0) return groupV[g]!;
+    return ln.fixedVolts.get(n) ?? 0;
+  };
+  const groupV = ln.floatingGroups.map(() => v / 2);
+  // net current into a set of nets from all devices, at the given voltages
+  const inflow = (members: ReadonlySet<number>, gv: number[], vOverride?: number): number => {
+    let total = 0;
+    const at = (n: number) => (vOverride !== undefined && members.has(n) ? vOverride : volts(n, gv));
+    for (const i of ln.devices) {
+      const m = c.mosfets[i]!;
+      const inD = members.has(m.d);
+      const inS = members.has(m.s);
+      if (!inD && !inS) continue;
+      const vd = at(m.d);
+      const vs = at(m.s);
+      const vg = at(m.g);
+      const vb = at(m.b);
+      if (inD !== inS) {
+        const ids = channelCurrent(ctx, m, vd, vg, vs, vb, tempK);
+        total += inS ? ids : -ids;
+      }
+      if (inD) total += junctionCurrent(ctx, m, 'd', vd, vb, tempK);
+      if (inS && m.s !== m.d) total += junctionCurrent(ctx, m, 's', vs, vb, tempK);
+    }
+    return total;
+  };
+  // Gauss-Seidel with bisection per floating group: each group's inflow falls as its voltage rises
+  const sets = ln.floatingGroups.map((g) => new Set(g));
+  const lo = Math.min(0, v) - 0.2;
+  const hi = Math.max(ctx.vddV, v) + 0.2;
+  for (let pass = 0; pass < (sets.length > 1 ? 12 : 1); pass++) {
+    let moved = 0;
+    sets.forEach((set, k) => {
+      const root = solveMonotone((x) => inflow(set, groupV, x), lo, hi);
+      moved = Math.max(moved, Math.abs(groupV[k]! - root));
+      groupV[k] = root;
+    });
+    if (moved < 1e-4) break;
+  }
+  const outA = -inflow(ln.island, groupV) - keeperInflow(ctx, ln, v, tempK, volts, groupV);
+  const contributors: LeakageContributor[] = [];
+  if (withContributors) {
+    const sign = storedLevel === 1 ? 1 : -1;
+    for (const i of ln.devices) {
+      const m = c.mosfets[i]!;
+      const inD = ln.island.has(m.d);
+      const inS = ln.island.has(m.s);
+      if (!inD && !inS) continue;
+      const vd = volts(m.d, groupV);
+      const vs = volts(m.s, groupV);
+      const vg = volts(m.g, groupV);
+      const vb = volts(m.b, groupV);
+      if (inD !== inS) {
+        const ids = channelCurrent(ctx, m, vd, vg, vs, vb, tempK);
+        const out = inD ? ids : -ids;
+        if (out !== 0) contributors.push({ device: i, mechanism: 'subthreshold', currentA: sign * out });
+      }
+      let j = 0;
+      if (inD) j += junctionCurrent(ctx, m, 'd', vd, vb, tempK);
+      if (inS && m.s !== m.d) j += junctionCurrent(ctx, m, 's', vs, vb, tempK);
+      if (j !== 0) contributors.push({ device: i, mechanism: 'junction', currentA: -sign * j });
+    }
+    for (const k of ln.keepers) {
+      const i = keeperCurrentInto(ctx, c.mosfets[k]!, ln, v, tempK, volts, groupV);
+      if (i !== 0) contributors.push({ device: k, mechanism: 'keeper', currentA: -sign * i });
+    }
+    contributors.sort((x, y) => Math.abs(y.currentA) - Math.abs(x.currentA));
+  }
+  return { outA, contributors };
+}
+
+function keeperInflow(ctx: ElectricalContext, ln: LeakageNetwork, v: number, tempK: number, volts: (n: number, g: number[]) => number, groupV: number[]): number {
+  let total = 0;
+  for (const k of ln.keepers) total += keeperCurrentInto(ctx, ctx.circuit.mosfets[k]!, ln, v, tempK, volts, groupV);
+  return total;
+}
+
+/** A keeper is on (its gate is driven by the node's own inverter at the stored level). */
+function keeperCurrentInto(ctx: ElectricalContext, m: Mosfet, ln: LeakageNetwork, v: number, tempK: number, volts: (n: number, g: number[]) => number, groupV: number[]): number {
+  const vgOn = m.polarity === 'p' ? 0 : ctx.vddV;
+  const vd = volts(m.d, groupV);
+  const vs = volts(m.s, groupV);
+  const vb = volts(m.b, groupV);
+  const ids = channelCurrent(ctx, m, vd, vgOn, vs, vb, tempK);
+  const inD = ln.island.has(m.d);
+  const inS = ln.island.has(m.s);
+  if (inD === inS) return 0;
+  return inS ? ids : -ids;
+}
+
+/**
+ * A string that is equal for two leakage problems with the same devices, sizes, models and
+ * terminal conditions (two instances of one cell in the same surroundings), so one solve serves
+ * both. Devices are listed in network order, terminals by role (island, floating group k,
+ * fixed voltage).
+ */
+export function leakageSignature(ctx: ElectricalContext, ln: LeakageNetwork): string {
+  const c = ctx.circuit;
+  const term = (n: number): string => {
+    const g = ln.groupOf.get(n);
+    if (g === -1) return 'I';
+    if (g !== undefined && g >= 0) return 'F' + g;
+    return 'V' + (ln.fixedVolts.get(n) ?? 0).toFixed(4);
+  };
+  const parts: string[] = [];
+  for (const i of [...ln.devices, ...ln.keepers]) {
+    const m = c.mosfets[i]!;
+    parts.push(`${m.card?.name ?? m.model}:${m.polarity}:${m.wM}:${m.lM}:${m.m}:${m.nf}:${m.adM2}:${m.asM2}:${m.pdM}:${m.psM}:${term(m.d)}${term(m.g)}${term(m.s)}${term(m.b)}${ln.keepers.includes(i) ? 'K' : ''}`);
+  }
+  return parts.join(';');
+}
+
+export { isActive };

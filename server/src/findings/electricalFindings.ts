@@ -1,0 +1,92 @@
+// Findings with numbers: retention-short, charge-sharing, coupling-noise, combined-droop,
+// keeper-weak, keeper-strong. Severity follows the margin. One finding per defining line.
+
+import type { Circuit } from '../circuit/circuit';
+import { formatEng } from '../circuit/numbers';
+import { diag, type Diagnostic } from '../core/diagnostics';
+import type { NodeEstimate } from '../analysis/electrical/estimate';
+import type { ElectricalContext } from '../analysis/electrical/context';
+import { KEEPER_RATIO_MAX } from '../analysis/electrical/keeper';
+
+const KEEPER_WEAK_MARGIN = 2;
+
+function groupKey(c: Circuit, n: number): string {
+  const o = c.nets[n]!.origin;
+  return `${o.file}|${o.range.start.line}|${o.range.start.character}|${o.subckt}|${o.local}`;
+}
+
+export function electricalFindings(ctx: ElectricalContext, estimates: Map<number, NodeEstimate>): Diagnostic[] {
+  const c = ctx.circuit;
+  const out: Diagnostic[] = [];
+  const seen = new Map<string, { d: Diagnostic; count: number }>();
+  const emit = (n: number, rule: Diagnostic['rule'], severity: Diagnostic['severity'], message: string) => {
+    const key = `${rule}|${groupKey(c, n)}`;
+    const prior = seen.get(key);
+    if (prior) {
+      prior.count++;
+      return;
+    }
+    const o = c.nets[n]!.origin;
+    const d = diag(rule, o.file, o.range, message, severity);
+    d.node = c.nets[n]!.name;
+    seen.set(key, { d, count: 1 });
+    out.push(d);
+  };
+  const budget = ctx.budgetV;
+  const b = formatEng(budget, 'V');
+  for (const e of estimates.values()) {
+    if (!e.storage) continue;
+    const name = c.nets[e.node]!.name;
+    const primary = e.stored.find((s) => s.level === e.primaryLevel)!;
+    const window = e.floatWindowS;
+    const cap = formatEng(e.capacitance.totalF, 'F');
+    // retention against the float window
+    if (window !== null) {
+      for (const k of primary.corners) {
+        if (k.retentionS === null) continue;
+        const ratio = k.retentionS / window;
+        if (ratio < 3) {
+          const top = k.contributors[0];
+          const who = top ? `, mostly ${c.mosfets[top.device]!.name} (${top.mechanism})` : '';
+          const w = Number.isFinite(window) ? `its float window of ${formatEng(window, 's')}` : 'the time it floats (it is never restored)';
+          emit(
+            e.node,
+            'retention-short',
+            ratio < 1 ? 'error' : 'warning',
+            `${name} holding ${e.primaryLevel}: at ${k.tempC} C it leaks ${formatEng(k.leakageA, 'A')}${who} and droops by the ${b} budget in ${formatEng(k.retentionS, 's')}, ${ratio < 1 ? 'shorter than' : 'less than 3x'} ${w} (C = ${cap}; phase ${primary.phase})`,
+          );
+          break;
+        }
+      }
+    }
+    const share = e.chargeSharing?.droopV ?? 0;
+    if (share > budget) {
+      const when = Object.entries(e.chargeSharing!.when).map(([k, v]) => `${k}=${v}`).join(' ');
+      emit(e.node, 'charge-sharing', share > 2 * budget ? 'error' : 'warning', `${name}: charge sharing with ${e.chargeSharing!.joined.map((j) => c.nets[j]!.name).join(', ')} (${formatEng(e.chargeSharing!.sharedF, 'F')} against ${cap}) when ${when} droops it by ${formatEng(share, 'V')}, over the ${b} budget`);
+    }
+    const coup = e.coupling.droopV;
+    if (coup > budget) {
+      const top = e.coupling.aggressors.slice(0, 3).map((a) => `${a.net} (${formatEng(a.capacitanceF, 'F')}, ${a.via})`).join(', ');
+      emit(e.node, 'coupling-noise', coup > 2 * budget ? 'error' : 'warning', `${name}: coupling from ${top} can move it by ${formatEng(coup, 'V')}, over the ${b} budget`);
+    }
+    // all mechanisms together, over the float window at the hot corner
+    const hot = primary.corners.reduce((x, y) => (y.tempC > x.tempC ? y : x));
+    const leakDroop = window !== null && Number.isFinite(window) && hot.leakageA > 0 ? Math.min((hot.leakageA * window) / e.capacitance.totalF, ctx.vddV) : 0;
+    const total = leakDroop + share + coup;
+    if (total > budget && leakDroop <= budget && share <= budget && coup <= budget && !(hot.retentionS !== null && window !== null && hot.retentionS < window)) {
+      emit(e.node, 'combined-droop', 'warning', `${name}: leakage (${formatEng(leakDroop, 'V')} over ${formatEng(window ?? 0, 's')} at ${hot.tempC} C), charge sharing (${formatEng(share, 'V')}) and coupling (${formatEng(coup, 'V')}) together move it by ${formatEng(total, 'V')}, over the ${b} budget`);
+    }
+    if (e.keeper) {
+      const k = e.keeper;
+      const kname = c.mosfets[k.devices[0]!]!.name;
+      if (k.holdCurrentA < KEEPER_WEAK_MARGIN * k.hotLeakageA) {
+        emit(e.node, 'keeper-weak', k.holdCurrentA < k.hotLeakageA ? 'error' : 'warning', `${name}: keeper ${kname} supplies ${formatEng(k.holdCurrentA, 'A')} at the ${b} droop, against ${formatEng(k.hotLeakageA, 'A')} of hot-corner leakage (want at least ${KEEPER_WEAK_MARGIN}x)`);
+      }
+      if (k.ratio > KEEPER_RATIO_MAX) {
+        emit(e.node, 'keeper-strong', k.ratio > 2 * KEEPER_RATIO_MAX ? 'error' : 'warning', `${name}: keeper ${kname} is ${k.ratio.toFixed(2)}x as strong as ${k.against.map((i) => c.mosfets[i]!.name).join(' + ')} (common practice at most ${KEEPER_RATIO_MAX})`);
+      }
+    }
+  }
+  for (const { d, count } of seen.values()) if (count > 1) d.message += ` (${count} instances)`;
+  return out;
+}
