@@ -340,6 +340,12 @@ export function createBsim3(card: Readonly<Record<string, number>>, polarity: 'n
     notes,
     polarity,
     coxFPerM2: cox,
+    offGateCapFraction: (() => {
+      const npeak = given(p, 'npeak') ? (p['npeak']! > 1e20 ? p['npeak']! * 1e-6 : p['npeak']!) : 1.7e17;
+      const phi = 2 * thermalVoltage(tnomK) * Math.log(npeak / intrinsicDensityPerCm3(tnomK));
+      const cdep0 = Math.sqrt((ELEMENTARY_CHARGE_C * EPS_SI_F_PER_M * npeak * 1e6) / 2 / phi);
+      return cdep0 / (cox + cdep0);
+    })(),
     cgdoFPerM: cgdo,
     cgsoFPerM: cgso,
     junction,

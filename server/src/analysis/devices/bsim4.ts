@@ -303,6 +303,12 @@ export function createBsim4(card: Readonly<Record<string, number>>, polarity: 'n
     notes,
     polarity,
     coxFPerM2: coxe,
+    offGateCapFraction: (() => {
+      const ndep = param(p, 'ndep', 1.7e17);
+      const phi = thermalVoltage(tnomK) * Math.log(ndep / intrinsicDensityPerCm3(tnomK)) + param(p, 'phin', 0) + 0.4;
+      const cdep0 = Math.sqrt((ELEMENTARY_CHARGE_C * epssub * ndep * 1e6) / 2 / phi);
+      return cdep0 / (coxe + cdep0);
+    })(),
     cgdoFPerM: cgdo,
     cgsoFPerM: cgso,
     junction,

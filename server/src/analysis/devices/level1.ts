@@ -60,6 +60,8 @@ export function createLevel123(p: Readonly<Record<string, number>>, polarity: 'n
     notes,
     polarity,
     coxFPerM2: cox,
+    // with a body factor, Cdep/Cox = gamma / (2 sqrt(phi)); without one, no depletion reduction
+    offGateCapFraction: gamma > 0 ? 1 / (1 + (2 * Math.sqrt(phi)) / gamma) : 1,
     cgdoFPerM: param(p, 'cgdo', 0),
     cgsoFPerM: param(p, 'cgso', 0),
     junction,

@@ -32,6 +32,11 @@ export interface MosModel {
   threshold(vbs: number, vds: number, tempK: number, wM: number, lM: number): number;
   /** Gate oxide capacitance per area, F/m^2. */
   coxFPerM2: number;
+  /**
+   * Fraction of Cox*W*L the gate presents when the channel is off (depletion: the oxide in
+   * series with the depletion capacitance, Cdep0 / (Cox + Cdep0)).
+   */
+  offGateCapFraction: number;
   /** Gate-drain and gate-source overlap capacitance per width, F/m. */
   cgdoFPerM: number;
   cgsoFPerM: number;

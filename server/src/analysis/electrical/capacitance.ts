@@ -59,7 +59,12 @@ export function islandCapacitance(ctx: ElectricalContext, island: ReadonlySet<nu
       const model = ctx.model(m);
       const w = model.effectiveWidth(m.wM);
       const l = model.effectiveLength(m.lM);
-      gateF += (model.coxFPerM2 * w * l + (model.cgsoFPerM + model.cgdoFPerM) * w) * m.m;
+      // at this gate voltage the channel is on (full oxide) or off (oxide over depletion)
+      const vs = Math.min(ctx.railVolts[m.s]!, ctx.railVolts[m.d]!);
+      const src = Number.isFinite(vs) ? vs : m.polarity === 'n' ? 0 : ctx.vddV;
+      const vgs = m.polarity === 'n' ? v - src : src - v;
+      const onFraction = vgs > Math.abs(model.threshold(0, 0, 300, m.wM, m.lM)) ? 1 : model.offGateCapFraction;
+      gateF += (model.coxFPerM2 * w * l * onFraction + (model.cgsoFPerM + model.cgdoFPerM) * w) * m.m;
     }
     for (const i of ctx.channelOf[n]!) {
       if (seen.has(i)) continue;

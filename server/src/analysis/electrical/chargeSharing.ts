@@ -5,13 +5,18 @@
 // nothing. Droop, after Rabaey, Chandrakasan and Nikolic (Digital Integrated Circuits, 2nd ed.,
 // dynamic logic): if the droop stays below the threshold of the joining device,
 // dV = (Ca/CL)(VDD - VTn); otherwise the charge spreads fully, dV = VDD * Ca / (CL + Ca).
+// Both cases are solved together here by charge conservation with bias-dependent capacitance;
+// `textbookChargeSharing` gives the two closed forms for comparison.
 
 import { NetRole, SwitchKind } from '../switchNetwork';
 import type { ElectricalContext } from './context';
 import { islandCapacitance } from './capacitance';
+import { channelCurrent } from './leakage';
 
 export interface ChargeSharingResult {
   droopV: number;
+  /** Free gate values of the worst assignment. */
+  gates: Map<number, 0 | 1>;
   /** The gate values of the worst assignment, and the internal nodes it joins. */
   when: Record<string, 0 | 1>;
   joined: number[];
@@ -21,14 +26,19 @@ export interface ChargeSharingResult {
 
 const MAX_GATES = 12;
 
+/** The textbook's closed forms (Rabaey et al.), for a node CL at VDD joined to Ca at 0 V. */
+export function textbookChargeSharing(vdd: number, vtn: number, cl: number, ca: number): number {
+  const limited = (ca / cl) * (vdd - vtn);
+  return limited < vtn ? limited : (vdd * ca) / (cl + ca);
+}
+
 export function chargeSharing(ctx: ElectricalContext, node: number, phaseIndex: number, phaseValues: Uint8Array, otherPhaseValues: Uint8Array[], storedLevel: 0 | 1, loadF: number): ChargeSharingResult {
   const net = ctx.network;
   const comp = net.components[net.componentOf[node]!]!;
   const free = comp.gates.filter((g) => phaseValues[g] === 2);
-  const none: ChargeSharingResult = { droopV: 0, when: {}, joined: [], sharedF: 0, exact: true };
+  const none: ChargeSharingResult = { droopV: 0, gates: new Map(), when: {}, joined: [], sharedF: 0, exact: true };
   if (comp.nodes.length === 1) return none;
   if (free.length > MAX_GATES) return { ...none, exact: false };
-  void phaseIndex;
   const pos = new Map(free.map((g, i) => [g, i]));
   let best = none;
   const precharged = (n: number) => otherPhaseValues.some((vals) => vals[n] === storedLevel);
@@ -65,20 +75,60 @@ export function chargeSharing(ctx: ElectricalContext, node: number, phaseIndex: 
     if (sharedF > best.sharedF) {
       const when: Record<string, 0 | 1> = {};
       free.forEach((g, i) => (when[ctx.circuit.nets[g]!.name] = ((a >> i) & 1) as 0 | 1));
-      best = { droopV: 0, when, joined, sharedF, exact: true };
+      best = { droopV: 0, gates: new Map(free.map((g, i) => [g, ((a >> i) & 1) as 0 | 1])), when, joined, sharedF, exact: true };
     }
   }
   if (best.sharedF === 0) return best;
-  // threshold of the device that joins them, with its source near the shared voltage
+  // The sharing itself is integrated in time over the phase: the node (CL) and the joined
+  // nodes (their bias-dependent capacitance, lumped) exchange charge through the joining
+  // devices' model current. This covers both textbook cases (see textbookChargeSharing): the
+  // joined node stops near the gate drive less a threshold, or the two settle together; and
+  // since the joining device keeps conducting just above and below threshold, the droop at
+  // the end of the phase is what counts.
   const vdd = ctx.vddV;
-  const joiner = ctx.channelOf[node]!.map((i) => ctx.circuit.mosfets[i]!).find((m) => best.joined.includes(m.d) || best.joined.includes(m.s));
-  let vt = 0;
-  if (joiner) {
-    const model = ctx.model(joiner);
-    const vsb = vdd / 2;
-    vt = Math.abs(model.threshold(joiner.polarity === 'n' ? -vsb : -vsb, 0, ctx.corners[0]!.tempK, joiner.wM, joiner.lM));
+  const c = ctx.circuit;
+  const joinedSet = new Set(best.joined);
+  const tempK = ctx.corners[0]!.tempK;
+  const gateV = (g: number): number => {
+    const rail = ctx.railVolts[g]!;
+    if (Number.isFinite(rail)) return rail;
+    const a = best.gates.get(g);
+    if (a !== undefined) return a * vdd;
+    const v = phaseValues[g]!;
+    return v === 2 ? 0 : v * vdd;
+  };
+  const joiners = ctx.channelOf[node]!.map((i) => c.mosfets[i]!).filter((m) => {
+    const other = m.d === node ? m.s : m.d;
+    if (!joinedSet.has(other)) return false;
+    const g = gateV(m.g);
+    return m.polarity === 'n' ? g > vdd / 2 : g < vdd / 2;
+  });
+  const bodyV = (m: (typeof joiners)[number]) => (Number.isFinite(ctx.railVolts[m.b]!) ? ctx.railVolts[m.b]! : m.polarity === 'n' ? 0 : vdd);
+  const capJoined = (v: number) => islandCapacitance(ctx, joinedSet, v).totalF;
+  const capNode = (v: number) => Math.max(loadF + 0 * v, 1e-18);
+  const phaseS = ctx.plan.phases[phaseIndex]?.durationS;
+  const horizon = phaseS && Number.isFinite(phaseS) ? Math.min(phaseS, 1e-3) : 1e-6;
+  let vNode = storedLevel === 1 ? vdd : 0;
+  let vJoined = storedLevel === 1 ? 0 : vdd;
+  let t = 0;
+  let dt = 1e-15;
+  for (let step = 0; step < 5000 && t < horizon; step++) {
+    let i = 0; // current from the node into the joined nodes
+    for (const m of joiners) {
+      const nodeIsDrain = m.d === node;
+      const ids = channelCurrent(ctx, m, nodeIsDrain ? vNode : vJoined, gateV(m.g), nodeIsDrain ? vJoined : vNode, bodyV(m), tempK);
+      i += nodeIsDrain ? ids : -ids;
+    }
+    if (i === 0) break;
+    // at most a few millivolts per step on either side
+    const cj = capJoined(vJoined);
+    const cn = capNode(vNode);
+    dt = Math.min(dt * 2, (0.003 * Math.min(cj, cn)) / Math.abs(i), horizon - t);
+    vNode -= (i * dt) / cn;
+    vJoined += (i * dt) / cj;
+    t += dt;
+    if ((storedLevel === 1 && vJoined >= vNode) || (storedLevel === 0 && vJoined <= vNode)) break;
   }
-  const limited = (best.sharedF / loadF) * (vdd - vt);
-  const droopV = limited < vt ? limited : (vdd * best.sharedF) / (loadF + best.sharedF);
+  const droopV = Math.abs((storedLevel === 1 ? vdd : 0) - vNode);
   return { ...best, droopV };
 }

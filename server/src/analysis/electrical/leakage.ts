@@ -150,8 +150,9 @@ function gateOrStrong(ctx: ElectricalContext, n: number, phaseValues: Uint8Array
 }
 
 /**
- * Root of a decreasing function on [lo, hi] by the Illinois variant of regula falsi, which
- * keeps the bracket of bisection but converges in a handful of steps on these smooth currents.
+ * Root of a decreasing function on [lo, hi]: secant steps inside a shrinking bracket, with a
+ * bisection step whenever the secant would leave the bracket's middle or stall. Currents here
+ * are exponential in voltage, so plain regula falsi can creep from one side; this cannot.
  */
 function solveMonotone(f: (x: number) => number, lo: number, hi: number): number {
   let a = lo;
@@ -160,24 +161,21 @@ function solveMonotone(f: (x: number) => number, lo: number, hi: number): number
   let fb = f(b);
   if (fa <= 0) return a;
   if (fb >= 0) return b;
-  let side = 0;
-  for (let it = 0; it < 20 && b - a > 1e-4; it++) {
-    const x = (a * fb - b * fa) / (fb - fa);
+  for (let it = 0; it < 60 && b - a > 1e-5; it++) {
+    let x = (a * fb - b * fa) / (fb - fa);
+    const margin = 0.1 * (b - a);
+    if (!(x > a + margin && x < b - margin) || it % 3 === 2) x = (a + b) / 2;
     const fx = f(x);
     if (fx === 0) return x;
     if (fx > 0) {
       a = x;
       fa = fx;
-      if (side === 1) fb /= 2;
-      side = 1;
     } else {
       b = x;
       fb = fx;
-      if (side === -1) fa /= 2;
-      side = -1;
     }
   }
-  return (a + b) / 2;
+  return (a * fb - b * fa) / (fb - fa);
 }
 
 /** Temperature-scaled junction saturation current of one diffusion (SPICE diode law, XTI, EG). */
