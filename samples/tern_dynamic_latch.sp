@@ -2,7 +2,7 @@ Tern sensor hub: sample-and-hold latch on the ADC capture path (Quillmoor Labs, 
 * A clocked pass gate loads the storage node; a static inverter reads it. While the capture
 * clock is low the storage node holds its level only as charge.
 .lib models/tern45.lib tt
-.param wn=0.3u wp=0.6u lmin=0.05u
+.param wn=0.2u wp=0.4u lmin=0.045u
 
 .subckt capture_latch d clk clkb q vdd vss
 Mpass_n d clk st vss tn w={wn} l={lmin}
