@@ -95,7 +95,8 @@ function estimateNode(ctx: ElectricalContext, n: number, floating: Array<{ s: No
       const assignment = new Map<number, 0 | 1>(s.gateAssignment ?? []);
       const keepers = s.state === 'kept' && s.keptLevel === level ? (s.keepers ?? []) : [];
       const ln = buildLeakageNetwork(ctx, n, values[i]!, assignment, level, keepers);
-      const o = leakageAt(ctx, ln, vs, hot.tempK, level, false).outA;
+      // with one floating phase there is nothing to compare
+      const o = floating.length === 1 ? 0 : leakageAt(ctx, ln, vs, hot.tempK, level, false).outA;
       const leak = level === 1 ? o : -o;
       if (!pick || leak > pickLeak) {
         pickLeak = leak;
