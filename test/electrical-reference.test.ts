@@ -144,3 +144,24 @@ describe.each(TECHS)('$name against ngspice', (t) => {
     expect({ ours, ref, ok: within(ours, ref, 0.1) }).toMatchObject({ ok: true });
   });
 });
+
+describe('gate tunnelling where the card gives it (BSIM4, IGCMOD=1) against ngspice', () => {
+  it('the leakage of a floating node read by a large thin-oxide gate includes its tunnelling (within 30%)', async () => {
+    const cards = `${BSIM4_NMOS.replace('igcmod=0', 'igcmod=1')}\n${BSIM4_PMOS.replace('igcmod=0', 'igcmod=1')}`;
+    const deck = [
+      'gate leakage',
+      cards,
+      'Mn1 st off 0 0 n45 w=0.2u l=0.1u ad=0.02p pd=0.6u',
+      'Mi out st 0 0 n45 w=5u l=1u ad=0.5p as=0.5p pd=6u ps=6u',
+      'Mj out st vdd vdd p45 w=5u l=1u ad=0.5p as=0.5p pd=6u ps=6u',
+      'vdd vdd 0 1',
+      'voff off 0 0',
+    ].join('\n');
+    const e = tidemarkEstimate(deck + '\n.end\n', 'st', { tempsC: [25] }).estimate;
+    const corner = e.stored.find((s) => s.level === 1)!.corners[0]!;
+    expect(corner.contributors.some((c) => c.mechanism === 'gate')).toBe(true);
+    const sim = await runNgspice(`${deck}\nvhold st 0 1\n.options gmin=1e-18\n.op\n.end\n`);
+    const ref = -sim.get('i(vhold)')![0]!;
+    expect({ ours: corner.leakageA, ref, ok: within(corner.leakageA, ref, 0.3) }).toMatchObject({ ok: true });
+  });
+});

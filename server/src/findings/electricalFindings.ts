@@ -82,6 +82,9 @@ export function electricalFindings(ctx: ElectricalContext, estimates: Map<number
       if (k.holdCurrentA < KEEPER_WEAK_MARGIN * k.hotLeakageA) {
         emit(e.node, 'keeper-weak', k.holdCurrentA < k.hotLeakageA ? 'error' : 'warning', `${name}: keeper ${kname} supplies ${formatEng(k.holdCurrentA, 'A')} at the ${b} droop, against ${formatEng(k.hotLeakageA, 'A')} of hot-corner leakage (want at least ${KEEPER_WEAK_MARGIN}x)`);
       }
+      if (share > budget) {
+        emit(e.node, 'keeper-weak', 'warning', `${name}: keeper ${kname} cannot stop charge sharing with ${e.chargeSharing!.joined.map((j) => c.nets[j]!.name).join(', ')} from drooping it by ${formatEng(share, 'V')} (budget ${b}); precharge the internal node or reorder the stack`);
+      }
       if (k.ratio > KEEPER_RATIO_MAX) {
         emit(e.node, 'keeper-strong', k.ratio > 2 * KEEPER_RATIO_MAX ? 'error' : 'warning', `${name}: keeper ${kname} is ${k.ratio.toFixed(2)}x as strong as ${k.against.map((i) => c.mosfets[i]!.name).join(' + ')} (common practice at most ${KEEPER_RATIO_MAX})`);
       }

@@ -30,7 +30,7 @@ export function createBsim3(card: Readonly<Record<string, number>>, polarity: 'n
     const pre = /^[lwp]/.test(k) ? ALIASES[k.slice(1)] : undefined;
     p[pre ? k[0] + pre : bare] = v;
   }
-  const notes: string[] = [];
+  const notes: string[] = ['gate leakage not included: BSIM3 has no tunnelling model'];
   const type = 1; // evaluated in the n-channel frame
   // ngspice evaluates a p-channel device in the n-channel frame with TYPE * VTH0
   const sign = polarity === 'p' ? -1 : 1;

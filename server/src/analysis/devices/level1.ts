@@ -9,7 +9,7 @@ import { given, param, type JunctionParams, type MosModel } from './mosModel';
 
 export function createLevel123(p: Readonly<Record<string, number>>, polarity: 'n' | 'p', level: 1 | 2 | 3): MosModel {
   const sign = polarity === 'p' ? -1 : 1;
-  const notes: string[] = [];
+  const notes: string[] = ['gate leakage not included: the card gives no tunnelling parameters'];
   const tox = given(p, 'tox') ? p['tox']! : undefined;
   const cox = tox ? EPS_OX_F_PER_M / tox : EPS_OX_F_PER_M / 1e-7;
   const u0 = param(p, 'uo', param(p, 'u0', 600)) * 1e-4; // cm^2/Vs -> m^2/Vs

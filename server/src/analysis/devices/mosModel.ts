@@ -41,8 +41,12 @@ export interface MosModel {
   cgdoFPerM: number;
   cgsoFPerM: number;
   junction: JunctionParams;
-  /** Gate leakage through the oxide (A) when the card gives its parameters, else undefined. */
-  gateLeakage?(vgs: number, vds: number, tempK: number, wM: number, lM: number): number;
+  /**
+   * Gate tunnelling currents (n-channel frame, A, positive from the gate into the terminal) when
+   * the card enables them; undefined otherwise. `igs`/`igd` include the gate-to-channel current
+   * split to each side and the overlap (edge) currents.
+   */
+  gateLeakage?(vgs: number, vds: number, tempK: number, wM: number, lM: number): { igs: number; igd: number };
   /** Effective channel length and width (after LINT/WINT), for capacitance. */
   effectiveLength(lM: number): number;
   effectiveWidth(wM: number): number;

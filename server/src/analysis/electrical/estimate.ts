@@ -111,7 +111,7 @@ function estimateNode(ctx: ElectricalContext, n: number, floating: Array<{ s: No
         level,
         volts: vs,
         phase: ctx.plan.phases[i]!.name,
-        corners: hit.corners.map((k, ci) => ({ tempC: ctx.corners[ci]!.tempC, leakageA: k.leakageA, retentionS: k.retentionS, held: k.held, contributors: k.contributors.map((x) => ({ device: ln.devices[x.pos] ?? ln.keepers[x.pos - ln.devices.length]!, mechanism: x.mechanism, currentA: x.currentA })) })),
+        corners: hit.corners.map((k, ci) => ({ tempC: ctx.corners[ci]!.tempC, leakageA: k.leakageA, retentionS: k.retentionS, held: k.held, contributors: k.contributors.map((x) => ({ device: [...ln.devices, ...ln.keepers, ...ln.gateDevices][x.pos]!, mechanism: x.mechanism, currentA: x.currentA })) })),
       });
       continue;
     }
@@ -133,7 +133,8 @@ function estimateNode(ctx: ElectricalContext, n: number, floating: Array<{ s: No
     });
     stored.push({ level, volts: vs, phase: ctx.plan.phases[i]!.name, corners });
     if (!keepers.length) {
-      const pos = new Map<number, number>([...ln.devices, ...ln.keepers].map((d, k) => [d, k]));
+      const pos = new Map<number, number>();
+      [...ln.devices, ...ln.keepers, ...ln.gateDevices].forEach((d, k) => pos.has(d) || pos.set(d, k));
       cache.set(key, { corners: corners.map((k) => ({ leakageA: k.leakageA, retentionS: k.retentionS, held: k.held, contributors: k.contributors.map((x) => ({ pos: pos.get(x.device)!, mechanism: x.mechanism, currentA: x.currentA })) })) });
     }
     if (keepers.length && !keeperInfo) {

@@ -16,7 +16,7 @@ import { diffusionGeometry } from './context';
 
 export interface LeakageContributor {
   device: number;
-  mechanism: 'subthreshold' | 'junction' | 'keeper';
+  mechanism: 'subthreshold' | 'junction' | 'gate' | 'keeper';
   /** Positive when it moves the node away from its stored level. */
   currentA: number;
 }
@@ -34,6 +34,8 @@ export interface LeakageNetwork {
   devices: number[];
   /** Devices held on only by feedback (keepers), which supply current rather than leak. */
   keepers: number[];
+  /** Devices whose gate is on the island and whose model tunnels (gate leakage). */
+  gateDevices: number[];
 }
 
 function gateVolts(ctx: ElectricalContext, net: number, phaseValues: Uint8Array, assignment: Map<number, 0 | 1>): number | undefined {
@@ -136,7 +138,16 @@ export function buildLeakageNetwork(ctx: ElectricalContext, node: number, phaseV
     const m = c.mosfets[i]!;
     for (const t of [m.d, m.s, m.g, m.b]) if (!groupOf.has(t) && !fixedVolts.has(t)) fixedVolts.set(t, gateOrStrong(ctx, t, phaseValues, assignment, worstInput));
   }
-  return { island, floatingGroups, groupOf, fixedVolts, devices: [...devices].filter((i) => !keeperSet.has(i)), keepers };
+  const gateDevices: number[] = [];
+  for (const n of island) {
+    for (const i of ctx.gateOf[n]!) {
+      const m = c.mosfets[i]!;
+      if (!ctx.model(m).gateLeakage) continue;
+      gateDevices.push(i);
+      for (const t of [m.d, m.s, m.b]) if (!groupOf.has(t) && !fixedVolts.has(t)) fixedVolts.set(t, gateOrStrong(ctx, t, phaseValues, assignment, worstInput));
+    }
+  }
+  return { island, floatingGroups, groupOf, fixedVolts, devices: [...devices].filter((i) => !keeperSet.has(i)), keepers, gateDevices };
 }
 
 function isActive(groupOf: Map<number, number>, n: number): boolean {
@@ -209,6 +220,18 @@ function junctionCurrent(ctx: ElectricalContext, m: Mosfet, t: 'd' | 's', v: num
   return m.polarity === 'n' ? i : -i;
 }
 
+/** Tunnelling currents from the gate into source and drain, physical frame, times M. */
+function gateCurrents(ctx: ElectricalContext, m: Mosfet, vd: number, vg: number, vs: number, tempK: number): { igsA: number; igdA: number } {
+  const model = ctx.model(m);
+  const w = m.wM / m.nf;
+  if (m.polarity === 'n') {
+    const r = model.gateLeakage!(vg - vs, vd - vs, tempK, w, m.lM);
+    return { igsA: r.igs * m.m * m.nf, igdA: r.igd * m.m * m.nf };
+  }
+  const r = model.gateLeakage!(vs - vg, vs - vd, tempK, w, m.lM);
+  return { igsA: -r.igs * m.m * m.nf, igdA: -r.igd * m.m * m.nf };
+}
+
 export interface LeakageAt {
   /** Net current leaving the island (A); positive discharges it. */
   outA: number;
@@ -225,6 +248,7 @@ export function leakageAt(ctx: ElectricalContext, ln: LeakageNetwork, v: number,
     return ln.fixedVolts.get(n) ?? 0;
   };
   const groupV = ln.floatingGroups.map(() => v / 2);
+  let gateContributors: LeakageContributor[] = [];
   // net current into a set of nets from all devices, at the given voltages
   const inflow = (members: ReadonlySet<number>, gv: number[], vOverride?: number): number => {
     let total = 0;
@@ -245,6 +269,28 @@ export function leakageAt(ctx: ElectricalContext, ln: LeakageNetwork, v: number,
       if (inD) total += junctionCurrent(ctx, m, 'd', vd, vb, tempK);
       if (inS && m.s !== m.d) total += junctionCurrent(ctx, m, 's', vs, vb, tempK);
     }
+    total += gateInflow(members, at);
+    return total;
+  };
+  /** Tunnelling currents into a set of nets: out through gates on it, in at drains and sources. */
+  const gateInflow = (members: ReadonlySet<number>, at: (n: number) => number): number => {
+    let total = 0;
+    const seenDev = new Set<number>();
+    for (const i of [...ln.gateDevices, ...ln.devices]) {
+      if (seenDev.has(i)) continue;
+      seenDev.add(i);
+      const m = c.mosfets[i]!;
+      const model = ctx.model(m);
+      if (!model.gateLeakage) continue;
+      const inG = members.has(m.g);
+      const inD = members.has(m.d);
+      const inS = members.has(m.s);
+      if (!inG && !inD && !inS) continue;
+      const { igsA, igdA } = gateCurrents(ctx, m, at(m.d), at(m.g), at(m.s), tempK);
+      if (inG) total -= igsA + igdA;
+      if (inS) total += igsA;
+      if (inD) total += igdA;
+    }
     return total;
   };
   // Gauss-Seidel with bisection per floating group: each group's inflow falls as its voltage rises
@@ -261,7 +307,24 @@ export function leakageAt(ctx: ElectricalContext, ln: LeakageNetwork, v: number,
     if (moved < 1e-4) break;
   }
   const outA = -inflow(ln.island, groupV) - keeperInflow(ctx, ln, v, tempK, volts, groupV);
-  const contributors: LeakageContributor[] = [];
+  if (withContributors) {
+    // gate tunnelling, per device
+    const sign = storedLevel === 1 ? 1 : -1;
+    const at = (n: number) => volts(n, groupV);
+    const gc: LeakageContributor[] = [];
+    for (const i of new Set([...ln.gateDevices, ...ln.devices])) {
+      const m = c.mosfets[i]!;
+      if (!ctx.model(m).gateLeakage) continue;
+      const { igsA, igdA } = gateCurrents(ctx, m, at(m.d), at(m.g), at(m.s), tempK);
+      let out = 0;
+      if (ln.island.has(m.g)) out += igsA + igdA;
+      if (ln.island.has(m.s)) out -= igsA;
+      if (ln.island.has(m.d)) out -= igdA;
+      if (out !== 0) gc.push({ device: i, mechanism: 'gate', currentA: sign * out });
+    }
+    gateContributors = gc;
+  }
+  const contributors: LeakageContributor[] = [...gateContributors];
   if (withContributors) {
     const sign = storedLevel === 1 ? 1 : -1;
     for (const i of ln.devices) {
@@ -326,7 +389,12 @@ export function leakageSignature(ctx: ElectricalContext, ln: LeakageNetwork): st
     return 'V' + (ln.fixedVolts.get(n) ?? 0).toFixed(4);
   };
   const parts: string[] = [];
-  for (const i of [...ln.devices, ...ln.keepers]) {
+  for (const i of [...ln.devices, ...ln.keepers, ...ln.gateDevices.map((g) => -1 - g)]) {
+    if (i < 0) {
+      const m = c.mosfets[-1 - i]!;
+      parts.push(`G${m.card?.name ?? m.model}:${m.polarity}:${m.wM}:${m.lM}:${m.m}:${term(m.d)}${term(m.s)}`);
+      continue;
+    }
     const m = c.mosfets[i]!;
     parts.push(`${m.card?.name ?? m.model}:${m.polarity}:${m.wM}:${m.lM}:${m.m}:${m.nf}:${m.adM2}:${m.asM2}:${m.pdM}:${m.psM}:${term(m.d)}${term(m.g)}${term(m.s)}${term(m.b)}${ln.keepers.includes(i) ? 'K' : ''}`);
   }
