@@ -32,10 +32,14 @@ export function textbookChargeSharing(vdd: number, vtn: number, cl: number, ca: 
   return limited < vtn ? limited : (vdd * ca) / (cl + ca);
 }
 
-export function chargeSharing(ctx: ElectricalContext, node: number, phaseIndex: number, phaseValues: Uint8Array, otherPhaseValues: Uint8Array[], storedLevel: 0 | 1, loadF: number): ChargeSharingResult {
+export function chargeSharing(ctx: ElectricalContext, node: number, phaseIndex: number, phaseValues: Uint8Array, otherPhaseValues: Uint8Array[], storedLevel: 0 | 1, loadF: number, keepers: number[] = []): ChargeSharingResult {
   const net = ctx.network;
   const comp = net.components[net.componentOf[node]!]!;
-  const free = comp.gates.filter((g) => phaseValues[g] === 2);
+  // a keeper is too weak to stop sharing as it happens: it joins nothing here, and its gate
+  // (the node's own inverter) is not a free input
+  const keeperSet = new Set(keepers);
+  const keeperGates = new Set(keepers.map((k) => ctx.circuit.mosfets[k]!.g));
+  const free = comp.gates.filter((g) => phaseValues[g] === 2 && !keeperGates.has(g));
   const none: ChargeSharingResult = { droopV: 0, gates: new Map(), when: {}, joined: [], sharedF: 0, exact: true };
   if (comp.nodes.length === 1) return none;
   if (free.length > MAX_GATES) return { ...none, exact: false };
@@ -53,6 +57,7 @@ export function chargeSharing(ctx: ElectricalContext, node: number, phaseIndex: 
       for (const si of comp.switches) {
         const s = net.switches[si]!;
         if (s.a !== x && s.b !== x) continue;
+        if (s.mosfet >= 0 && keeperSet.has(s.mosfet)) continue;
         if (s.kind !== SwitchKind.On) {
           const g = gate(s.gate);
           if (g === 2 || (s.kind === SwitchKind.N) !== (g === 1)) continue;

@@ -156,7 +156,7 @@ function estimateNode(ctx: ElectricalContext, n: number, floating: Array<{ s: No
   if (storage) {
     const fi = floating.find((f) => f.s.state !== 'kept') ?? floating[0]!;
     const others = values.filter((_, i) => i !== fi.i);
-    sharing = chargeSharing(ctx, n, fi.i, values[fi.i]!, others, primaryLevel, capacitance.totalF);
+    sharing = chargeSharing(ctx, n, fi.i, values[fi.i]!, others, primaryLevel, capacitance.totalF, keptState?.keepers ?? []);
     coupling = couplingDroop(ctx, capacitance, constantEverywhere);
     const needsKeeper = !keptState && (hotRet === null ? false : floatWindowS === null || hotRet < 3 * floatWindowS || sharing.droopV > ctx.budgetV);
     if (needsKeeper) suggested = sizeKeeper(ctx, n, primaryLevel, primary.corners[hotIndex]!.leakageA, ctx.corners[hotIndex]!.tempK);
