@@ -8,6 +8,7 @@
 // (BSIM3 has none), non-quasi-static effects. Binned L/W/P parameter variants are honoured.
 
 import { EPS_OX_F_PER_M, EPS_SI_F_PER_M, ELEMENTARY_CHARGE_C, intrinsicDensityPerCm3, siliconBandGapEv, thermalVoltage, ZERO_CELSIUS_K } from './physics';
+import { bsimChannelCurrent } from './bsimOutput';
 import { param, given, type JunctionParams, type MosModel } from './mosModel';
 
 const EXP_THRESHOLD = 34;
@@ -250,75 +251,29 @@ export function createBsim3(card: Readonly<Record<string, number>>, polarity: 'n
     const Denomi = T5m >= -0.8 ? 1 + T5m : (0.6 + T5m) / (7 + 10 * T5m);
     const ueff = s['u0temp']! / Denomi;
     // saturation voltage
-    const vsat = s['vsattemp']!;
-    const WVCoxRds = Weff * vsat * cox * Rds;
-    const EsatL = ((2 * vsat) / ueff) * Leff;
-    const a1 = s['a1']!;
-    const a2 = s['a2']!;
-    let Lambda: number;
-    if (a1 === 0) Lambda = a2;
-    else if (a1 > 0) {
-      const T0 = 1 - a2;
-      const T1 = T0 - a1 * Vgsteff - 0.0001;
-      Lambda = a2 + T0 - 0.5 * (T1 + Math.sqrt(T1 * T1 + 0.0004 * T0));
-    } else {
-      const T1 = a2 + a1 * Vgsteff - 0.0001;
-      Lambda = 0.5 * (T1 + Math.sqrt(T1 * T1 + 0.0004 * a2));
-    }
-    const Vgst2Vtm = Vgsteff + 2 * vtm;
-    let Vdsat: number;
-    if (Rds === 0 && Lambda === 1) Vdsat = (EsatL * Vgst2Vtm) / (Abulk * EsatL + Vgst2Vtm);
-    else {
-      const T9r = Abulk * WVCoxRds;
-      const T7 = Vgst2Vtm * T9r;
-      const T6 = Vgst2Vtm * WVCoxRds;
-      const T0 = 2 * Abulk * (T9r - 1 + 1 / Lambda);
-      const T1 = Vgst2Vtm * (2 / Lambda - 1) + Abulk * EsatL + 3 * T7;
-      const T2 = Vgst2Vtm * (EsatL + 2 * T6);
-      Vdsat = (T1 - Math.sqrt(T1 * T1 - 2 * T0 * T2)) / T0;
-    }
-    const delta = s['delta']!;
-    const T1d = Vdsat - Vds - delta;
-    let Vdseff = Vdsat - 0.5 * (T1d + Math.sqrt(T1d * T1d + 4 * delta * Vdsat));
-    if (Vds === 0) Vdseff = 0;
-    // output resistance
-    const tmp4 = 1 - (0.5 * Abulk * Vdsat) / Vgst2Vtm;
-    const T9v = WVCoxRds * Vgsteff;
-    const T0v = EsatL + Vdsat + 2 * T9v * tmp4;
-    const T1v = 2 / Lambda - 1 + WVCoxRds * Abulk;
-    const Vasat = T0v / T1v;
-    if (Vdseff > Vds) Vdseff = Vds;
-    const diffVds = Vds - Vdseff;
-    let VACLM = 5.834617425e14;
-    if (s['pclm']! > 0 && diffVds > 1e-10) {
-      const T0 = 1 / (s['pclm']! * Abulk * s['litl']!);
-      const T1 = Leff * (Abulk + Vgsteff / EsatL);
-      VACLM = T0 * T1 * diffVds;
-    }
-    let VADIBL = 5.834617425e14;
-    if (s['thetaRout']! > 0) {
-      const T8 = Abulk * Vdsat;
-      const T0 = Vgst2Vtm * T8;
-      const T1 = Vgst2Vtm + T8;
-      VADIBL = (Vgst2Vtm - T0 / T1) / s['thetaRout']!;
-      const T7 = s['pdiblb']! * Vbseff;
-      VADIBL *= T7 >= -0.9 ? 1 / (1 + T7) : (17 + 20 * T7) / (0.8 + T7);
-    }
-    const T8p = s['pvag']! / EsatL;
-    const T9p = T8p * Vgsteff;
-    const T0p = T9p > -0.9 ? 1 + T9p : (0.8 + T9p) / (17 + 20 * T9p);
-    const Va = Vasat + (T0p * VACLM * VADIBL) / (VACLM + VADIBL);
-    let VASCBE = 5.834617425e14;
-    if (s['pscbe2']! > 0) {
-      if (diffVds > (s['pscbe1']! * s['litl']!) / EXP_THRESHOLD) VASCBE = (Leff * Math.exp((s['pscbe1']! * s['litl']!) / diffVds)) / s['pscbe2']!;
-      else VASCBE = (5.834617425e14 * Leff) / s['pscbe2']!;
-    }
-    const beta = (ueff * cox * Weff) / Leff;
-    const fgche1 = Vgsteff * (1 - (0.5 * Abulk * Vdseff) / Vgst2Vtm);
-    const fgche2 = 1 + Vdseff / EsatL;
-    const gche = (beta * fgche1) / fgche2;
-    const Idl = (gche * Vdseff) / (1 + gche * Rds);
-    return Idl * (1 + diffVds / Va) * (1 + diffVds / VASCBE);
+    return bsimChannelCurrent({
+      Vgsteff,
+      Vds,
+      Vbseff,
+      vtm,
+      Abulk,
+      ueff,
+      Weff,
+      Leff,
+      Rds,
+      vsat: s['vsattemp']!,
+      cox: cox,
+      a1: s['a1']!,
+      a2: s['a2']!,
+      delta: s['delta']!,
+      pclm: s['pclm']!,
+      litl: s['litl']!,
+      thetaRout: s['thetaRout']!,
+      pdiblb: s['pdiblb']!,
+      pvag: s['pvag']!,
+      pscbe1: s['pscbe1']!,
+      pscbe2: s['pscbe2']!,
+    });
   };
 
   const junction: JunctionParams = {

@@ -8,6 +8,7 @@
 // (SA/SB), well proximity, RDSMOD 1's external resistances, the high-k mobility model.
 
 import { EPS0_F_PER_M, EPS_SI_F_PER_M, ELEMENTARY_CHARGE_C, intrinsicDensityPerCm3, thermalVoltage, ZERO_CELSIUS_K } from './physics';
+import { bsimChannelCurrent } from './bsimOutput';
 import { given, param, type JunctionParams, type MosModel } from './mosModel';
 
 const EXP_THRESHOLD = 34;
@@ -233,59 +234,29 @@ export function createBsim4(card: Readonly<Record<string, number>>, polarity: 'n
     }
     const Denomi = T5m >= -0.8 ? 1 + T5m : (0.6 + T5m) / (7 + 10 * T5m);
     const ueff = s['u0temp']! / Denomi;
-    const vsat = s['vsattemp']!;
-    const WVCoxRds = Weff * vsat * coxe * Rds;
-    const EsatL = ((2 * vsat) / ueff) * Leff;
-    const a1 = s['a1']!;
-    const a2 = s['a2']!;
-    let Lambda: number;
-    if (a1 === 0) Lambda = a2;
-    else if (a1 > 0) {
-      const t0 = 1 - a2;
-      const t1 = t0 - a1 * Vgsteff - 0.0001;
-      Lambda = a2 + t0 - 0.5 * (t1 + Math.sqrt(t1 * t1 + 0.0004 * t0));
-    } else {
-      const t1 = a2 + a1 * Vgsteff - 0.0001;
-      Lambda = 0.5 * (t1 + Math.sqrt(t1 * t1 + 0.0004 * a2));
-    }
-    const Vgst2Vtm = Vgsteff + 2 * vtm;
-    let Vdsat: number;
-    if (Rds === 0 && Lambda === 1) Vdsat = (EsatL * Vgst2Vtm) / (Abulk * EsatL + Vgst2Vtm);
-    else {
-      const T9r = Abulk * WVCoxRds;
-      const T7 = Vgst2Vtm * T9r;
-      const T6 = Vgst2Vtm * WVCoxRds;
-      const T0v = 2 * Abulk * (T9r - 1 + 1 / Lambda);
-      const T1v = Vgst2Vtm * (2 / Lambda - 1) + Abulk * EsatL + 3 * T7;
-      const T2v = Vgst2Vtm * (EsatL + 2 * T6);
-      Vdsat = (T1v - Math.sqrt(T1v * T1v - 2 * T0v * T2v)) / T0v;
-    }
-    const delta = s['delta']!;
-    const T1d = Vdsat - Vds - delta;
-    let Vdseff = Vdsat - 0.5 * (T1d + Math.sqrt(T1d * T1d + 4 * delta * Vdsat));
-    if (Vds === 0) Vdseff = 0;
-    if (Vdseff > Vds) Vdseff = Vds;
-    const diffVds = Vds - Vdseff;
-    const tmp4 = 1 - (0.5 * Abulk * Vdsat) / Vgst2Vtm;
-    const Vasat = (EsatL + Vdsat + 2 * WVCoxRds * Vgsteff * tmp4) / (2 / Lambda - 1 + WVCoxRds * Abulk);
-    let VACLM = MAX_EXP;
-    if (s['pclm']! > 0 && diffVds > 1e-10) VACLM = (Leff * (Abulk + Vgsteff / EsatL) * diffVds) / (s['pclm']! * Abulk * s['litl']!);
-    let VADIBL = MAX_EXP;
-    if (s['thetaRout']! > 0) {
-      const T8 = Abulk * Vdsat;
-      VADIBL = (Vgst2Vtm - (Vgst2Vtm * T8) / (Vgst2Vtm + T8)) / s['thetaRout']!;
-      const T7 = s['pdiblb']! * Vbseff;
-      VADIBL *= T7 >= -0.9 ? 1 / (1 + T7) : (17 + 20 * T7) / (0.8 + T7);
-    }
-    const T9p = (s['pvag']! / EsatL) * Vgsteff;
-    const T0p = T9p > -0.9 ? 1 + T9p : (0.8 + T9p) / (17 + 20 * T9p);
-    const Va = Vasat + (T0p * VACLM * VADIBL) / (VACLM + VADIBL);
-    let VASCBE = MAX_EXP;
-    if (s['pscbe2']! > 0 && diffVds > (s['pscbe1']! * s['litl']!) / EXP_THRESHOLD) VASCBE = (Leff * Math.exp((s['pscbe1']! * s['litl']!) / diffVds)) / s['pscbe2']!;
-    const beta = (ueff * coxe * Weff) / Leff;
-    const gche = (beta * Vgsteff * (1 - (0.5 * Abulk * Vdseff) / Vgst2Vtm)) / (1 + Vdseff / EsatL);
-    const Idl = (gche * Vdseff) / (1 + gche * Rds);
-    return Idl * (1 + diffVds / Va) * (1 + diffVds / VASCBE);
+    return bsimChannelCurrent({
+      Vgsteff,
+      Vds,
+      Vbseff,
+      vtm,
+      Abulk,
+      ueff,
+      Weff,
+      Leff,
+      Rds,
+      vsat: s['vsattemp']!,
+      cox: coxe,
+      a1: s['a1']!,
+      a2: s['a2']!,
+      delta: s['delta']!,
+      pclm: s['pclm']!,
+      litl: s['litl']!,
+      thetaRout: s['thetaRout']!,
+      pdiblb: s['pdiblb']!,
+      pvag: s['pvag']!,
+      pscbe1: s['pscbe1']!,
+      pscbe2: s['pscbe2']!,
+    });
   };
 
   const junction: JunctionParams = {
