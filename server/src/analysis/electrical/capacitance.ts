@@ -32,7 +32,12 @@ export function capacitanceSignature(ctx: ElectricalContext, island: ReadonlySet
       parts.push(`c${m.card?.name ?? m.model}:${m.polarity}:${m.wM}:${m.lM}:${m.m}:${m.d === n ? 'd' : ''}${m.s === n ? 's' : ''}:${m.adM2}:${m.asM2}:${m.pdM}:${m.psM}:${ctx.railVolts[m.b]}`);
     }
   }
-  for (const cap of c.capacitors) if (island.has(cap.a) !== island.has(cap.b)) parts.push(`C${cap.capacitanceF}:${ctx.railVolts[island.has(cap.a) ? cap.b : cap.a]}`);
+  for (const n of island) {
+    for (const k of ctx.capsOf[n]!) {
+      const cap = c.capacitors[k]!;
+      if (island.has(cap.a) !== island.has(cap.b)) parts.push(`C${cap.capacitanceF}:${ctx.railVolts[island.has(cap.a) ? cap.b : cap.a]}`);
+    }
+  }
   return parts.join(';');
 }
 
@@ -87,7 +92,16 @@ export function islandCapacitance(ctx: ElectricalContext, island: ReadonlySet<nu
       }
     }
   }
-  for (const cap of c.capacitors) {
+  // capacitors on the island's nets (a capacitor inside the island joins two of them: skipped below)
+  let caps: Iterable<number>;
+  if (island.size === 1) caps = ctx.capsOf[island.values().next().value!]!;
+  else {
+    const set = new Set<number>();
+    for (const n of island) for (const k of ctx.capsOf[n]!) set.add(k);
+    caps = set;
+  }
+  for (const k of caps) {
+    const cap = c.capacitors[k]!;
     if (cap.capacitanceF === undefined) continue;
     const inA = island.has(cap.a);
     const inB = island.has(cap.b);

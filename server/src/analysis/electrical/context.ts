@@ -30,6 +30,8 @@ export interface ElectricalContext {
   /** MOSFET indices with a drain or source on each net, and with the gate on each net. */
   channelOf: number[][];
   gateOf: number[][];
+  /** Capacitor indices on each net. */
+  capsOf: number[][];
 }
 
 export function buildContext(circuit: Circuit, network: SwitchNetwork, plan: PhasePlan, classification: Classification, opts: { vddV: number; vddFrom: ElectricalContext['vddFrom']; corners: Corner[]; budgetV: number }): ElectricalContext {
@@ -47,6 +49,11 @@ export function buildContext(circuit: Circuit, network: SwitchNetwork, plan: Pha
     if (m.s !== m.d) channelOf[m.s]!.push(i);
     gateOf[m.g]!.push(i);
   });
+  const capsOf: number[][] = Array.from({ length: circuit.nets.length }, () => []);
+  circuit.capacitors.forEach((cap, i) => {
+    capsOf[cap.a]!.push(i);
+    if (cap.b !== cap.a) capsOf[cap.b]!.push(i);
+  });
   const models = new WeakMap<object, MosModel>();
   return {
     circuit,
@@ -57,6 +64,7 @@ export function buildContext(circuit: Circuit, network: SwitchNetwork, plan: Pha
     railVolts,
     channelOf,
     gateOf,
+    capsOf,
     model(m) {
       let x = models.get(m);
       if (!x) {

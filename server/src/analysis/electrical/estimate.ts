@@ -52,6 +52,7 @@ type LeakCache = Map<string, { corners: Array<{ leakageA: number; retentionS: nu
 
 export function estimateNodes(ctx: ElectricalContext): Map<number, NodeEstimate> {
   const cache: LeakCache = new Map();
+  const internalCache = new Map<string, { estimate: NodeEstimate; position: Map<number, number> }>();
   const cl = ctx.classification;
   const phases = ctx.plan.phases;
   const values = cl.phaseValues;
@@ -64,7 +65,25 @@ export function estimateNodes(ctx: ElectricalContext): Map<number, NodeEstimate>
     const states = cl.perPhase.map((m) => m.get(n));
     const floating = states.map((s, i) => ({ s, i })).filter(({ s }) => s && (floatsIn(s) || s.state === 'kept')) as Array<{ s: NodePhaseResult; i: number }>;
     if (floating.length === 0) continue;
-    out.set(n, estimateNode(ctx, n, floating, values, constantEverywhere, cache));
+    if (cl.storage[n]) {
+      out.set(n, estimateNode(ctx, n, floating, values, constantEverywhere, cache));
+      continue;
+    }
+    // Internal nodes repeat with every instance of a cell: one estimate serves all instances
+    // whose group has the same devices, sizes and surroundings (checked by structureKey).
+    const { key, devices } = structureKey(ctx, n, floating, values);
+    const hit = internalCache.get(key);
+    if (hit) {
+      out.set(n, {
+        ...hit.estimate,
+        node: n,
+        stored: hit.estimate.stored.map((s) => ({ ...s, corners: s.corners.map((k) => ({ ...k, contributors: k.contributors.map((x) => ({ ...x, device: devices[hit.position.get(x.device)!]! })) })) })),
+      });
+      continue;
+    }
+    const e = estimateNode(ctx, n, floating, values, constantEverywhere, cache);
+    out.set(n, e);
+    internalCache.set(key, { estimate: e, position: new Map(devices.map((d, k) => [d, k])) });
   }
   return out;
 }
@@ -180,6 +199,61 @@ function estimateNode(ctx: ElectricalContext, n: number, floating: Array<{ s: No
   if (keeperInfo) est.keeper = keeperInfo;
   if (suggested) est.suggestedKeeper = suggested;
   return est;
+}
+
+const originIds = new WeakMap<object, number>();
+let nextOriginId = 0;
+function originId(o: object): number {
+  let id = originIds.get(o);
+  if (id === undefined) originIds.set(o, (id = nextOriginId++));
+  return id;
+}
+
+/**
+ * A key equal for two nodes whose estimates are necessarily equal: the same defining lines,
+ * sizes and models for every device of the node's group and every gate on the node, the same
+ * position of the node in the group, and the same phase values and witness gate values around
+ * it. Also returns the group's devices in a canonical order, to carry contributor indices over.
+ */
+function structureKey(ctx: ElectricalContext, n: number, floating: Array<{ s: NodePhaseResult; i: number }>, values: Uint8Array[]): { key: string; devices: number[] } {
+  const net = ctx.network;
+  const c = ctx.circuit;
+  const comp = net.components[net.componentOf[n]!]!;
+  const local = new Map<number, number>(comp.nodes.map((x, k) => [x, k]));
+  const assignments = floating.map((f) => new Map<number, 0 | 1>(f.s.gateAssignment ?? []));
+  const code = (x: number): string => {
+    const l = local.get(x);
+    if (l !== undefined) return x === n ? 'N' : 'L' + l;
+    const rail = ctx.railVolts[x]!;
+    if (Number.isFinite(rail)) return 'R' + rail;
+    let s = 'S';
+    for (let f = 0; f < floating.length; f++) s += String(assignments[f]!.get(x) ?? values[floating[f]!.i]![x]!);
+    return s;
+  };
+  const parts: string[] = [floating.map((f) => `${f.i}${f.s.state}`).join(','), String(originId(c.nets[n]!.origin))];
+  const devices: number[] = [];
+  for (const si of comp.switches) {
+    const s = net.switches[si]!;
+    if (s.mosfet < 0) {
+      parts.push(`r${code(s.a)}${code(s.b)}`);
+      continue;
+    }
+    const m = c.mosfets[s.mosfet]!;
+    devices.push(s.mosfet);
+    parts.push(`${originId(m.origin)}:${m.wM}:${m.lM}:${m.m}:${m.nf}:${m.adM2}:${m.pdM}:${m.asM2}:${m.psM}:${code(m.d)}${code(m.g)}${code(m.s)}${code(m.b)}`);
+  }
+  for (const i of ctx.gateOf[n]!) {
+    const m = c.mosfets[i]!;
+    devices.push(i);
+    parts.push(`g${originId(m.origin)}:${m.wM}:${m.lM}:${m.m}:${code(m.d)}${code(m.s)}${code(m.b)}`);
+  }
+  for (const x of comp.nodes) {
+    for (const k of ctx.capsOf[x]!) {
+      const cap = c.capacitors[k]!;
+      parts.push(`C${cap.capacitanceF}:${code(cap.a)}${code(cap.b)}`);
+    }
+  }
+  return { key: parts.join(';'), devices };
 }
 
 export { HOLD_MARGIN };
