@@ -53,6 +53,7 @@ type LeakCache = Map<string, { corners: Array<{ leakageA: number; retentionS: nu
 export function estimateNodes(ctx: ElectricalContext): Map<number, NodeEstimate> {
   const cache: LeakCache = new Map();
   const internalCache = new Map<string, { estimate: NodeEstimate; position: Map<number, number> }>();
+  const storageCache = new Map<string, { estimate: NodeEstimate; position: Map<number, number> }>();
   const cl = ctx.classification;
   const phases = ctx.plan.phases;
   const values = cl.phaseValues;
@@ -65,13 +66,24 @@ export function estimateNodes(ctx: ElectricalContext): Map<number, NodeEstimate>
     const states = cl.perPhase.map((m) => m.get(n));
     const floating = states.map((s, i) => ({ s, i })).filter(({ s }) => s && (floatsIn(s) || s.state === 'kept')) as Array<{ s: NodePhaseResult; i: number }>;
     if (floating.length === 0) continue;
+    // Nodes repeat with every instance of a cell: one leakage solve serves all instances whose
+    // group has the same devices, sizes and surroundings (checked by structureKey).
+    const { key, devices } = structureKey(ctx, n, floating, values);
     if (cl.storage[n]) {
-      out.set(n, estimateNode(ctx, n, floating, values, constantEverywhere, cache));
+      const prior = storageCache.get(key);
+      const remap = (d: number) => devices[prior!.position.get(d)!]!;
+      const reuse = prior
+        ? {
+            capacitance: prior.estimate.capacitance,
+            stored: prior.estimate.stored.map((s) => ({ ...s, corners: s.corners.map((k) => ({ ...k, contributors: k.contributors.map((x) => ({ ...x, device: remap(x.device) })) })) })),
+            keeper: prior.estimate.keeper ? { ...prior.estimate.keeper, devices: prior.estimate.keeper.devices.map(remap), against: [] as number[] } : undefined,
+          }
+        : undefined;
+      const e = estimateNode(ctx, n, floating, values, constantEverywhere, cache, reuse);
+      out.set(n, e);
+      if (!prior) storageCache.set(key, { estimate: e, position: new Map(devices.map((d, k) => [d, k])) });
       continue;
     }
-    // Internal nodes repeat with every instance of a cell: one estimate serves all instances
-    // whose group has the same devices, sizes and surroundings (checked by structureKey).
-    const { key, devices } = structureKey(ctx, n, floating, values);
     const hit = internalCache.get(key);
     if (hit) {
       out.set(n, {
@@ -88,7 +100,13 @@ export function estimateNodes(ctx: ElectricalContext): Map<number, NodeEstimate>
   return out;
 }
 
-function estimateNode(ctx: ElectricalContext, n: number, floating: Array<{ s: NodePhaseResult; i: number }>, values: Uint8Array[], constantEverywhere: (n: number) => boolean, cache: LeakCache): NodeEstimate {
+interface Reuse {
+  capacitance: CapacitanceBreakdown;
+  stored: StoredEstimate[];
+  keeper: NodeEstimate['keeper'] | undefined;
+}
+
+function estimateNode(ctx: ElectricalContext, n: number, floating: Array<{ s: NodePhaseResult; i: number }>, values: Uint8Array[], constantEverywhere: (n: number) => boolean, cache: LeakCache, reuse?: Reuse): NodeEstimate {
   const c = ctx.circuit;
   const cl = ctx.classification;
   const vdd = ctx.vddV;
@@ -100,11 +118,13 @@ function estimateNode(ctx: ElectricalContext, n: number, floating: Array<{ s: No
   const primaryLevel: 0 | 1 = keptState?.keptLevel ?? (drivenTo === 0 ? 0 : 1);
   const island = new Set<number>([n]);
   const capAt = (v: number) => islandCapacitance(ctx, island, v).totalF;
-  const capacitance = islandCapacitance(ctx, island, primaryLevel * vdd);
-  const stored: StoredEstimate[] = [];
+  // the aggressors of a reused breakdown name another instance's nets: recompute them
+  const capacitance = reuse ? { ...reuse.capacitance, aggressors: islandCapacitance(ctx, island, primaryLevel * vdd).aggressors } : islandCapacitance(ctx, island, primaryLevel * vdd);
+  const stored: StoredEstimate[] = reuse ? reuse.stored : [];
   const hotIndex = ctx.corners.reduce((b, k, i) => (k.tempK > ctx.corners[b]!.tempK ? i : b), 0);
-  let keeperInfo: NodeEstimate['keeper'];
-  for (const level of [1, 0] as const) {
+  let keeperInfo: NodeEstimate['keeper'] = reuse?.keeper;
+  if (keeperInfo && reuse) keeperInfo = { ...keeperInfo, against: keeperRatio(ctx, c.mosfets[keeperInfo.devices[0]!]!, n, primaryLevel, ctx.corners[hotIndex]!.tempK).against };
+  for (const level of reuse ? [] : ([1, 0] as const)) {
     const vs = level * vdd;
     const hot = ctx.corners[hotIndex]!;
     // the worst floating phase for this level: the largest leakage at the hot corner
