@@ -19,8 +19,8 @@ export function electricalFindings(ctx: ElectricalContext, estimates: Map<number
   const c = ctx.circuit;
   const out: Diagnostic[] = [];
   const seen = new Map<string, { d: Diagnostic; count: number }>();
-  const emit = (n: number, rule: Diagnostic['rule'], severity: Diagnostic['severity'], message: string) => {
-    const key = `${rule}|${groupKey(c, n)}`;
+  const emit = (n: number, rule: Diagnostic['rule'], severity: Diagnostic['severity'], message: string, variant = '') => {
+    const key = `${rule}|${variant}|${groupKey(c, n)}`;
     const prior = seen.get(key);
     if (prior) {
       prior.count++;
@@ -74,7 +74,8 @@ export function electricalFindings(ctx: ElectricalContext, estimates: Map<number
     const leakDroop = window !== null && Number.isFinite(window) && hot.leakageA > 0 ? Math.min((hot.leakageA * window) / e.capacitance.totalF, ctx.vddV) : 0;
     const total = leakDroop + share + coup;
     if (total > budget && leakDroop <= budget && share <= budget && coup <= budget && !(hot.retentionS !== null && window !== null && hot.retentionS < window)) {
-      emit(e.node, 'combined-droop', 'warning', `${name}: leakage (${formatEng(leakDroop, 'V')} over ${formatEng(window ?? 0, 's')} at ${hot.tempC} C), charge sharing (${formatEng(share, 'V')}) and coupling (${formatEng(coup, 'V')}) together move it by ${formatEng(total, 'V')}, over the ${b} budget`);
+      const parts = [leakDroop > 0 ? `leakage (${formatEng(leakDroop, 'V')} over ${formatEng(window ?? 0, 's')} at ${hot.tempC} C)` : '', share > 0 ? `charge sharing (${formatEng(share, 'V')})` : '', coup > 0 ? `coupling (${formatEng(coup, 'V')})` : ''].filter(Boolean);
+      emit(e.node, 'combined-droop', 'warning', `${name}: ${parts.join(', ')} together move it by ${formatEng(total, 'V')}, over the ${b} budget`);
     }
     if (e.keeper) {
       const k = e.keeper;
@@ -83,7 +84,7 @@ export function electricalFindings(ctx: ElectricalContext, estimates: Map<number
         emit(e.node, 'keeper-weak', k.holdCurrentA < k.hotLeakageA ? 'error' : 'warning', `${name}: keeper ${kname} supplies ${formatEng(k.holdCurrentA, 'A')} at the ${b} droop, against ${formatEng(k.hotLeakageA, 'A')} of hot-corner leakage (want at least ${KEEPER_WEAK_MARGIN}x)`);
       }
       if (share > budget) {
-        emit(e.node, 'keeper-weak', 'warning', `${name}: keeper ${kname} cannot stop charge sharing with ${e.chargeSharing!.joined.map((j) => c.nets[j]!.name).join(', ')} from drooping it by ${formatEng(share, 'V')} (budget ${b}); precharge the internal node or reorder the stack`);
+        emit(e.node, 'keeper-weak', 'warning', `${name}: keeper ${kname} cannot stop charge sharing with ${e.chargeSharing!.joined.map((j) => c.nets[j]!.name).join(', ')} from drooping it by ${formatEng(share, 'V')} (budget ${b}); precharge the internal node or reorder the stack`, 'sharing');
       }
       if (k.ratio > KEEPER_RATIO_MAX) {
         emit(e.node, 'keeper-strong', k.ratio > 2 * KEEPER_RATIO_MAX ? 'error' : 'warning', `${name}: keeper ${kname} is ${k.ratio.toFixed(2)}x as strong as ${k.against.map((i) => c.mosfets[i]!.name).join(' + ')} (common practice at most ${KEEPER_RATIO_MAX})`);

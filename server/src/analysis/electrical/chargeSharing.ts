@@ -9,6 +9,7 @@
 // `textbookChargeSharing` gives the two closed forms for comparison.
 
 import { NetRole, SwitchKind } from '../switchNetwork';
+import { evaluateComponent, newScratch } from '../constants';
 import type { ElectricalContext } from './context';
 import { islandCapacitance } from './capacitance';
 import { channelCurrent } from './leakage';
@@ -46,8 +47,29 @@ export function chargeSharing(ctx: ElectricalContext, node: number, phaseIndex: 
   const pos = new Map(free.map((g, i) => [g, i]));
   let best = none;
   const precharged = (n: number) => otherPhaseValues.some((vals) => vals[n] === storedLevel);
+  // one level of witness checking: a free gate driven by logic from the other free gates (an
+  // inverted or buffered copy) must agree with what that logic gives
+  const work = phaseValues.slice();
+  const out = new Uint8Array(phaseValues.length);
+  const scratch = newScratch(phaseValues.length);
+  const drivers = free.map((g) => (net.role[g] === NetRole.Internal ? net.components[net.componentOf[g]!]! : undefined));
   for (let a = 0; a < 1 << free.length; a++) {
     const gate = (g: number) => (pos.has(g) ? (a >> pos.get(g)!) & 1 : phaseValues[g]!);
+    free.forEach((g, i) => (work[g] = (a >> i) & 1));
+    let consistent = true;
+    for (let i = 0; i < free.length && consistent; i++) {
+      const d = drivers[i];
+      if (!d || d.id === comp.id) continue;
+      const saved = d.nodes.map((x) => work[x]!);
+      d.nodes.forEach((x) => {
+        if (!pos.has(x)) work[x] = 2;
+      });
+      evaluateComponent(net, d, work, out, scratch);
+      const v = out[free[i]!]!;
+      if (v !== 2 && v !== ((a >> i) & 1)) consistent = false;
+      d.nodes.forEach((x, k) => (work[x] = saved[k]!));
+    }
+    if (!consistent) continue;
     // the node's island under this assignment, and whether it touches a strong net
     const island = new Set<number>([node]);
     const stack = [node];
