@@ -57,3 +57,13 @@ export class TestLspClient {
     this.proc.kill();
   }
 }
+
+/** Applies LSP text edits (sorted from the end) to a text. */
+export function applyEdits(text: string, edits: Array<{ range: { start: { line: number; character: number }; end: { line: number; character: number } }; newText: string }>): string {
+  const lines = text.split('\n');
+  const offset = (p: { line: number; character: number }) => lines.slice(0, p.line).reduce((s, l) => s + l.length + 1, 0) + p.character;
+  const sorted = [...edits].sort((a, b) => offset(b.range.start) - offset(a.range.start));
+  let out = text;
+  for (const e of sorted) out = out.slice(0, offset(e.range.start)) + e.newText + out.slice(offset(e.range.end));
+  return out;
+}

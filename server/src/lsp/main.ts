@@ -1,17 +1,53 @@
-// The language server: a thin shell over the engine. It owns no analysis state beyond caches
-// keyed by content; every handler is guarded so an exception is logged and answered empty.
+// The language server: a thin shell over the engine and the service layer. It keeps only
+// caches keyed by content (analysis results per document version) and the include graph; every
+// handler is guarded, so an exception is logged and answered empty and the server stays up.
 
-import { createConnection, ProposedFeatures, TextDocuments, TextDocumentSyncKind, DiagnosticSeverity, type Diagnostic as LspDiagnostic } from 'vscode-languageserver/node';
+import {
+  createConnection,
+  ProposedFeatures,
+  TextDocuments,
+  TextDocumentSyncKind,
+  DiagnosticSeverity,
+  CodeActionKind,
+  SymbolKind,
+  CompletionItemKind,
+  MarkupKind,
+  type Diagnostic as LspDiagnostic,
+  type DocumentSymbol,
+  type CodeAction,
+  type Connection,
+} from 'vscode-languageserver/node';
 import { TextDocument } from 'vscode-languageserver-textdocument';
 import { fileURLToPath, pathToFileURL } from 'node:url';
-import { analyse } from '../engine';
+import * as path from 'node:path';
+import { analyse, type AnalysisResult } from '../engine';
 import { diskHost } from '../cli/diskHost';
 import type { FileHost } from '../core/host';
 import type { Diagnostic } from '../core/diagnostics';
+import type { EngineOptions } from '../core/options';
+import { locate } from '../service/locate';
+import { deviceHover, netHover } from '../service/hover';
+import { quickFixes } from '../service/fixes';
+import { completions, definitionOf, foldingRanges, outline, type OutlineSymbol } from '../service/outline';
+import { parseSpiceNumber } from '../circuit/numbers';
 
-const connection = createConnection(ProposedFeatures.all);
+const connection: Connection = createConnection(ProposedFeatures.all);
 const documents = new TextDocuments(TextDocument);
 const disk = diskHost();
+
+interface Settings {
+  temps: number[];
+  budget: string;
+  supplies: Record<string, number>;
+  clocks: string[];
+  deviceRules: Array<{ pattern: string; kind: string }>;
+  includePaths: string[];
+  geometryScale: number | null;
+  maxAnalysisLines: number;
+}
+
+let settings: Settings = { temps: [25, 110], budget: '10%', supplies: {}, clocks: [], deviceRules: [], includePaths: [], geometryScale: null, maxAnalysisLines: 400_000 };
+let canPullConfiguration = false;
 
 /** Open documents first (their unsaved text), then the disk. */
 const host: FileHost = {
@@ -31,27 +67,96 @@ function guard<T>(what: string, fn: () => T, fallback: T): T {
   }
 }
 
+function engineOptions(lineCount: number): EngineOptions {
+  const o: EngineOptions = { tempsC: settings.temps, includePaths: settings.includePaths, supplies: settings.supplies };
+  const b = settings.budget.trim();
+  const pct = /^([\d.]+)%$/.exec(b);
+  const v = /^([\d.]+(?:e-?\d+)?)(m?)v$/i.exec(b);
+  if (pct) o.budget = { fraction: Number(pct[1]) / 100 };
+  else if (v) o.budget = { volts: Number(v[1]) * (v[2] ? 1e-3 : 1) };
+  else if (b === 'receiver') o.budget = { receiver: true };
+  if (settings.geometryScale) o.geometryScale = settings.geometryScale;
+  if (settings.deviceRules.length) o.deviceRules = settings.deviceRules.filter((r) => /^(nmos|pmos|diode|short|resistor|capacitor)$/.test(r.kind)) as EngineOptions['deviceRules'];
+  const clocks: NonNullable<EngineOptions['clocks']> = [];
+  for (const spec of settings.clocks) {
+    // "clk period=1n high=0.5n" or "clkb inverse=clk"
+    const [net, ...kvs] = spec.trim().split(/\s+/);
+    if (!net) continue;
+    const k: NonNullable<EngineOptions['clocks']>[number] = { net: net.toLowerCase() };
+    for (const kv of kvs) {
+      const [key, val] = kv.split('=');
+      if (key === 'inverse' && val) k.inverseOf = val.toLowerCase();
+      const n = val ? parseSpiceNumber(val.replace(/s$/i, '')) : undefined;
+      if (n === undefined) continue;
+      if (key === 'period') k.periodS = n;
+      else if (key === 'high') k.highS = n;
+      else if (key === 'delay') k.delayS = n;
+    }
+    if (k.inverseOf || (k.periodS !== undefined && k.highS !== undefined)) clocks.push(k);
+  }
+  if (clocks.length) o.clocks = clocks;
+  if (lineCount > settings.maxAnalysisLines) o.frontEndOnly = true;
+  return o;
+}
+
+const RULES_DOC = pathToFileURL(path.join(__dirname, '..', 'docs', 'rules.md')).toString();
+
 function toLsp(d: Diagnostic): LspDiagnostic {
-  return {
+  const out: LspDiagnostic = {
     range: { start: d.range.start, end: d.range.end },
     severity: d.severity === 'error' ? DiagnosticSeverity.Error : d.severity === 'warning' ? DiagnosticSeverity.Warning : DiagnosticSeverity.Information,
     code: d.rule,
+    codeDescription: { href: `${RULES_DOC}#${d.rule}` },
     source: 'tidemark',
     message: d.message,
   };
+  if (d.related?.length) out.relatedInformation = d.related.map((r) => ({ location: { uri: pathToFileURL(r.file).toString(), range: { start: r.range.start, end: r.range.end } }, message: r.message }));
+  if (d.node) out.data = { node: d.node, rule: d.rule };
+  return out;
 }
 
-/** Files that last received diagnostics from each analysed document, so stale ones are cleared. */
+interface Cached {
+  /** The texts the result was computed from (root and includes), to tell when it is stale. */
+  texts: Map<string, string>;
+  result: AnalysisResult;
+}
+
+const results = new Map<string, Cached>();
 const published = new Map<string, Set<string>>();
 const timers = new Map<string, NodeJS.Timeout>();
+const generation = new Map<string, number>();
 
-function analyseDocument(uri: string): void {
+function fresh(c: Cached): boolean {
+  for (const [f, t] of c.texts) if (host.readFile(f) !== t) return false;
+  return true;
+}
+
+/** The analysis of a root document, recomputed only when its text or an include changed. */
+function resultFor(uri: string): Cached | undefined {
+  if (!uri.startsWith('file:')) return undefined;
+  const hit = results.get(uri);
+  if (hit && fresh(hit)) return hit;
+  const file = fileURLToPath(uri);
+  const text = host.readFile(file) ?? '';
+  const lines = text.split('\n').length;
+  const result = analyse(host, file, engineOptions(lines));
+  if (lines > settings.maxAnalysisLines) {
+    result.diagnostics.push({ rule: 'unknown-card', severity: 'info', file, range: { start: { line: 0, character: 0 }, end: { line: 0, character: 0 } }, message: `this file has ${lines} lines, over tidemark.maxAnalysisLines (${settings.maxAnalysisLines}): only the front end runs` });
+  }
+  const texts = new Map<string, string>();
+  for (const f of result.design.files) texts.set(f, host.readFile(f) ?? '');
+  const c = { texts, result };
+  results.set(uri, c);
+  return c;
+}
+
+function publish(uri: string): void {
   guard('analysis', () => {
-    if (!uri.startsWith('file:')) return;
+    const c = resultFor(uri);
+    if (!c) return;
     const file = fileURLToPath(uri);
-    const result = analyse(host, file);
     const byFile = new Map<string, LspDiagnostic[]>([[file, []]]);
-    for (const d of result.diagnostics) {
+    for (const d of c.result.diagnostics) {
       const list = byFile.get(d.file) ?? [];
       list.push(toLsp(d));
       byFile.set(d.file, list);
@@ -63,24 +168,218 @@ function analyseDocument(uri: string): void {
   }, undefined);
 }
 
-function schedule(uri: string): void {
+function schedule(uri: string, delayMs = 150): void {
   clearTimeout(timers.get(uri));
-  // a short pause lets a burst of keystrokes settle into one analysis
-  timers.set(uri, setTimeout(() => analyseDocument(uri), 120));
+  const gen = (generation.get(uri) ?? 0) + 1;
+  generation.set(uri, gen);
+  // a newer edit replaces the pending analysis; a burst of keystrokes gives one analysis
+  timers.set(
+    uri,
+    setTimeout(() => {
+      if (generation.get(uri) === gen) publish(uri);
+    }, delayMs),
+  );
 }
 
-connection.onInitialize(() => ({
-  capabilities: { textDocumentSync: TextDocumentSyncKind.Incremental },
-  serverInfo: { name: 'tidemark', version: '0.1.0' },
-}));
+/** Roots whose analysis read `file`: they are re-analysed when it changes. */
+function dependents(file: string): string[] {
+  const out: string[] = [];
+  for (const [uri, c] of results) if (c.texts.has(file) && fileURLToPath(uri) !== file) out.push(uri);
+  return out;
+}
 
-documents.onDidOpen((e) => analyseDocument(e.document.uri));
-documents.onDidChangeContent((e) => schedule(e.document.uri));
+connection.onInitialize((params) => {
+  canPullConfiguration = params.capabilities.workspace?.configuration === true;
+  return {
+    capabilities: {
+      textDocumentSync: TextDocumentSyncKind.Incremental,
+      hoverProvider: true,
+      codeActionProvider: { codeActionKinds: [CodeActionKind.QuickFix] },
+      documentSymbolProvider: true,
+      definitionProvider: true,
+      foldingRangeProvider: true,
+      completionProvider: { triggerCharacters: [':', ' '] },
+      codeLensProvider: { resolveProvider: false },
+      executeCommandProvider: { commands: ['tidemark.reanalyse'] },
+    },
+    serverInfo: { name: 'tidemark', version: '0.1.0' },
+  };
+});
+
+async function pullSettings(): Promise<void> {
+  if (!canPullConfiguration) return;
+  const s = (await connection.workspace.getConfiguration('tidemark')) as Partial<Settings> | null;
+  if (s) settings = { ...settings, ...Object.fromEntries(Object.entries(s).filter(([, v]) => v !== undefined && v !== null)) };
+}
+
+connection.onInitialized(() => {
+  void guard('settings', () => pullSettings(), Promise.resolve());
+});
+
+connection.onDidChangeConfiguration(async () => {
+  await guard('settings', () => pullSettings(), Promise.resolve());
+  results.clear();
+  for (const d of documents.all()) schedule(d.uri, 0);
+});
+
+documents.onDidOpen((e) => publish(e.document.uri));
+documents.onDidChangeContent((e) => {
+  schedule(e.document.uri);
+  if (e.document.uri.startsWith('file:')) for (const dep of dependents(fileURLToPath(e.document.uri))) schedule(dep);
+});
 documents.onDidClose((e) => {
   clearTimeout(timers.get(e.document.uri));
   for (const f of published.get(e.document.uri) ?? []) connection.sendDiagnostics({ uri: pathToFileURL(f).toString(), diagnostics: [] });
   published.delete(e.document.uri);
+  results.delete(e.document.uri);
 });
+connection.onDidChangeWatchedFiles((e) => {
+  for (const ch of e.changes) if (ch.uri.startsWith('file:')) for (const dep of dependents(fileURLToPath(ch.uri))) schedule(dep);
+});
+
+function syntaxOf(c: Cached, file: string) {
+  return c.result.deck.files.find((f) => f.file === file);
+}
+
+connection.onHover((p) =>
+  guard('hover', () => {
+    const c = resultFor(p.textDocument.uri);
+    if (!c) return null;
+    const file = fileURLToPath(p.textDocument.uri);
+    const f = syntaxOf(c, file);
+    if (!f) return null;
+    const t = locate(f, p.position);
+    if (!t) return null;
+    let md: string | undefined;
+    if (t.kind === 'net') md = netHover(c.result, file, t);
+    else if (t.kind === 'device') md = deviceHover(c.result, file, t);
+    else if (t.kind === 'subckt' || t.kind === 'model') {
+      const defs = definitionOf(c.result.deck, t.kind, t.name);
+      md = `**${t.name}** — ${t.kind === 'subckt' ? 'subcircuit' : 'model'}${defs.length ? ` defined in ${path.basename(defs[0]!.file)}:${defs[0]!.range.start.line + 1}` : ' (not defined in this netlist)'}`;
+    }
+    return md ? { contents: { kind: MarkupKind.Markdown, value: md }, range: t.word.range } : null;
+  }, null),
+);
+
+connection.onCodeAction((p) =>
+  guard('code actions', () => {
+    const c = resultFor(p.textDocument.uri);
+    if (!c) return [];
+    const file = fileURLToPath(p.textDocument.uri);
+    const actions: CodeAction[] = [];
+    for (const ld of p.context.diagnostics) {
+      const d = c.result.diagnostics.find((x) => x.file === file && x.rule === ld.code && x.range.start.line === ld.range.start.line && x.range.start.character === ld.range.start.character);
+      if (!d) continue;
+      for (const fx of quickFixes(c.result, d)) {
+        const changes: Record<string, Array<{ range: { start: { line: number; character: number }; end: { line: number; character: number } }; newText: string }>> = {};
+        for (const e of fx.edits) (changes[pathToFileURL(e.file).toString()] ??= []).push({ range: { start: e.range.start, end: e.range.end }, newText: e.newText });
+        actions.push({ title: fx.title, kind: CodeActionKind.QuickFix, diagnostics: [ld], edit: { changes }, isPreferred: fx.preferred === true });
+      }
+    }
+    return actions;
+  }, []),
+);
+
+function toSymbol(s: OutlineSymbol): DocumentSymbol {
+  return {
+    name: s.name,
+    kind: s.kind === 'subckt' ? SymbolKind.Class : s.kind === 'model' ? SymbolKind.Struct : SymbolKind.Constant,
+    range: { start: s.range.start, end: s.range.end },
+    selectionRange: { start: s.selection.start, end: s.selection.end },
+    children: s.children.map(toSymbol),
+  };
+}
+
+connection.onDocumentSymbol((p) =>
+  guard('symbols', () => {
+    const c = resultFor(p.textDocument.uri);
+    const f = c && syntaxOf(c, fileURLToPath(p.textDocument.uri));
+    return f ? outline(f).map(toSymbol) : [];
+  }, []),
+);
+
+connection.onFoldingRanges((p) =>
+  guard('folding', () => {
+    const c = resultFor(p.textDocument.uri);
+    const file = fileURLToPath(p.textDocument.uri);
+    const f = c && syntaxOf(c, file);
+    return f ? foldingRanges(f, host.readFile(file) ?? '') : [];
+  }, []),
+);
+
+connection.onDefinition((p) =>
+  guard('definition', () => {
+    const c = resultFor(p.textDocument.uri);
+    if (!c) return [];
+    const f = syntaxOf(c, fileURLToPath(p.textDocument.uri));
+    const t = f && locate(f, p.position);
+    if (!t || (t.kind !== 'subckt' && t.kind !== 'model' && t.kind !== 'param')) return [];
+    return definitionOf(c.result.deck, t.kind, t.name).map((d) => ({ uri: pathToFileURL(d.file).toString(), range: { start: d.range.start, end: d.range.end } }));
+  }, []),
+);
+
+connection.onCompletion((p) =>
+  guard('completion', () => {
+    const c = resultFor(p.textDocument.uri);
+    const doc = documents.get(p.textDocument.uri);
+    if (!c || !doc) return [];
+    const prefix = doc.getText({ start: { line: p.position.line, character: 0 }, end: p.position });
+    return completions(c.result.deck, prefix).map((x) => ({ label: x.label, detail: x.detail, kind: x.kind === 'directive' ? CompletionItemKind.Keyword : x.kind === 'subckt' ? CompletionItemKind.Class : CompletionItemKind.Struct }));
+  }, []),
+);
+
+connection.onCodeLens((p) =>
+  guard('code lens', () => {
+    const c = resultFor(p.textDocument.uri);
+    if (!c) return [];
+    const file = fileURLToPath(p.textDocument.uri);
+    const f = syntaxOf(c, file);
+    if (!f) return [];
+    const lenses = [];
+    for (const sym of outline(f)) {
+      if (sym.kind !== 'subckt') continue;
+      const name = sym.name.toLowerCase();
+      const here = c.result.diagnostics.filter((d) => d.file === file && d.range.start.line >= sym.range.start.line && d.range.start.line <= sym.range.end.line);
+      const errors = here.filter((d) => d.severity === 'error').length;
+      const warnings = here.filter((d) => d.severity === 'warning').length;
+      let floating = 0;
+      for (const a of c.result.circuits) for (const n of a.circuit.nets) if (n.origin.subckt === name && a.classification.perPhase.some((m) => m.get(n.id)?.state === 'floating' || m.get(n.id)?.state === 'conditional')) floating++;
+      lenses.push({ range: { start: sym.selection.start, end: sym.selection.end }, command: { title: `${floating} node${floating === 1 ? '' : 's'} can float · ${errors} error${errors === 1 ? '' : 's'}, ${warnings} warning${warnings === 1 ? '' : 's'}`, command: '' } });
+    }
+    return lenses;
+  }, []),
+);
+
+connection.onExecuteCommand((p) =>
+  guard('command', () => {
+    if (p.command === 'tidemark.reanalyse') {
+      results.clear();
+      for (const d of documents.all()) publish(d.uri);
+    }
+    return null;
+  }, null),
+);
+
+/** The phase table of a document, for the client's "show phases" command. */
+connection.onRequest('tidemark/phases', (p: { uri: string }) =>
+  guard('phases', () => {
+    const c = resultFor(p.uri);
+    if (!c) return [];
+    return c.result.circuits.flatMap((a) => a.plan.phases.map((ph) => ({ circuit: a.circuit.name, name: ph.name, start_s: ph.startS, duration_s: ph.durationS, standby: ph.standby })));
+  }, []),
+);
+
+/** Counts for the client's status bar. */
+connection.onRequest('tidemark/summary', (p: { uri: string }) =>
+  guard('summary', () => {
+    const c = resultFor(p.uri);
+    if (!c) return null;
+    const d = c.result.diagnostics;
+    let floating = 0;
+    for (const a of c.result.circuits) for (const m of a.classification.perPhase) for (const r of m.values()) if (r.state === 'floating' || r.state === 'conditional') floating++;
+    return { errors: d.filter((x) => x.severity === 'error').length, warnings: d.filter((x) => x.severity === 'warning').length, floatingNodePhases: floating };
+  }, null),
+);
 
 documents.listen(connection);
 connection.listen();

@@ -1,0 +1,139 @@
+// Hover cards (markdown) for nets and devices: state in each phase with the witness, the
+// capacitance breakdown, leakage by contributor at each corner, retention, each droop mechanism
+// against the budget, critical charge and the remedy. Pure: from an analysis result.
+
+import type { AnalysisResult, CircuitAnalysis } from '../engine';
+import type { Target } from './locate';
+import { formatEng } from '../circuit/numbers';
+import { interpretElement } from '../circuit/elements';
+import type { Range } from '../core/source';
+
+function sameRange(a: Range, b: Range): boolean {
+  return a.start.line === b.start.line && a.start.character === b.start.character && a.end.line === b.end.line && a.end.character === b.end.character;
+}
+
+/** The flat nets a word stands for (one per instance of its subcircuit). */
+export function netsFor(result: AnalysisResult, file: string, target: Extract<Target, { kind: 'net' }>): Array<{ a: CircuitAnalysis; net: number }> {
+  const out: Array<{ a: CircuitAnalysis; net: number }> = [];
+  for (const a of result.circuits) {
+    const c = a.circuit;
+    if (target.subckt === null || (c.standalone && c.name === target.subckt)) {
+      const id = c.netByName.get(target.name);
+      if (id !== undefined) out.push({ a, net: id });
+      continue;
+    }
+    // a net defined inside this subcircuit: one flat net per instance
+    const seen = new Set<number>();
+    for (const n of c.nets) {
+      if (n.origin.subckt === target.subckt && n.origin.local === target.name && !seen.has(n.id)) {
+        seen.add(n.id);
+        out.push({ a, net: n.id });
+      }
+    }
+    // a port: what the MOSFETs written on this line connect to, in each instance
+    if (seen.size === 0 && target.statement && target.index !== undefined && target.index < 4) {
+      for (const m of c.mosfets) {
+        if (m.origin.file !== file || !sameRange(m.origin.range, target.statement.range)) continue;
+        const id = [m.d, m.g, m.s, m.b][target.index]!;
+        if (!seen.has(id)) {
+          seen.add(id);
+          out.push({ a, net: id });
+        }
+      }
+    }
+  }
+  return out;
+}
+
+
+const STATE_WORDS: Record<string, string> = {
+  driven: 'driven',
+  conditional: 'floats for some inputs',
+  floating: 'floats',
+  kept: 'held by its keeper',
+  contention: 'drivers can fight',
+  undriven: 'no driver at all',
+};
+
+function when(w: Record<string, 0 | 1> | undefined): string {
+  if (!w || Object.keys(w).length === 0) return '';
+  return Object.entries(w)
+    .map(([k, v]) => `${k}=${v}`)
+    .join(' ');
+}
+
+export function netHover(result: AnalysisResult, file: string, target: Extract<Target, { kind: 'net' }>): string | undefined {
+  const nets = netsFor(result, file, target);
+  if (nets.length === 0) return undefined;
+  const { a, net } = nets[0]!;
+  const c = a.circuit;
+  const n = c.nets[net]!;
+  const cl = a.classification;
+  const lines: string[] = [];
+  const role = cl.network.role[net] !== 0 ? (n.kind === 'signal' ? 'driven input or clock' : n.kind) : cl.storage[net] ? 'storage node' : 'internal node';
+  lines.push(`**${n.name}** — ${role}${nets.length > 1 ? ` (${nets.length} instances; figures for this one)` : ''}`);
+  if (cl.network.role[net] !== 0) return lines.join('\n\n');
+  lines.push('| phase | state | when |\n| --- | --- | --- |\n' + a.plan.phases.map((p, i) => {
+    const r = cl.perPhase[i]!.get(net);
+    const st = r?.state ?? 'driven';
+    const w = r?.state === 'contention' ? when(r.contentionWhen) : when(r?.when);
+    return `| ${p.name} | ${STATE_WORDS[st] ?? st}${r && !r.exact ? ' (not verified)' : ''} | ${w} |`;
+  }).join('\n'));
+  const e = a.estimates?.get(net);
+  if (e) {
+    const ctx = a.electrical!;
+    const k = e.capacitance;
+    lines.push(`**Capacitance** ${formatEng(k.totalF, 'F')}: gate ${formatEng(k.gateF, 'F')}, diffusion ${formatEng(k.diffusionF, 'F')}, overlap ${formatEng(k.overlapF, 'F')}, explicit ${formatEng(k.explicitF, 'F')}${k.couplingF ? ` (coupling ${formatEng(k.couplingF, 'F')})` : ''}`);
+    for (const s of e.stored) {
+      const rows = s.corners.map((x) => {
+        const top = x.contributors.slice(0, 3).map((y) => `${c.mosfets[y.device]!.name} ${y.mechanism} ${formatEng(y.currentA, 'A')}`).join(', ');
+        const ret = x.held ? 'held' : x.retentionS === null ? '—' : formatEng(x.retentionS, 's');
+        return `| ${x.tempC} C | ${formatEng(x.leakageA, 'A')} | ${ret} | ${top} |`;
+      });
+      lines.push(`**Holding ${s.level}** (${s.volts} V, phase ${s.phase})\n\n| corner | leakage | retention | main contributors |\n| --- | --- | --- | --- |\n${rows.join('\n')}`);
+    }
+    const budget = formatEng(ctx.budgetV, 'V');
+    const droops: string[] = [];
+    const primary = e.stored.find((s) => s.level === e.primaryLevel)!;
+    const hot = primary.corners.reduce((x, y) => (y.tempC > x.tempC ? y : x));
+    if (e.floatWindowS !== null) droops.push(`float window ${Number.isFinite(e.floatWindowS) ? formatEng(e.floatWindowS, 's') : 'unbounded (never restored)'}${hot.retentionS !== null ? `, retention at ${hot.tempC} C ${formatEng(hot.retentionS, 's')}` : ''}`);
+    if (e.chargeSharing && e.chargeSharing.droopV > 0) droops.push(`charge sharing ${formatEng(e.chargeSharing.droopV, 'V')} when ${when(e.chargeSharing.when)}`);
+    if (e.coupling.droopV > 0) droops.push(`coupling ${formatEng(e.coupling.droopV, 'V')} (${e.coupling.aggressors.slice(0, 3).map((x) => x.net).join(', ')})`);
+    lines.push(`**Droop against the ${budget} budget**: ${droops.join('; ') || 'none'}`);
+    lines.push(`**Critical charge** ${formatEng(e.qcritC, 'C')}${e.minClockHz ? ` · minimum clock ${formatEng(e.minClockHz, 'Hz')}` : ''}`);
+    if (e.keeper) lines.push(`**Keeper** ${e.keeper.devices.map((i) => c.mosfets[i]!.name).join(', ')}: supplies ${formatEng(e.keeper.holdCurrentA, 'A')} at the budget droop against ${formatEng(e.keeper.hotLeakageA, 'A')} hot leakage; ${e.keeper.ratio.toFixed(2)}x the pull-down`);
+    if (e.suggestedKeeper) {
+      const s = e.suggestedKeeper;
+      lines.push(`**Remedy**: a ${s.polarity === 'p' ? 'p' : 'n'}-channel keeper W=${formatEng(s.wM, 'm')} L=${formatEng(s.lM, 'm')} (${s.model})${s.inverter.existingOutput ? `, gate on ${s.inverter.existingOutput}` : ', with a new inverter'} — ${s.reasoning.join('; ')}. The quick fix inserts it.`);
+    }
+    if (e.notes.length) lines.push(`_${e.notes.join('; ')}_`);
+  }
+  lines.push('_Tidemark estimates are a screening aid, not sign-off._');
+  return lines.join('\n\n');
+}
+
+export function deviceHover(result: AnalysisResult, file: string, target: Extract<Target, { kind: 'device' }>): string | undefined {
+  for (const a of result.circuits) {
+    const c = a.circuit;
+    const m = c.mosfets.find((x) => x.origin.file === file && sameRange(x.origin.range, target.statement.range));
+    if (!m) continue;
+    const lines = [`**${m.name}** — ${m.polarity}-channel, W=${formatEng(m.wM, 'm')} L=${formatEng(m.lM, 'm')}${m.m !== 1 ? ` m=${m.m}` : ''}${m.nf !== 1 ? ` nf=${m.nf}` : ''}, model ${m.card?.name ?? `${m.model} (no card: fallback profile)`}`];
+    const values = a.classification.phaseValues;
+    const rows = a.plan.phases.map((p, i) => {
+      const g = values[i]![m.g]!;
+      const on = g === 2 ? 'depends on its gate' : (m.polarity === 'n') === (g === 1) ? 'on' : 'off';
+      return `| ${p.name} | ${c.nets[m.g]!.name} = ${g === 2 ? 'free' : g} | ${on} |`;
+    });
+    lines.push('| phase | gate | channel |\n| --- | --- | --- |\n' + rows.join('\n'));
+    const idx = c.mosfets.indexOf(m);
+    const contributions: string[] = [];
+    for (const [node, e] of a.estimates ?? []) {
+      for (const s of e.stored) for (const k of s.corners) for (const x of k.contributors) if (x.device === idx && contributions.length < 6) contributions.push(`${formatEng(x.currentA, 'A')} ${x.mechanism} from ${c.nets[node]!.name} holding ${s.level} at ${k.tempC} C`);
+    }
+    if (contributions.length) lines.push(`**Leaks** ${contributions.join('; ')}`);
+    lines.push('_Tidemark estimates are a screening aid, not sign-off._');
+    return lines.join('\n\n');
+  }
+  const el = interpretElement(target.statement);
+  return el ? `**${target.name}** (${el.kind})` : undefined;
+}

@@ -1,0 +1,121 @@
+// Editor features through the real bundled server over stdio: hover figures, the keeper quick
+// fix (apply it, and the node becomes kept with the finding gone), outline, definition,
+// folding, completion, and a stream of random edits that the server survives.
+
+import * as fs from 'node:fs';
+import * as os from 'node:os';
+import * as path from 'node:path';
+import { pathToFileURL } from 'node:url';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { applyEdits, TestLspClient } from './support/lspClient';
+
+const MODELS = fs.readFileSync(path.join(__dirname, 'fixtures', 'electrical', 'models.inc'), 'utf8');
+const DECK = `domino gate for the editor tests
+.include models.inc
+* tidemark: input a b
+.subckt dom_and2 a b clk y vdd vss
+Mpre dyn clk vdd vdd p45 w=0.5u l=0.05u
+Mna dyn a n1 vss n45 w=0.5u l=0.05u
+Mnb n1 b ft vss n45 w=0.5u l=0.05u
+Mft ft clk vss vss n45 w=0.8u l=0.05u
+Cdyn dyn vss 3f
+Mi y dyn vss vss n45 w=0.2u l=0.05u
+Mj y dyn vdd vdd p45 w=0.4u l=0.05u
+.ends dom_and2
+Xg a b clk out vdd 0 dom_and2
+vdd vdd 0 1
+vclk clk 0 PULSE(0 1 0 10p 10p 0.5u 1u)
+.control
+echo not circuit
+.endc
+.end
+`;
+
+describe('editor features over the real protocol', () => {
+  let client: TestLspClient;
+  let dir: string;
+  let uri: string;
+  beforeAll(async () => {
+    dir = fs.mkdtempSync(path.join(os.tmpdir(), 'tidemark-lspf-'));
+    fs.writeFileSync(path.join(dir, 'models.inc'), MODELS);
+    fs.writeFileSync(path.join(dir, 'dom.sp'), DECK);
+    uri = pathToFileURL(path.join(dir, 'dom.sp')).toString();
+    client = new TestLspClient();
+    await client.initialize(pathToFileURL(dir).toString());
+  });
+  afterAll(async () => {
+    await client.shutdown();
+  });
+
+  it('hovers a node with its states, capacitance, leakage, retention and droop figures', async () => {
+    const first = client.diagnosticsFor(uri);
+    await client.open(uri, DECK);
+    const d = await first;
+    expect(d.diagnostics.map((x) => x.code)).toContain('floating-node');
+    const hover = (await client.conn.sendRequest('textDocument/hover', { textDocument: { uri }, position: { line: 4, character: 6 } })) as { contents: { value: string } };
+    const md = hover.contents.value;
+    expect(md).toMatch(/\*\*xg\.dyn\*\* — storage node/);
+    expect(md).toMatch(/clk=1 \| floats for some inputs \| [ab]=0/);
+    expect(md).toMatch(/\*\*Capacitance\*\* [\d.]+fF/);
+    expect(md).toMatch(/\| 110 C \| [\d.]+[pnu]A \| [\d.]+[munp]?s \|/);
+    expect(md).toMatch(/budget/);
+    expect(md).toMatch(/not sign-off/);
+    const dev = (await client.conn.sendRequest('textDocument/hover', { textDocument: { uri }, position: { line: 5, character: 1 } })) as { contents: { value: string } };
+    expect(dev.contents.value).toMatch(/\*\*xg\.mna\*\* — n-channel/);
+  });
+
+  it('inserts a sized keeper from the quick fix, and the node becomes kept', async () => {
+    const d = client.published.filter((p) => p.uri === uri).at(-1)!;
+    const floating = d.diagnostics.find((x) => x.code === 'floating-node')!;
+    const actions = (await client.conn.sendRequest('textDocument/codeAction', { textDocument: { uri }, range: floating.range, context: { diagnostics: [floating] } })) as Array<{ title: string; edit: { changes: Record<string, Array<{ range: never; newText: string }>> } }>;
+    const keeper = actions.find((a) => a.title.startsWith('Insert a keeper'))!;
+    expect(keeper).toBeDefined();
+    expect(actions.some((a) => a.title.startsWith('Accept floating-node'))).toBe(true);
+    const edited = applyEdits(DECK, keeper.edit.changes[uri]!);
+    expect(edited).toMatch(/^Mkeep_dyn dyn y vdd vdd p45 w=[\d.]+[un] l=[\d.]+[un]$/m);
+    const after = client.diagnosticsFor(uri, (p) => !p.diagnostics.some((x) => x.code === 'floating-node'));
+    await client.change(uri, edited, 2);
+    const diags = await after;
+    expect(diags.diagnostics.some((x) => x.code === 'floating-node')).toBe(false);
+    const hover = (await client.conn.sendRequest('textDocument/hover', { textDocument: { uri }, position: { line: 4, character: 6 } })) as { contents: { value: string } };
+    expect(hover.contents.value).toMatch(/clk=1 \| held by its keeper/);
+    fs.writeFileSync(path.join(dir, 'dom-fixed.sp'), edited);
+  });
+
+  it('gives an outline, definitions, folding and completion', async () => {
+    fs.writeFileSync(path.join(dir, 'nav.sp'), DECK);
+    const uri = pathToFileURL(path.join(dir, 'nav.sp')).toString();
+    const opened = client.diagnosticsFor(uri);
+    await client.open(uri, DECK);
+    await opened;
+    const symbols = (await client.conn.sendRequest('textDocument/documentSymbol', { textDocument: { uri } })) as Array<{ name: string }>;
+    expect(symbols.map((s) => s.name)).toContain('dom_and2');
+    const def = (await client.conn.sendRequest('textDocument/definition', { textDocument: { uri }, position: { line: 12, character: 26 } })) as Array<{ range: { start: { line: number } } }>;
+    expect(def[0]!.range.start.line).toBe(3);
+    const model = (await client.conn.sendRequest('textDocument/definition', { textDocument: { uri }, position: { line: 5, character: 18 } })) as Array<{ uri: string }>;
+    expect(model[0]!.uri).toMatch(/models\.inc$/);
+    const folds = (await client.conn.sendRequest('textDocument/foldingRange', { textDocument: { uri } })) as Array<{ startLine: number; endLine: number }>;
+    expect(folds.map((f) => f.startLine)).toEqual(expect.arrayContaining([3]));
+    const comp = (await client.conn.sendRequest('textDocument/completion', { textDocument: { uri }, position: { line: 2, character: 12 } })) as Array<{ label: string }>;
+    expect(comp.map((c) => c.label)).toEqual(expect.arrayContaining(['clock', 'standby', 'accept']));
+  });
+
+  it('answers every request through a stream of random edits and stays up', async () => {
+    let text = DECK;
+    let seed = 7;
+    const rand = (n: number) => ((seed = (seed * 1103515245 + 12345) % 2147483648), seed % n);
+    const pieces = ['(', ')', '{', '}', '=', ' ', '\n', '+', 'X1 a b ', '.subckt', '.ends', 'M9 q q q q ', '* tidemark: clock', "'"];
+    for (let v = 3; v < 40; v++) {
+      const at = rand(text.length + 1);
+      text = text.slice(0, at) + pieces[rand(pieces.length)] + text.slice(at + rand(4));
+      await client.change(uri, text, v);
+      const line = rand(text.split('\n').length);
+      const r = await client.conn.sendRequest('textDocument/hover', { textDocument: { uri }, position: { line, character: rand(10) } });
+      expect(r === null || typeof r === 'object').toBe(true);
+      await client.conn.sendRequest('textDocument/codeAction', { textDocument: { uri }, range: { start: { line, character: 0 }, end: { line, character: 1 } }, context: { diagnostics: [] } });
+    }
+    const symbols = await client.conn.sendRequest('textDocument/documentSymbol', { textDocument: { uri } });
+    expect(Array.isArray(symbols)).toBe(true);
+    expect(client.proc.exitCode).toBeNull();
+  });
+});
