@@ -96,6 +96,13 @@ describe('editor features over the real protocol', () => {
     expect(model[0]!.uri).toMatch(/models\.inc$/);
     const folds = (await client.conn.sendRequest('textDocument/foldingRange', { textDocument: { uri } })) as Array<{ startLine: number; endLine: number }>;
     expect(folds.map((f) => f.startLine)).toEqual(expect.arrayContaining([3]));
+    // references and rename of a net within its subcircuit: dyn appears on 5 lines of dom_and2
+    const refs = (await client.conn.sendRequest('textDocument/references', { textDocument: { uri }, position: { line: 4, character: 6 }, context: { includeDeclaration: true } })) as unknown[];
+    expect(refs.length).toBe(5);
+    const rename = (await client.conn.sendRequest('textDocument/rename', { textDocument: { uri }, position: { line: 4, character: 6 }, newName: 'pre_node' })) as { changes: Record<string, Array<{ range: never; newText: string }>> };
+    const renamed = applyEdits(DECK, rename.changes[uri]!);
+    expect(renamed).not.toMatch(/\bdyn\b/);
+    expect(renamed.match(/pre_node/g)!.length).toBe(5);
     const comp = (await client.conn.sendRequest('textDocument/completion', { textDocument: { uri }, position: { line: 2, character: 12 } })) as Array<{ label: string }>;
     expect(comp.map((c) => c.label)).toEqual(expect.arrayContaining(['clock', 'standby', 'accept']));
   });

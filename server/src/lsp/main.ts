@@ -28,7 +28,7 @@ import type { EngineOptions } from '../core/options';
 import { locate } from '../service/locate';
 import { deviceHover, netHover } from '../service/hover';
 import { quickFixes } from '../service/fixes';
-import { completions, definitionOf, foldingRanges, outline, type OutlineSymbol } from '../service/outline';
+import { completions, definitionOf, foldingRanges, netReferences, outline, type OutlineSymbol } from '../service/outline';
 import { parseSpiceNumber } from '../circuit/numbers';
 
 const connection: Connection = createConnection(ProposedFeatures.all);
@@ -197,6 +197,8 @@ connection.onInitialize((params) => {
       codeActionProvider: { codeActionKinds: [CodeActionKind.QuickFix] },
       documentSymbolProvider: true,
       definitionProvider: true,
+      referencesProvider: true,
+      renameProvider: { prepareProvider: true },
       foldingRangeProvider: true,
       completionProvider: { triggerCharacters: [':', ' '] },
       codeLensProvider: { resolveProvider: false },
@@ -316,6 +318,41 @@ connection.onDefinition((p) =>
     if (!t || (t.kind !== 'subckt' && t.kind !== 'model' && t.kind !== 'param')) return [];
     return definitionOf(c.result.deck, t.kind, t.name).map((d) => ({ uri: pathToFileURL(d.file).toString(), range: { start: d.range.start, end: d.range.end } }));
   }, []),
+);
+
+function netAt(uri: string, position: { line: number; character: number }) {
+  const c = resultFor(uri);
+  if (!c) return undefined;
+  const file = fileURLToPath(uri);
+  const f = syntaxOf(c, file);
+  const t = f && locate(f, position);
+  return t && t.kind === 'net' && f ? { f, t } : undefined;
+}
+
+connection.onReferences((p) =>
+  guard('references', () => {
+    const hit = netAt(p.textDocument.uri, p.position);
+    if (!hit) return [];
+    return netReferences(hit.f, hit.t.subckt, hit.t.name).map((r) => ({ uri: p.textDocument.uri, range: { start: r.start, end: r.end } }));
+  }, []),
+);
+
+connection.onPrepareRename((p) =>
+  guard('rename', () => {
+    const hit = netAt(p.textDocument.uri, p.position);
+    if (!hit || hit.t.name === '0') return null;
+    return { range: { start: hit.t.word.range.start, end: hit.t.word.range.end }, placeholder: hit.t.word.text };
+  }, null),
+);
+
+connection.onRenameRequest((p) =>
+  guard('rename', () => {
+    const hit = netAt(p.textDocument.uri, p.position);
+    // a net name is one word: no spaces, '=' or brackets, and not the ground node
+    if (!hit || !/^[^\s=(),{}'";]+$/.test(p.newName) || hit.t.name === '0') return null;
+    const edits = netReferences(hit.f, hit.t.subckt, hit.t.name).map((r) => ({ range: { start: r.start, end: r.end }, newText: p.newName }));
+    return { changes: { [p.textDocument.uri]: edits } };
+  }, null),
 );
 
 connection.onCompletion((p) =>

@@ -4,6 +4,7 @@ import type { SyntaxFile, WordItem } from '../syntax/tree';
 import type { Range } from '../core/source';
 import type { Deck } from '../circuit/deck';
 import { DIRECTIVE_VERBS } from '../circuit/directives';
+import { interpretElement } from '../circuit/elements';
 
 export interface OutlineSymbol {
   name: string;
@@ -124,4 +125,31 @@ export function completions(deck: Deck, linePrefix: string): CompletionItem[] {
     }
   }
   return items;
+}
+
+/**
+ * Every occurrence of a net name within its scope (one subcircuit body with its port list, or
+ * the top level) in a file: element nodes and subcircuit ports. Names are case-insensitive.
+ */
+export function netReferences(f: SyntaxFile, subckt: string | null, name: string): Range[] {
+  const out: Range[] = [];
+  const stack: Array<string | null> = [null];
+  for (const s of f.statements) {
+    const head = s.head.text.toLowerCase();
+    if (head === '.subckt' || head === '.macro') {
+      const ws = s.items.filter((x): x is WordItem => x.kind === 'word');
+      const here = ws[0]?.text.toLowerCase() ?? null;
+      stack.push(here);
+      if (here === subckt) for (const p of ws.slice(1)) if (p.text.toLowerCase() === name) out.push(p.range);
+      continue;
+    }
+    if (head === '.ends' || head === '.eom') {
+      if (stack.length > 1) stack.pop();
+      continue;
+    }
+    if (stack[stack.length - 1] !== subckt || head.startsWith('.')) continue;
+    const el = interpretElement(s);
+    if (el && 'nodes' in el) for (const w of el.nodes) if (w.text.toLowerCase() === name) out.push(w.range);
+  }
+  return out;
 }
