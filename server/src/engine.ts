@@ -13,6 +13,7 @@ import { buildPhases, type PhasePlan } from './phases/phases';
 import { buildSwitchNetwork } from './analysis/switchNetwork';
 import { classify, type Classification } from './analysis/classify';
 import { classificationFindings } from './findings/classificationFindings';
+import { applyAccepts } from './findings/accepts';
 import { buildContext, type ElectricalContext } from './analysis/electrical/context';
 import { estimateNodes, type NodeEstimate } from './analysis/electrical/estimate';
 import { DEFAULT_BUDGET_FRACTION, receiverBudget } from './analysis/electrical/budget';
@@ -85,7 +86,8 @@ export function analyse(host: FileHost, file: string, options: EngineOptions = {
     }
   }
   all.sort((a, b) => (a.file < b.file ? -1 : a.file > b.file ? 1 : a.range.start.line - b.range.start.line || a.range.start.character - b.range.start.character));
-  return { deck, design, circuits, diagnostics: dedupe(all) };
+  const accepted = options.frontEndOnly === true ? dedupe(all) : applyAccepts(dedupe(all), design.circuits, design.directives.accepts);
+  return { deck, design, circuits, diagnostics: accepted };
 }
 
 /** Supply, corners and budget: directives win over settings, settings over defaults. */

@@ -9,6 +9,14 @@ import { parseSpiceNumber } from './numbers';
 
 export type DeviceKind = 'nmos' | 'pmos' | 'diode' | 'short' | 'resistor' | 'capacitor';
 
+/** A reviewed finding; `subckt` when written inside a subcircuit (the node is then its local name). */
+export interface AcceptDirective extends Sourced {
+  node: string;
+  rule: string;
+  reason: string;
+  subckt?: string;
+}
+
 export interface Sourced {
   file: string;
   range: Range;
@@ -32,7 +40,7 @@ export interface DirectiveSet {
   outputs: (Sourced & { net: string })[];
   tempsC: (Sourced & { values: number[] }) | undefined;
   budget: (Sourced & { fraction?: number; volts?: number; receiver?: boolean }) | undefined;
-  accepts: (Sourced & { node: string; rule: string; reason: string })[];
+  accepts: AcceptDirective[];
   devices: (Sourced & { pattern: string; kind: DeviceKind })[];
   /** Geometry scale for W and L (metres per written unit). */
   scale: (Sourced & { value: number }) | undefined;

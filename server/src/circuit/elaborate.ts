@@ -107,15 +107,17 @@ class Elaborator {
   run(): ElaborateResult {
     const deck = this.deck;
     // Directives anywhere in the deck apply to the whole design.
-    const allDirectives = [...deck.directives];
+    // An `accept` written inside a subcircuit names the node as the cell knows it (every instance).
+    readDirectives(deck.directives, this.directives, this.diagnostics);
     const collect = (defs: Map<string, SubcktDefinition>) => {
       for (const d of defs.values()) {
-        allDirectives.push(...d.directives);
+        const before = this.directives.accepts.length;
+        readDirectives(d.directives, this.directives, this.diagnostics);
+        for (let i = before; i < this.directives.accepts.length; i++) this.directives.accepts[i]!.subckt = d.name;
         collect(d.local);
       }
     };
     collect(deck.subckts);
-    readDirectives(allDirectives, this.directives, this.diagnostics);
     for (const r of this.directives.devices) this.deviceRules.push({ re: globToRegExp(r.pattern), kind: r.kind });
     for (const r of this.options.deviceRules ?? []) this.deviceRules.push({ re: globToRegExp(r.pattern), kind: r.kind });
     this.deviceRules.push(...DEFAULT_DEVICE_RULES);

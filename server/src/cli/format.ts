@@ -19,13 +19,19 @@ export function formatText(report: Report, colour: boolean): string {
   if (supplies.length) lines.push(c('dim', 'supplies: ' + supplies.map((s) => `${s.net}${s.volts === null ? ' (voltage unknown)' : `=${s.volts}V`}`).join(', ')));
   if (report.phases.length) lines.push(c('dim', `phases: ${report.phases.length}`));
   lines.push('');
-  for (const d of report.diagnostics) {
+  const open = report.diagnostics.filter((d) => !d.accepted);
+  const accepted = report.diagnostics.filter((d) => d.accepted);
+  for (const d of open) {
     const sev = d.severity === 'error' ? c('error', 'error') : d.severity === 'warning' ? c('warning', 'warning') : c('info', 'info');
     lines.push(`${d.file}:${d.line}:${d.column}: ${sev} ${c('dim', `[${d.rule}]`)} ${d.message}`);
   }
-  const count = (s: string) => report.diagnostics.filter((d) => d.severity === s).length;
+  if (accepted.length) {
+    lines.push('');
+    for (const d of accepted) lines.push(c('dim', `${d.file}:${d.line}:${d.column}: accepted [${d.rule}] ${d.node}: "${d.accepted!.reason}" (${d.accepted!.file}:${d.accepted!.line})`));
+  }
+  const count = (s: string) => open.filter((d) => d.severity === s).length;
   lines.push('');
-  lines.push(`${count('error')} error(s), ${count('warning')} warning(s), ${count('info')} note(s)`);
+  lines.push(`${count('error')} error(s), ${count('warning')} warning(s), ${count('info')} note(s)${accepted.length ? `, ${accepted.length} accepted` : ''}`);
   lines.push(c('dim', 'Tidemark estimates are a screening aid, not sign-off.'));
   return lines.join('\n') + '\n';
 }
@@ -50,6 +56,7 @@ export function formatSarif(report: Report): string {
           ruleIndex: used.indexOf(d.rule as RuleCode),
           level: sarifLevel(d.severity),
           message: { text: d.message },
+          ...(d.accepted ? { suppressions: [{ kind: 'inSource', justification: d.accepted.reason }] } : {}),
           locations: [
             {
               physicalLocation: {

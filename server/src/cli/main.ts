@@ -212,7 +212,7 @@ export function main(argv: string[]): number {
   const out = args.format === 'json' ? JSON.stringify(report, null, 2) + '\n' : args.format === 'sarif' ? formatSarif(report) : formatText(report, args.colour);
   process.stdout.write(out);
   const levels = args.failOn === 'never' ? [] : args.failOn === 'warning' ? ['error', 'warning'] : ['error'];
-  return report.diagnostics.some((d) => levels.includes(d.severity)) ? 1 : 0;
+  return report.diagnostics.some((d) => !d.accepted && levels.includes(d.severity)) ? 1 : 0;
 }
 
 if (require.main === module) {

@@ -17,6 +17,8 @@ export interface Diagnostic {
   /** Flat node name, for findings about a node. */
   node?: string;
   related?: RelatedInfo[];
+  /** Set when an `accept` directive marks this finding as reviewed. */
+  accepted?: { reason: string; file: string; range: Range };
 }
 
 export function diag(rule: RuleCode, file: string, range: Range, message: string, severity?: Severity): Diagnostic {

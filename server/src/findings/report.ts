@@ -43,7 +43,16 @@ export interface ReportNode {
   max_float_s?: number | null;
   keeper?: { devices: string[]; hold_current_A: number; hot_leakage_A: number; strength_ratio: number };
   suggested_keeper?: { polarity: string; w_m: number; l_m: number; model: string; inverter: Record<string, string | number>; hold_current_A: number; strength_ratio: number; reasoning: string[] };
+  suggested_holder?: { kind: 'holder' | 'feedback'; existing_output?: string; pull_up: ReportHolderHalf; pull_down: ReportHolderHalf; reasoning: string[] };
   notes?: string[];
+}
+
+export interface ReportHolderHalf {
+  w_m: number;
+  l_m: number;
+  model: string;
+  hold_current_A: number;
+  strength_ratio: number;
 }
 
 export interface ReportPhase {
@@ -60,6 +69,8 @@ export interface ReportDiagnostic {
   rule: string;
   severity: string;
   node?: string;
+  /** Present when an `accept` directive marks the finding as reviewed. */
+  accepted?: { reason: string; file: string; line: number };
   file: string;
   line: number;
   column: number;
@@ -113,6 +124,7 @@ export function reportDiagnostic(d: Diagnostic): ReportDiagnostic {
     message: d.message,
   };
   if (d.node) r.node = d.node;
+  if (d.accepted) r.accepted = { reason: d.accepted.reason, file: d.accepted.file, line: d.accepted.range.start.line + 1 };
   return r;
 }
 
@@ -152,6 +164,11 @@ function addEstimate(node: ReportNode, e: NodeEstimate, c: Circuit): void {
     if (k.inverter.newWpM) inverter['new_wp_m'] = k.inverter.newWpM;
     if (k.inverter.newLM) inverter['new_l_m'] = k.inverter.newLM;
     node.suggested_keeper = { polarity: k.polarity, w_m: k.wM, l_m: k.lM, model: k.model, inverter, hold_current_A: k.holdCurrentA, strength_ratio: k.strengthRatio, reasoning: k.reasoning };
+  }
+  if (e.suggestedHolder) {
+    const h = e.suggestedHolder;
+    const half = (k: typeof h.pullUp) => ({ w_m: k.wM, l_m: k.lM, model: k.model, hold_current_A: k.holdCurrentA, strength_ratio: k.strengthRatio });
+    node.suggested_holder = { kind: h.kind, ...(h.forward.existingOutput ? { existing_output: h.forward.existingOutput } : {}), pull_up: half(h.pullUp), pull_down: half(h.pullDown), reasoning: [...h.pullUp.reasoning, ...h.pullDown.reasoning] };
   }
   if (e.notes.length) node.notes = e.notes;
 }

@@ -112,6 +112,12 @@ function toLsp(d: Diagnostic): LspDiagnostic {
   };
   if (d.related?.length) out.relatedInformation = d.related.map((r) => ({ location: { uri: pathToFileURL(r.file).toString(), range: { start: r.range.start, end: r.range.end } }, message: r.message }));
   if (d.node) out.data = { node: d.node, rule: d.rule };
+  if (d.accepted) {
+    // reviewed: a faint hint that still says what it is and why it was accepted
+    out.severity = DiagnosticSeverity.Hint;
+    out.message = `accepted: "${d.accepted.reason}". ${d.message}`;
+    out.relatedInformation = [...(out.relatedInformation ?? []), { location: { uri: pathToFileURL(d.accepted.file).toString(), range: { start: d.accepted.range.start, end: d.accepted.range.end } }, message: 'the accept directive' }];
+  }
   return out;
 }
 
@@ -376,7 +382,7 @@ connection.onCodeLens((p) =>
     for (const sym of outline(f)) {
       if (sym.kind !== 'subckt') continue;
       const name = sym.name.toLowerCase();
-      const here = c.result.diagnostics.filter((d) => d.file === file && d.range.start.line >= sym.range.start.line && d.range.start.line <= sym.range.end.line);
+      const here = c.result.diagnostics.filter((d) => !d.accepted && d.file === file && d.range.start.line >= sym.range.start.line && d.range.start.line <= sym.range.end.line);
       const errors = here.filter((d) => d.severity === 'error').length;
       const warnings = here.filter((d) => d.severity === 'warning').length;
       let floating = 0;
@@ -411,7 +417,7 @@ connection.onRequest('tidemark/summary', (p: { uri: string }) =>
   guard('summary', () => {
     const c = resultFor(p.uri);
     if (!c) return null;
-    const d = c.result.diagnostics;
+    const d = c.result.diagnostics.filter((x) => !x.accepted);
     let floating = 0;
     for (const a of c.result.circuits) for (const m of a.classification.perPhase) for (const r of m.values()) if (r.state === 'floating' || r.state === 'conditional') floating++;
     return { errors: d.filter((x) => x.severity === 'error').length, warnings: d.filter((x) => x.severity === 'warning').length, floatingNodePhases: floating };

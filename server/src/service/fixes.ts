@@ -23,7 +23,9 @@ export interface QuickFix {
   preferred?: boolean;
 }
 
-export const KEEPER_FIX_RULES: RuleCode[] = ['floating-node', 'retention-short', 'charge-sharing', 'combined-droop', 'coupling-noise'];
+// not coupling-noise: a keeper restores the level slowly, after the glitch has already reached the gates it drives
+// nor charge-sharing: the charge is lost at once; precharging the internal node answers it
+export const KEEPER_FIX_RULES: RuleCode[] = ['floating-node', 'retention-short', 'combined-droop'];
 export const ACCEPTABLE_RULES: RuleCode[] = ['floating-node', 'retention-short', 'charge-sharing', 'coupling-noise', 'combined-droop', 'contention', 'keeper-weak', 'keeper-strong', 'undriven-net'];
 
 function at(line: number): Range {
@@ -53,20 +55,36 @@ export function quickFixes(result: AnalysisResult, d: Diagnostic): QuickFix[] {
       edits: [{ file: d.file, range: at(insertLine), newText: `* tidemark: clock ${d.node} period=1n high=0.5n\n` }],
     });
   }
-  if (d.node && ACCEPTABLE_RULES.includes(d.rule)) {
+  if (d.node && !d.accepted && ACCEPTABLE_RULES.includes(d.rule)) {
     const stmt = statementAt(file, d.range.start.line);
     const line = stmt ? stmt.range.start.line : d.range.start.line;
+    // inside a subcircuit the directive names the cell's own node and covers every instance
+    const origin = netOrigin(result, d.node);
+    const inCell = origin && origin.subckt !== null && origin.file === d.file;
+    const name = inCell ? origin.local : d.node;
     out.push({
-      title: `Accept ${d.rule} on ${d.node} (reviewed; edit the reason)`,
+      title: `Accept ${d.rule} on ${name}${inCell ? ` in every ${origin.subckt}` : ''} (reviewed; edit the reason)`,
       fixes: [d.rule],
-      edits: [{ file: d.file, range: at(line), newText: `* tidemark: accept ${d.node} ${d.rule} reason="reviewed: state why this is safe"\n` }],
+      edits: [{ file: d.file, range: at(line), newText: `* tidemark: accept ${name} ${d.rule} reason="reviewed: state why this is safe"\n` }],
     });
   }
+  if (d.node && (d.rule === 'charge-sharing' || d.rule === 'combined-droop')) {
+    const p = prechargeFix(result, d, file);
+    if (p) out.unshift(p);
+  }
   if (d.node && KEEPER_FIX_RULES.includes(d.rule)) {
-    const k = keeperFix(result, d, file);
+    const k = keeperFix(result, d, file) ?? holderFix(result, d, file);
     if (k) out.unshift(k);
   }
   return out;
+}
+
+function netOrigin(result: AnalysisResult, node: string) {
+  for (const a of result.circuits) {
+    const id = a.circuit.netByName.get(node);
+    if (id !== undefined) return a.circuit.nets[id]!.origin;
+  }
+  return undefined;
 }
 
 /** Local names (as written in the defining subcircuit) of the rails and models around a node. */
@@ -95,6 +113,126 @@ function localContext(c: Circuit, file: SyntaxFile, subckt: string | null): { vd
     if (ctx.vdd && ctx.gnd && ctx.pModel && ctx.nModel && ctx.vddBulk && ctx.gndBulk) break;
   }
   return ctx;
+}
+
+/** Where a fix for a net goes and how its sizes are written. */
+function placement(result: AnalysisResult, c: Circuit, file: SyntaxFile, id: number) {
+  const net = c.nets[id]!;
+  const scale = result.design.geometryScale.value;
+  // in the netlist's own units: SPICE suffixes in metres, or plain numbers under a scale
+  const dim = (m: number) => (scale === 1 ? spiceNumber(m) : String(Number((m / scale).toPrecision(3))));
+  const stmt = statementAt(file, net.origin.range.start.line);
+  const insertLine = (stmt ? stmt.range.end.line : net.origin.range.start.line) + 1;
+  const local = net.origin.local;
+  return { local, safe: local.replace(/[^a-z0-9_]/gi, '_'), dim, insertLine, lc: localContext(c, file, net.origin.subckt) };
+}
+
+/**
+ * A bus holder (a new inverter and a weak one back) or, for a latch whose node already drives an
+ * inverter, the weak feedback inverter alone. Either holds both levels, unlike a keeper.
+ */
+function holderFix(result: AnalysisResult, d: Diagnostic, file: SyntaxFile): QuickFix | undefined {
+  for (const a of result.circuits) {
+    const c = a.circuit;
+    const id = c.netByName.get(d.node!);
+    if (id === undefined) continue;
+    const h = a.estimates?.get(id)?.suggestedHolder;
+    if (!h) continue;
+    const { local, safe, dim, insertLine, lc } = placement(result, c, file, id);
+    if (!lc.gnd || !lc.vdd || !lc.nModel || !lc.pModel) return undefined;
+    const vb = lc.vddBulk ?? lc.vdd;
+    const gb = lc.gndBulk ?? lc.gnd;
+    const what = h.kind === 'feedback' ? 'weak feedback inverter' : 'bus holder';
+    const lines: string[] = [`* tidemark ${what} for ${local}: holds a 1 (${h.pullUp.reasoning.join('; ')}); holds a 0 (${h.pullDown.reasoning.join('; ')})`];
+    let back = h.kind === 'feedback' ? localOutput(c, file, id) : undefined;
+    if (!back) {
+      back = `${safe}_hb`;
+      const wn = h.forward.newWnM ?? h.pullDown.wM;
+      const wp = h.forward.newWpM ?? 2 * wn;
+      const l = h.forward.newLM ?? h.pullDown.lM;
+      lines.push(`Mhold_fp_${safe} ${back} ${local} ${lc.vdd} ${vb} ${lc.pModel} w=${dim(wp)} l=${dim(l)}`);
+      lines.push(`Mhold_fn_${safe} ${back} ${local} ${lc.gnd} ${gb} ${lc.nModel} w=${dim(wn)} l=${dim(l)}`);
+    }
+    lines.push(`Mhold_bp_${safe} ${local} ${back} ${lc.vdd} ${vb} ${lc.pModel} w=${dim(h.pullUp.wM)} l=${dim(h.pullUp.lM)}`);
+    lines.push(`Mhold_bn_${safe} ${local} ${back} ${lc.gnd} ${gb} ${lc.nModel} w=${dim(h.pullDown.wM)} l=${dim(h.pullDown.lM)}`);
+    return {
+      title: h.kind === 'feedback'
+        ? `Insert a weak feedback inverter on ${local} from ${back}: P W=${dim(h.pullUp.wM)} L=${dim(h.pullUp.lM)}, N W=${dim(h.pullDown.wM)} L=${dim(h.pullDown.lM)}`
+        : `Insert a bus holder on ${local}: weak P W=${dim(h.pullUp.wM)} L=${dim(h.pullUp.lM)}, N W=${dim(h.pullDown.wM)} L=${dim(h.pullDown.lM)}`,
+      fixes: KEEPER_FIX_RULES,
+      preferred: true,
+      edits: [{ file: file.file, range: at(insertLine), newText: lines.join('\n') + '\n' }],
+    };
+  }
+  return undefined;
+}
+
+/** The terminal words (d, g, s, b) of a transistor as written in its own statement. */
+function localTerminals(c: Circuit, file: SyntaxFile, index: number): WordItem[] | undefined {
+  const m = c.mosfets[index]!;
+  if (m.origin.file !== file.file) return undefined;
+  const stmt = file.statements.find((s) => s.range.start.line === m.origin.range.start.line && s.range.start.character === m.origin.range.start.character);
+  if (!stmt) return undefined;
+  const el = interpretElement(stmt);
+  if (!el || el.kind !== 'mos' || el.nodes.length < 4) return undefined;
+  return el.nodes as WordItem[];
+}
+
+/**
+ * Charge sharing: precharge each internal node the evaluation joins to the dynamic node, with a
+ * device like the node's own precharge device (same clock, same rail, minimum size), so the
+ * joined capacitance already sits at the stored level and takes no charge from the node.
+ */
+function prechargeFix(result: AnalysisResult, d: Diagnostic, file: SyntaxFile): QuickFix | undefined {
+  for (const a of result.circuits) {
+    const c = a.circuit;
+    const id = c.netByName.get(d.node!);
+    if (id === undefined) continue;
+    const cs = a.estimates?.get(id)?.chargeSharing;
+    if (!cs || cs.droopV <= 0 || cs.joined.length === 0) return undefined;
+    const { dim, insertLine, local } = placement(result, c, file, id);
+    const subckt = c.nets[id]!.origin.subckt;
+    // the node's precharge device: a channel from the node to a rail, gated by a clock if any is
+    const toRail = c.mosfets.map((m, i) => ({ m, i })).filter(({ m }) => (m.d === id || m.s === id) && m.origin.subckt === subckt && ['supply', 'ground'].includes(c.nets[m.d === id ? m.s : m.d]!.kind));
+    const clocked = toRail.find(({ m }) => a.plan.phases.some((ph) => ph.clocks.has(m.g)));
+    const preIndex = (clocked ?? toRail[0])?.i;
+    if (preIndex === undefined) return undefined;
+    const pm = c.mosfets[preIndex]!;
+    const words = localTerminals(c, file, preIndex);
+    if (!words) return undefined;
+    const railWord = pm.d === id ? words[2]! : words[0]!;
+    const gateWord = words[1]!;
+    const bulkWord = words[3]!;
+    const model = localModel(file, pm);
+    if (!model) return undefined;
+    const wMin = Math.min(...c.mosfets.filter((m) => m.polarity === pm.polarity).map((m) => m.wM / m.nf));
+    const lines = [`* tidemark precharge for the internal nodes of ${local}: they joined ${formatF(cs.sharedF)} to it and drooped it by ${(cs.droopV * 1e3).toFixed(0)} mV`];
+    const names: string[] = [];
+    for (const j of cs.joined) {
+      const o = c.nets[j]!.origin;
+      if (o.subckt !== subckt) continue;
+      const jl = o.local;
+      names.push(jl);
+      lines.push(`Mpre_${jl.replace(/[^a-z0-9_]/gi, '_')} ${jl} ${gateWord.text} ${railWord.text} ${bulkWord.text} ${model} w=${dim(wMin)} l=${dim(pm.lM)}`);
+    }
+    if (!names.length) return undefined;
+    return {
+      title: `Precharge ${names.join(', ')} with ${gateWord.text} to stop charge sharing on ${local}`,
+      fixes: ['charge-sharing', 'combined-droop'],
+      edits: [{ file: file.file, range: at(insertLine), newText: lines.join('\n') + '\n' }],
+    };
+  }
+  return undefined;
+}
+
+function formatF(f: number): string {
+  return `${Number((f * 1e15).toPrecision(3))} fF`;
+}
+
+function localModel(file: SyntaxFile, m: Circuit['mosfets'][number]): string | undefined {
+  const stmt = file.statements.find((s) => s.range.start.line === m.origin.range.start.line && s.range.start.character === m.origin.range.start.character);
+  const el = stmt ? interpretElement(stmt) : undefined;
+  return el && el.kind === 'mos' ? el.model?.text : undefined;
 }
 
 function keeperFix(result: AnalysisResult, d: Diagnostic, file: SyntaxFile): QuickFix | undefined {

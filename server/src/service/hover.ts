@@ -106,6 +106,11 @@ export function netHover(result: AnalysisResult, file: string, target: Extract<T
       const s = e.suggestedKeeper;
       lines.push(`**Remedy**: a ${s.polarity === 'p' ? 'p' : 'n'}-channel keeper W=${formatEng(s.wM, 'm')} L=${formatEng(s.lM, 'm')} (${s.model})${s.inverter.existingOutput ? `, gate on ${s.inverter.existingOutput}` : ', with a new inverter'} — ${s.reasoning.join('; ')}. The quick fix inserts it.`);
     }
+    if (e.suggestedHolder) {
+      const h = e.suggestedHolder;
+      const what = h.kind === 'feedback' ? `a weak feedback inverter from ${h.forward.existingOutput}` : 'a bus holder (a new inverter and a weak one back)';
+      lines.push(`**Remedy**: the node holds data, so it needs both levels held: ${what}, P W=${formatEng(h.pullUp.wM, 'm')} L=${formatEng(h.pullUp.lM, 'm')} (${formatEng(h.pullUp.holdCurrentA, 'A')} at the budget droop), N W=${formatEng(h.pullDown.wM, 'm')} L=${formatEng(h.pullDown.lM, 'm')} (${formatEng(h.pullDown.holdCurrentA, 'A')}); ${h.pullUp.strengthRatio.toFixed(2)}/${h.pullDown.strengthRatio.toFixed(2)}x the drivers they fight. The quick fix inserts it.`);
+    }
     if (e.notes.length) lines.push(`_${e.notes.join('; ')}_`);
   }
   lines.push('_Tidemark estimates are a screening aid, not sign-off._');

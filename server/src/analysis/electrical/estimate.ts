@@ -3,6 +3,7 @@
 // charge and, where one is needed, a sized keeper. Pure: reads the context, returns records.
 
 import { floatsIn, nodeFloatWindow, type NodePhaseResult } from '../classify';
+import { evaluateComponent, newScratch, type Scratch } from '../constants';
 import { NetRole } from '../switchNetwork';
 import type { ElectricalContext } from './context';
 import { capacitanceSignature, islandCapacitance, type CapacitanceBreakdown } from './capacitance';
@@ -10,7 +11,7 @@ import { buildLeakageNetwork, leakageAt, leakageSignature, type LeakageContribut
 import { retentionTime } from './retention';
 import { chargeSharing, type ChargeSharingResult } from './chargeSharing';
 import { couplingDroop, type CouplingResult } from './coupling';
-import { HOLD_MARGIN, keeperHoldCurrent, keeperRatio, sizeKeeper, type KeeperSuggestion } from './keeper';
+import { HOLD_MARGIN, keeperHoldCurrent, keeperRatio, sizeHolder, sizeKeeper, type HolderSuggestion, type KeeperSuggestion } from './keeper';
 
 export interface CornerEstimate {
   tempC: number;
@@ -44,6 +45,12 @@ export interface NodeEstimate {
   maxFloatS: number | null;
   keeper?: { devices: number[]; holdCurrentA: number; hotLeakageA: number; ratio: number; against: number[] };
   suggestedKeeper?: KeeperSuggestion;
+  /**
+   * For a node that stores data (a tri-state bus, a dynamic latch) rather than one precharged
+   * level: a weak inverter pair that holds either level. `feedback` when the node already drives
+   * an inverter (a latch: only the weak feedback inverter is new), `holder` otherwise.
+   */
+  suggestedHolder?: HolderSuggestion;
   notes: string[];
 }
 
@@ -131,15 +138,19 @@ function estimateNode(ctx: ElectricalContext, n: number, floating: Array<{ s: No
     let pick: { i: number; ln: ReturnType<typeof buildLeakageNetwork>; keepers: number[]; assignment: Map<number, 0 | 1> } | undefined;
     let pickLeak = -Infinity;
     for (const { s, i } of floating) {
-      const assignment = new Map<number, 0 | 1>(s.gateAssignment ?? []);
       const keepers = s.state === 'kept' && s.keptLevel === level ? (s.keepers ?? []) : [];
-      const ln = buildLeakageNetwork(ctx, n, values[i]!, assignment, level, keepers);
-      // with one floating phase there is nothing to compare
-      const o = floating.length === 1 ? 0 : leakageAt(ctx, ln, vs, hot.tempK, level, false).outA;
-      const leak = level === 1 ? o : -o;
-      if (!pick || leak > pickLeak) {
-        pickLeak = leak;
-        pick = { i, ln, keepers, assignment };
+      const variants = inputVariants(ctx, n, values[i]!, new Map<number, 0 | 1>(s.gateAssignment ?? []), s.when);
+      for (const [vi, assignment] of variants.entries()) {
+        const ln = buildLeakageNetwork(ctx, n, values[i]!, assignment, level, keepers);
+        // a variant that drives the node is not a way for it to float (the witness always is)
+        if (vi > 0 && ln.driven) continue;
+        // with one candidate there is nothing to compare
+        const o = floating.length === 1 && variants.length === 1 ? 0 : leakageAt(ctx, ln, vs, hot.tempK, level, false).outA;
+        const leak = level === 1 ? o : -o;
+        if (!pick || leak > pickLeak) {
+          pickLeak = leak;
+          pick = { i, ln, keepers, assignment };
+        }
       }
     }
     const { i, ln, keepers, assignment } = pick!;
@@ -192,13 +203,27 @@ function estimateNode(ctx: ElectricalContext, n: number, floating: Array<{ s: No
   let sharing: ChargeSharingResult | undefined;
   let coupling: CouplingResult = { droopV: 0, aggressors: [] };
   let suggested: KeeperSuggestion | undefined;
+  let holder: HolderSuggestion | undefined;
   if (storage) {
     const fi = floating.find((f) => f.s.state !== 'kept') ?? floating[0]!;
     const others = values.filter((_, i) => i !== fi.i);
     sharing = chargeSharing(ctx, n, fi.i, values[fi.i]!, others, primaryLevel, capacitance.totalF, keptState?.keepers ?? []);
     coupling = couplingDroop(ctx, capacitance, constantEverywhere);
-    const needsKeeper = !keptState && (hotRet === null ? false : floatWindowS === null || hotRet < 3 * floatWindowS || sharing.droopV > ctx.budgetV);
-    if (needsKeeper) suggested = sizeKeeper(ctx, n, primaryLevel, primary.corners[hotIndex]!.leakageA, ctx.corners[hotIndex]!.tempK);
+    // all droop mechanisms together over the float window at the hot corner (as the findings add them)
+    const overBudget = (hot: CornerEstimate) => {
+      const windowS = floatWindowS ?? Infinity;
+      const leakDroopV = Number.isFinite(windowS) && hot.leakageA > 0 ? (hot.leakageA * windowS) / capacitance.totalF : hot.leakageA > 0 ? Infinity : 0;
+      return leakDroopV + sharing!.droopV + coupling.droopV > ctx.budgetV;
+    };
+    const needsKeeper = !keptState && (hotRet === null ? false : floatWindowS === null || hotRet < 3 * floatWindowS || overBudget(primary.corners[hotIndex]!));
+    // no phase drives it to a constant: it holds data, so one-level keeping is the wrong remedy
+    const holdsData = !keptState && drivenTo === undefined;
+    if (holdsData) {
+      const hotOf = (level: 0 | 1) => stored.find((s) => s.level === level)!.corners[hotIndex]!;
+      const shortest = Math.min(...([0, 1] as const).map((l) => hotOf(l).retentionS ?? Infinity));
+      const needsHolder = Number.isFinite(shortest) && (floatWindowS === null || shortest < 3 * floatWindowS || overBudget(hotOf(0)) || overBudget(hotOf(1)));
+      if (needsHolder) holder = sizeHolder(ctx, n, hotOf(1).leakageA, hotOf(0).leakageA, ctx.corners[hotIndex]!.tempK);
+    } else if (needsKeeper) suggested = sizeKeeper(ctx, n, primaryLevel, primary.corners[hotIndex]!.leakageA, ctx.corners[hotIndex]!.tempK);
   }
   if (capacitance.estimatedGeometry) notes.push('drain/source areas not given: estimated as W x 2.5L (common practice)');
   for (const i of ctx.channelOf[n]!) for (const note of ctx.model(c.mosfets[i]!).notes) if (!notes.includes(note)) notes.push(note);
@@ -218,6 +243,7 @@ function estimateNode(ctx: ElectricalContext, n: number, floating: Array<{ s: No
   };
   if (keeperInfo) est.keeper = keeperInfo;
   if (suggested) est.suggestedKeeper = suggested;
+  if (holder) est.suggestedHolder = holder;
   return est;
 }
 
@@ -277,3 +303,75 @@ function structureKey(ctx: ElectricalContext, n: number, floating: Array<{ s: No
 }
 
 export { HOLD_MARGIN };
+
+/** Free inputs enumerated for the worst-case leakage (2^3 assignments at most per phase). */
+const MAX_FREE_INPUTS = 3;
+
+/** Working buffers for input variants, one set per circuit (restored after every use). */
+const variantBuffers = new WeakMap<ElectricalContext, { work: Uint8Array; out: Uint8Array; scratch: Scratch }>();
+
+/**
+ * Gate assignments under which the node floats, for the worst-case leakage (DOMAIN 5): the
+ * witness's inputs, then those with each combination of the free inputs (unknown in the phase,
+ * not fixed by the witness) that gate the node's channel-connected component. The internal gate
+ * nets of the component (an enable's inverted copy) are re-evaluated from their own driving
+ * stage under each assignment, so no variant pairs a net with an impossible copy of it; where
+ * that stage does not settle, the witness's value stands.
+ */
+function inputVariants(ctx: ElectricalContext, node: number, phaseValues: Uint8Array, witness: Map<number, 0 | 1>, when: Record<string, 0 | 1> | undefined): Array<Map<number, 0 | 1>> {
+  const net = ctx.network;
+  // the inputs the float needs (its minimal witness); the witness's other values were one choice
+  const needed = new Map<number, 0 | 1>();
+  for (const [name, v] of Object.entries(when ?? {})) {
+    const id = ctx.circuit.netByName.get(name);
+    if (id !== undefined && net.role[id] === NetRole.Input) needed.set(id, v);
+  }
+  const comp = net.components[net.componentOf[node]!]!;
+  const free: number[] = [];
+  const internalGates: number[] = [];
+  for (const si of comp.switches) {
+    const g = net.switches[si]!.gate;
+    if (g < 0 || phaseValues[g] !== 2) continue;
+    if (net.role[g] === NetRole.Internal) {
+      if (net.componentOf[g] !== comp.id && !internalGates.includes(g)) internalGates.push(g);
+      continue;
+    }
+    if (net.role[g] !== NetRole.Input || needed.has(g) || free.includes(g)) continue;
+    free.push(g);
+    if (free.length > MAX_FREE_INPUTS) return [witness];
+  }
+  if (free.length === 0 && internalGates.length === 0) return [witness];
+  let buf = variantBuffers.get(ctx);
+  if (!buf) variantBuffers.set(ctx, (buf = { work: new Uint8Array(net.role.length).fill(2), out: new Uint8Array(net.role.length), scratch: newScratch(net.role.length) }));
+  const { work, out, scratch } = buf;
+  const consistent = (inputs: Map<number, 0 | 1>): Map<number, 0 | 1> => {
+    const touched: number[] = [];
+    const set = (k: number, v: number) => {
+      touched.push(k);
+      work[k] = v;
+    };
+    // the phase's known values on the driving stages' gates, then the inputs of this variant
+    const a = new Map(witness);
+    for (const [k, v] of inputs) a.set(k, v);
+    for (const g of internalGates) {
+      const driver = net.components[net.componentOf[g]!]!;
+      for (const si of driver.switches) {
+        const sw = net.switches[si]!;
+        for (const t of [sw.gate, sw.a, sw.b]) if (t >= 0 && net.role[t] !== NetRole.Internal) set(t, a.get(t) ?? (net.role[t] === NetRole.Rail0 ? 0 : net.role[t] === NetRole.Rail1 ? 1 : phaseValues[t]!));
+      }
+      evaluateComponent(net, driver, work, out, scratch);
+      if (out[g] === 0 || out[g] === 1) a.set(g, out[g] as 0 | 1);
+    }
+    for (const k of touched) work[k] = 2;
+    return a;
+  };
+  const inputsOf = new Map([...witness].filter(([g]) => net.role[g] === NetRole.Input && (needed.size === 0 || needed.has(g) || !free.includes(g))));
+  const variants = [witness, consistent(inputsOf)];
+  if (free.length === 0) return variants;
+  for (let bits = 0; bits < 1 << free.length; bits++) {
+    const inputs = new Map(inputsOf);
+    free.forEach((g, k) => inputs.set(g, ((bits >> k) & 1) as 0 | 1));
+    variants.push(consistent(inputs));
+  }
+  return variants;
+}

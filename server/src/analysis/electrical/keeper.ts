@@ -154,3 +154,24 @@ export function sizeKeeper(ctx: ElectricalContext, node: number, storedLevel: 0 
     reasoning,
   };
 }
+
+export interface HolderSuggestion {
+  kind: 'holder' | 'feedback';
+  /** The weak feedback inverter's halves: the p half holds a 1, the n half holds a 0. */
+  pullUp: KeeperSuggestion;
+  pullDown: KeeperSuggestion;
+  /** The forward inverter: the node's existing one, or a new minimum inverter to add. */
+  forward: KeeperSuggestion['inverter'];
+}
+
+/**
+ * A weak inverter pair for a node that stores either level: each half is sized like a keeper
+ * for its level (hold margin over that level's hot leakage, weak against the driver it fights).
+ */
+export function sizeHolder(ctx: ElectricalContext, node: number, hotLeakage1A: number, hotLeakage0A: number, hotTempK: number): HolderSuggestion | undefined {
+  const pullUp = sizeKeeper(ctx, node, 1, hotLeakage1A, hotTempK);
+  const pullDown = sizeKeeper(ctx, node, 0, hotLeakage0A, hotTempK);
+  if (!pullUp || !pullDown) return undefined;
+  const forward = pullUp.inverter;
+  return { kind: forward.existingOutput ? 'feedback' : 'holder', pullUp, pullDown, forward };
+}

@@ -36,6 +36,8 @@ export interface LeakageNetwork {
   keepers: number[];
   /** Devices whose gate is on the island and whose model tunnels (gate leakage). */
   gateDevices: number[];
+  /** An on channel joins the island to a driven net: the node does not float under these inputs. */
+  driven: boolean;
 }
 
 function gateVolts(ctx: ElectricalContext, net: number, phaseValues: Uint8Array, assignment: Map<number, 0 | 1>): number | undefined {
@@ -147,7 +149,8 @@ export function buildLeakageNetwork(ctx: ElectricalContext, node: number, phaseV
       for (const t of [m.d, m.s, m.b]) if (!groupOf.has(t) && !fixedVolts.has(t)) fixedVolts.set(t, gateOrStrong(ctx, t, phaseValues, assignment, worstInput));
     }
   }
-  return { island, floatingGroups, groupOf, fixedVolts, devices: [...devices].filter((i) => !keeperSet.has(i)), keepers, gateDevices };
+  const driven = [...island].some((m) => strongOf.has(m));
+  return { island, floatingGroups, groupOf, fixedVolts, devices: [...devices].filter((i) => !keeperSet.has(i)), keepers, gateDevices, driven };
 }
 
 function isActive(groupOf: Map<number, number>, n: number): boolean {
