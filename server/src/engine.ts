@@ -59,11 +59,16 @@ export function parseCached(file: string, text: string, hasTitle: boolean): Synt
   return result;
 }
 
-/** Analyses one top-level netlist (and what it includes), read through `host`. */
-export function analyse(host: FileHost, file: string, options: EngineOptions = {}): AnalysisResult {
+/** The front end alone: the netlist and its includes, parsed (cached per file text). */
+export function readDeck(host: FileHost, file: string, options: EngineOptions = {}): Deck {
   const roots = [{ file, text: host.readFile(file) ?? '' }];
   const hostWithPaths: FileHost = options.includePaths?.length ? { ...host, includePaths: [...(host.includePaths ?? []), ...options.includePaths] } : host;
-  const deck = loadDeck(hostWithPaths, roots, parseCached);
+  return loadDeck(hostWithPaths, roots, parseCached);
+}
+
+/** Analyses one top-level netlist (and what it includes), read through `host`. */
+export function analyse(host: FileHost, file: string, options: EngineOptions = {}): AnalysisResult {
+  const deck = readDeck(host, file, options);
   const { design, diagnostics } = elaborate(deck, options);
   const all = [...deck.diagnostics, ...diagnostics];
   const circuits: CircuitAnalysis[] = [];

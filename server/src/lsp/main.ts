@@ -20,7 +20,8 @@ import {
 import { TextDocument } from 'vscode-languageserver-textdocument';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import * as path from 'node:path';
-import { analyse, type AnalysisResult } from '../engine';
+import { analyse, readDeck, type AnalysisResult } from '../engine';
+import type { Deck } from '../circuit/deck';
 import { diskHost } from '../cli/diskHost';
 import type { FileHost } from '../core/host';
 import type { Diagnostic } from '../core/diagnostics';
@@ -227,6 +228,7 @@ connection.onInitialized(() => {
 connection.onDidChangeConfiguration(async () => {
   await guard('settings', () => pullSettings(), Promise.resolve());
   results.clear();
+  decks.clear();
   for (const d of documents.all()) schedule(d.uri, 0);
 });
 
@@ -240,6 +242,7 @@ documents.onDidClose((e) => {
   for (const f of published.get(e.document.uri) ?? []) connection.sendDiagnostics({ uri: pathToFileURL(f).toString(), diagnostics: [] });
   published.delete(e.document.uri);
   results.delete(e.document.uri);
+  decks.delete(e.document.uri);
 });
 connection.onDidChangeWatchedFiles((e) => {
   for (const ch of e.changes) if (ch.uri.startsWith('file:')) for (const dep of dependents(fileURLToPath(ch.uri))) schedule(dep);
@@ -247,6 +250,30 @@ connection.onDidChangeWatchedFiles((e) => {
 
 function syntaxOf(c: Cached, file: string) {
   return c.result.deck.files.find((f) => f.file === file);
+}
+
+const decks = new Map<string, { texts: Map<string, string>; deck: Deck }>();
+
+/**
+ * The parsed netlist alone, for requests that need no analysis (outline, folding, definitions,
+ * references, rename, completion): they answer from the current text at once instead of waiting
+ * for the re-analysis an edit has scheduled.
+ */
+function deckFor(uri: string): Deck | undefined {
+  if (!uri.startsWith('file:')) return undefined;
+  const full = results.get(uri);
+  if (full && fresh(full)) return full.result.deck;
+  const hit = decks.get(uri);
+  if (hit && [...hit.texts].every(([f, t]) => host.readFile(f) === t)) return hit.deck;
+  const deck = readDeck(host, fileURLToPath(uri), engineOptions(0));
+  const texts = new Map<string, string>();
+  for (const f of deck.files) texts.set(f.file, host.readFile(f.file) ?? '');
+  decks.set(uri, { texts, deck });
+  return deck;
+}
+
+function fileOf(deck: Deck | undefined, file: string) {
+  return deck?.files.find((f) => f.file === file);
 }
 
 connection.onHover((p) =>
@@ -300,37 +327,33 @@ function toSymbol(s: OutlineSymbol): DocumentSymbol {
 
 connection.onDocumentSymbol((p) =>
   guard('symbols', () => {
-    const c = resultFor(p.textDocument.uri);
-    const f = c && syntaxOf(c, fileURLToPath(p.textDocument.uri));
+    const f = fileOf(deckFor(p.textDocument.uri), fileURLToPath(p.textDocument.uri));
     return f ? outline(f).map(toSymbol) : [];
   }, []),
 );
 
 connection.onFoldingRanges((p) =>
   guard('folding', () => {
-    const c = resultFor(p.textDocument.uri);
     const file = fileURLToPath(p.textDocument.uri);
-    const f = c && syntaxOf(c, file);
+    const f = fileOf(deckFor(p.textDocument.uri), file);
     return f ? foldingRanges(f, host.readFile(file) ?? '') : [];
   }, []),
 );
 
 connection.onDefinition((p) =>
   guard('definition', () => {
-    const c = resultFor(p.textDocument.uri);
-    if (!c) return [];
-    const f = syntaxOf(c, fileURLToPath(p.textDocument.uri));
+    const deck = deckFor(p.textDocument.uri);
+    if (!deck) return [];
+    const f = fileOf(deck, fileURLToPath(p.textDocument.uri));
     const t = f && locate(f, p.position);
     if (!t || (t.kind !== 'subckt' && t.kind !== 'model' && t.kind !== 'param')) return [];
-    return definitionOf(c.result.deck, t.kind, t.name).map((d) => ({ uri: pathToFileURL(d.file).toString(), range: { start: d.range.start, end: d.range.end } }));
+    return definitionOf(deck, t.kind, t.name).map((d) => ({ uri: pathToFileURL(d.file).toString(), range: { start: d.range.start, end: d.range.end } }));
   }, []),
 );
 
 function netAt(uri: string, position: { line: number; character: number }) {
-  const c = resultFor(uri);
-  if (!c) return undefined;
   const file = fileURLToPath(uri);
-  const f = syntaxOf(c, file);
+  const f = fileOf(deckFor(uri), file);
   const t = f && locate(f, position);
   return t && t.kind === 'net' && f ? { f, t } : undefined;
 }
@@ -363,11 +386,11 @@ connection.onRenameRequest((p) =>
 
 connection.onCompletion((p) =>
   guard('completion', () => {
-    const c = resultFor(p.textDocument.uri);
+    const deck = deckFor(p.textDocument.uri);
     const doc = documents.get(p.textDocument.uri);
-    if (!c || !doc) return [];
+    if (!deck || !doc) return [];
     const prefix = doc.getText({ start: { line: p.position.line, character: 0 }, end: p.position });
-    return completions(c.result.deck, prefix).map((x) => ({ label: x.label, detail: x.detail, kind: x.kind === 'directive' ? CompletionItemKind.Keyword : x.kind === 'subckt' ? CompletionItemKind.Class : CompletionItemKind.Struct }));
+    return completions(deck, prefix).map((x) => ({ label: x.label, detail: x.detail, kind: x.kind === 'directive' ? CompletionItemKind.Keyword : x.kind === 'subckt' ? CompletionItemKind.Class : CompletionItemKind.Struct }));
   }, []),
 );
 

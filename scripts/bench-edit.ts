@@ -1,0 +1,71 @@
+// Edit latency in the editor: the real bundled server (dist/server.js) over stdio, the
+// 100k-transistor hierarchical netlist open, one line edited; prints the time from the change
+// notification until the new diagnostics are published. Figures only, no assertions.
+
+import { spawn } from 'node:child_process';
+import * as fs from 'node:fs';
+import * as os from 'node:os';
+import * as path from 'node:path';
+import { performance } from 'node:perf_hooks';
+import { pathToFileURL } from 'node:url';
+import { createMessageConnection, StreamMessageReader, StreamMessageWriter } from 'vscode-jsonrpc/node';
+import { hierarchicalNetlist } from './netlists';
+
+async function main(): Promise<void> {
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'tidemark-edit-'));
+  const file = path.join(dir, 'datapath.sp');
+  let text = hierarchicalNetlist(100_000);
+  fs.writeFileSync(file, text);
+  const uri = pathToFileURL(file).toString();
+  const proc = spawn(process.execPath, ['--max-old-space-size=4096', path.join(__dirname, '..', 'dist', 'server.js'), '--stdio'], { stdio: ['pipe', 'pipe', 'inherit'] });
+  const conn = createMessageConnection(new StreamMessageReader(proc.stdout!), new StreamMessageWriter(proc.stdin!));
+  let waiting: ((n: number) => void) | undefined;
+  conn.onNotification('textDocument/publishDiagnostics', (p: { uri: string; diagnostics: unknown[] }) => {
+    if (p.uri === uri && waiting) waiting(p.diagnostics.length);
+  });
+  conn.onRequest('workspace/configuration', (p: { items: unknown[] }) => p.items.map(() => null));
+  conn.onRequest('client/registerCapability', () => null);
+  conn.listen();
+  await conn.sendRequest('initialize', { processId: process.pid, rootUri: pathToFileURL(dir).toString(), capabilities: { workspace: { configuration: true } } });
+  conn.sendNotification('initialized', {});
+  const published = () => new Promise<number>((resolve) => (waiting = resolve));
+  let t = performance.now();
+  let next = published();
+  conn.sendNotification('textDocument/didOpen', { textDocument: { uri, languageId: 'spice', version: 1, text } });
+  let count = await next;
+  console.log(`open      ${(performance.now() - t).toFixed(0).padStart(6)} ms  ${count} diagnostics (first analysis, 100,800 transistors)`);
+  const lines = text.split('\n');
+  const edits: Array<[string, (l: string) => boolean, (l: string) => string]> = [
+    ['a top-level instance', (l) => l.startsWith('Xb7 '), (l) => l.replace(' y7 ', ' y7x ')],
+    ['a width in a leaf cell', (l) => l.startsWith('Mn1 y a n1'), (l) => l.replace('w=0.4u', 'w=0.42u')],
+    ['a comment line', (l) => l.startsWith('vdd '), (l) => `* supply\n${l}`],
+  ];
+  let version = 2;
+  for (const [what, find, change] of edits) {
+    for (let round = 0; round < 3; round++) {
+      const i = lines.findIndex(find);
+      const original = lines[i]!;
+      lines[i] = change(original);
+      text = lines.join('\n');
+      t = performance.now();
+      next = published();
+      conn.sendNotification('textDocument/didChange', { textDocument: { uri, version: version++ }, contentChanges: [{ text }] });
+      // a request that needs only the parse is answered before the re-analysis
+      const symbols = (await conn.sendRequest('textDocument/documentSymbol', { textDocument: { uri } })) as unknown[];
+      const outlineMs = performance.now() - t;
+      count = await next;
+      const ms = performance.now() - t;
+      lines[i] = original;
+      text = lines.join('\n');
+      next = published();
+      conn.sendNotification('textDocument/didChange', { textDocument: { uri, version: version++ }, contentChanges: [{ text }] });
+      await next;
+      console.log(`edit      ${ms.toFixed(0).padStart(6)} ms to new diagnostics (${count}); outline ${outlineMs.toFixed(0)} ms (${symbols.length} symbols) | ${what}, round ${round + 1}; includes the 150 ms keystroke debounce`);
+    }
+  }
+  await conn.sendRequest('shutdown');
+  conn.sendNotification('exit');
+  fs.rmSync(dir, { recursive: true, force: true });
+}
+
+void main();
