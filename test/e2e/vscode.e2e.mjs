@@ -114,7 +114,6 @@ async function main() {
     const problems = page.locator('[id="status.problems"] [aria-label]').first();
     await page.waitForFunction(() => /[1-9]/.test(document.querySelector('[id="status.problems"] [aria-label]')?.getAttribute('aria-label') ?? ''));
     const before = await problems.getAttribute('aria-label');
-    const countOf = (label) => (label.match(/\d+/g) ?? []).map(Number).reduce((a, b) => a + b, 0);
     step(`  status bar: ${before}`);
     await page.keyboard.press('Control+Shift+M');
     const row = page.locator('.markers-panel .monaco-list-row', { hasText: FLOAT_TEXT });
@@ -130,10 +129,7 @@ async function main() {
     await page.keyboard.press('Control+K');
     await page.keyboard.press('Control+I');
     const hover = page.locator('.monaco-hover:not(.hidden)').first();
-    await page.waitForFunction(() => {
-      const h = document.querySelector('.monaco-hover:not(.hidden)');
-      return h && !/Loading/.test(h.textContent ?? '') && /Capacitance/.test(h.textContent ?? '');
-    });
+    await page.waitForFunction(() => [...document.querySelectorAll('.monaco-hover:not(.hidden)')].some((h) => !/Loading/.test(h.textContent ?? '') && /Capacitance/.test(h.textContent ?? '')), undefined, { timeout: 30_000 });
     const card = await hover.textContent();
     for (const want of [/xp0\.dyn/, /Capacitance\s*[\d.]+\s*[afp]F/, /\d+ C/, /budget/, /not sign-off/]) if (!want.test(card)) throw new Error(`hover card lacks ${want}: ${card}`);
     step(`  hover: ${card.slice(0, 160).replace(/\s+/g, ' ')}...`);
@@ -147,16 +143,22 @@ async function main() {
     await page.screenshot({ path: path.join(RESULTS, 'e2e-4-lightbulb.png') });
     await keeper.click();
     await page.locator('.view-line', { hasText: 'Mkeep_dyn' }).first().waitFor();
-    // the floating-node finding of the node goes away, and the count drops
+    // the floating-node finding of the node goes away (the keeper may now be reported as too weak
+    // for the node's charge sharing, which is a different finding)
     await row.first().waitFor({ state: 'detached' });
-    await page.waitForFunction((n) => {
-      const label = document.querySelector('[id="status.problems"] [aria-label]')?.getAttribute('aria-label') ?? '';
-      return (label.match(/\d+/g) ?? []).map(Number).reduce((a, b) => a + b, 0) < n;
-    }, countOf(before));
+    await page.locator('.markers-panel .monaco-list-row', { hasText: 'xp0.dyn' }).first().waitFor();
     const after = await problems.getAttribute('aria-label');
     step(`  status bar after the fix: ${after}`);
     await page.screenshot({ path: path.join(RESULTS, 'e2e-5-fixed.png') });
     step('passed');
+  } catch (e) {
+    const page = context?.pages()[0];
+    if (page) {
+      await page.screenshot({ path: path.join(RESULTS, 'e2e-failure.png') }).catch(() => {});
+      const hoverText = await page.locator('.monaco-hover').allTextContents().catch(() => []);
+      console.error(`e2e: hovers on screen: ${JSON.stringify(hoverText).slice(0, 600)}`);
+    }
+    throw e;
   } finally {
     await context?.close();
     try {
