@@ -99,6 +99,28 @@ describe('tidemark check', () => {
     expect(m.stderr).toMatch(/cannot read 'no\/such\/file.sp'/);
   });
 
+  it('accept: listed with its reason, not failed on; SARIF suppression; scoped to the cell; stale accepts reported', () => {
+    const src = fs.readFileSync(path.join(ROOT, 'samples', 'tern_dynamic_latch.sp'), 'utf8');
+    // written inside the cell, the local name covers both instances
+    const accepted = src.replace(/^(\.subckt capture_latch.*)$/m, '$1\n* tidemark: accept st floating-node reason="refreshed every frame"\n* tidemark: accept st combined-droop reason="refreshed every frame"\n* tidemark: accept nosuch contention reason="stale"');
+    const dir = tempDir({ 'latch.sp': accepted });
+    fs.cpSync(path.join(ROOT, 'samples', 'models'), path.join(dir, 'models'), { recursive: true });
+    const j = JSON.parse(tidemark(['check', 'latch.sp', '--format', 'json'], dir).stdout);
+    const marked = j.diagnostics.filter((d: { accepted?: unknown }) => d.accepted);
+    expect(marked.map((d: { rule: string }) => d.rule).sort()).toEqual(['combined-droop', 'floating-node']);
+    expect(marked[0].accepted).toMatchObject({ reason: 'refreshed every frame', file: 'latch.sp' });
+    expect(j.diagnostics.some((d: { rule: string; message: string }) => d.rule === 'directive' && /accept nosuch contention matches no finding/.test(d.message))).toBe(true);
+    expect(tidemark(['check', 'latch.sp', '--fail-on', 'warning'], dir).code).toBe(0);
+    expect(tidemark(['check', path.join(ROOT, 'samples', 'tern_dynamic_latch.sp'), '--fail-on', 'warning']).code).toBe(1);
+    const text = tidemark(['check', 'latch.sp'], dir).stdout;
+    expect(text).toMatch(/accepted \[floating-node\] xcap0\.st: "refreshed every frame"/);
+    expect(text).toMatch(/, 2 accepted/);
+    const sarif = JSON.parse(tidemark(['check', 'latch.sp', '--format', 'sarif'], dir).stdout);
+    const suppressed = sarif.runs[0].results.filter((r: { suppressions?: unknown[] }) => r.suppressions);
+    expect(suppressed).toHaveLength(2);
+    expect(suppressed[0].suppressions[0]).toEqual({ kind: 'inSource', justification: 'refreshed every frame' });
+  });
+
   it('writes SARIF 2.1.0 with rules and regions', () => {
     const dir = tempDir({ 'bad.sp': 'bad\nX1 a b nothere\n.end\n' });
     const r = tidemark(['check', 'bad.sp', '--format', 'sarif'], dir);

@@ -90,9 +90,11 @@ export function analyse(host: FileHost, file: string, options: EngineOptions = {
       }
     }
   }
-  all.sort((a, b) => (a.file < b.file ? -1 : a.file > b.file ? 1 : a.range.start.line - b.range.start.line || a.range.start.character - b.range.start.character));
-  const accepted = options.frontEndOnly === true ? dedupe(all) : applyAccepts(dedupe(all), design.circuits, design.directives.accepts);
-  return { deck, design, circuits, diagnostics: accepted };
+  const byPlace = (a: Diagnostic, b: Diagnostic) => (a.file < b.file ? -1 : a.file > b.file ? 1 : a.range.start.line - b.range.start.line || a.range.start.character - b.range.start.character);
+  all.sort(byPlace);
+  // stale accepts are reported where they are written, in order with the rest
+  const findings = options.frontEndOnly === true ? dedupe(all) : applyAccepts(dedupe(all), design.circuits, design.directives.accepts).sort(byPlace);
+  return { deck, design, circuits, diagnostics: findings };
 }
 
 /** Supply, corners and budget: directives win over settings, settings over defaults. */
