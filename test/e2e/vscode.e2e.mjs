@@ -19,6 +19,17 @@ const SAMPLE = 'tern_domino_adder.sp';
 const NODE_LINE = 21;
 const FLOAT_TEXT = 'xp0.dyn floats';
 
+/** Puts the cursor at line:column through Go to Line, and waits until the status bar says so. */
+async function goTo(page, line, column) {
+  await page.keyboard.press('Control+G');
+  const input = page.locator('.quick-input-widget input').filter({ visible: true }).first();
+  await input.waitFor();
+  // Go to Line is quick input with a ":" prefix; without it the text would be a file search
+  await input.fill(`:${line}:${column}`);
+  await page.keyboard.press('Enter');
+  await page.locator('[id="status.editor.selection"]', { hasText: `Ln ${line}, Col ${column}` }).first().waitFor();
+}
+
 function step(msg) {
   console.log(`e2e: ${msg}`);
 }
@@ -123,9 +134,7 @@ async function main() {
     step('hover card');
     const editor = page.locator('.monaco-editor').first();
     await editor.click();
-    await page.keyboard.press('Control+G');
-    await page.keyboard.type(`${NODE_LINE}:6`);
-    await page.keyboard.press('Enter');
+    await goTo(page, NODE_LINE, 6);
     await page.keyboard.press('Control+K');
     await page.keyboard.press('Control+I');
     const hover = page.locator('.monaco-hover:not(.hidden)').first();
@@ -137,7 +146,14 @@ async function main() {
     await page.keyboard.press('Escape');
 
     step('keeper quick fix from the light bulb');
-    await page.keyboard.press('Control+.');
+    // back to the node's name with the editor focused: the light bulb shows for the cursor
+    await page.keyboard.press('Escape');
+    await page.locator('.view-line', { hasText: 'Mna dyn a n1' }).first().click();
+    await goTo(page, NODE_LINE, 6);
+    // the light bulb in the gutter beside the line (its icon name varies with the build)
+    const bulb = page.locator('.monaco-editor [class*="codicon-gutter-lightbulb"], .monaco-editor .lightBulbWidget .codicon').filter({ visible: true }).first();
+    await bulb.waitFor();
+    await bulb.click();
     const keeper = page.locator('.action-widget .monaco-list-row', { hasText: 'Insert a keeper' }).first();
     await keeper.waitFor();
     await page.screenshot({ path: path.join(RESULTS, 'e2e-4-lightbulb.png') });
@@ -156,7 +172,9 @@ async function main() {
     if (page) {
       await page.screenshot({ path: path.join(RESULTS, 'e2e-failure.png') }).catch(() => {});
       const hoverText = await page.locator('.monaco-hover').allTextContents().catch(() => []);
-      console.error(`e2e: hovers on screen: ${JSON.stringify(hoverText).slice(0, 600)}`);
+      console.error(`e2e: hovers on screen: ${JSON.stringify(hoverText).slice(0, 300)}`);
+      const bulbs = await page.locator('[class*="bulb"]').evaluateAll((els) => els.map((e) => `${e.tagName}.${e.className} visible=${e.getBoundingClientRect().width > 0}`)).catch(() => []);
+      console.error(`e2e: bulb elements: ${JSON.stringify(bulbs)}`);
     }
     throw e;
   } finally {
