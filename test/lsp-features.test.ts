@@ -8,6 +8,7 @@ import * as path from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { applyEdits, TestLspClient } from './support/lspClient';
+import { runNgspice } from './support/ngspice';
 
 const MODELS = fs.readFileSync(path.join(__dirname, 'fixtures', 'electrical', 'models.inc'), 'utf8');
 const DECK = `domino gate for the editor tests
@@ -80,6 +81,29 @@ describe('editor features over the real protocol', () => {
     const hover = (await client.conn.sendRequest('textDocument/hover', { textDocument: { uri }, position: { line: 4, character: 6 } })) as { contents: { value: string } };
     expect(hover.contents.value).toMatch(/clk=1 \| held by its keeper/);
     fs.writeFileSync(path.join(dir, 'dom-fixed.sp'), edited);
+  });
+
+  // reference: ngspice (eecircuit-engine) at 110 C on the same cards. The inserted keeper must
+  // hold the precharged node through the 0.5 us evaluate phase when the stack is off, and stay
+  // weak enough that the stack still pulls the node down when it conducts.
+  it('ngspice: the inserted keeper holds the node and still lets evaluation win', async () => {
+    const fixed = fs.readFileSync(path.join(dir, 'dom-fixed.sp'), 'utf8');
+    const sim = async (deck: string, a: 0 | 1, b: 0 | 1) => {
+      const inline = deck.replace('.include models.inc', MODELS).replace(/^vclk .*$/m, 'vclk clk 0 PWL(0 0 1n 0 1.02n 1)').replace(/^\.control[\s\S]*?^\.endc\s*$/m, '').replace(/^\.end\s*$/m, '');
+      const r = await runNgspice(`${inline}\nva a 0 ${a}\nvb b 0 ${b}\n.options gmin=1e-18\n.temp 110\n.tran 1n 501n\n.end\n`);
+      const t = r.get('time')!;
+      const v = r.get('v(xg.dyn)') ?? r.get('xg.dyn')!;
+      return { t, v };
+    };
+    const after = (w: { t: number[]; v: number[] }, s: number) => w.v[w.t.findIndex((x) => x >= s)]!;
+    const bare = await sim(DECK, 0, 1);
+    const held = await sim(fixed, 0, 1);
+    const evaluate = await sim(fixed, 1, 1);
+    // without the keeper the node leaks past the 0.1 V budget within the phase; with it, it holds
+    expect(after(bare, 501e-9)).toBeLessThan(0.9);
+    expect(Math.min(...held.v.filter((_, i) => held.t[i]! > 2e-9))).toBeGreaterThan(0.9);
+    // evaluation still wins over the keeper: the node falls below 0.1 V within 5 ns
+    expect(after(evaluate, 6e-9)).toBeLessThan(0.1);
   });
 
   it('gives an outline, definitions, folding and completion', async () => {
