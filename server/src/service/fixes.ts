@@ -8,6 +8,7 @@ import type { RuleCode } from '../findings/catalogue';
 import type { Range } from '../core/source';
 import type { SyntaxFile, Statement, WordItem } from '../syntax/tree';
 import { interpretElement } from '../circuit/elements';
+import { formatEng } from '../circuit/numbers';
 import type { Circuit } from '../circuit/circuit';
 
 export interface TextEdit {
@@ -79,6 +80,15 @@ export function quickFixes(result: AnalysisResult, d: Diagnostic): QuickFix[] {
   return out;
 }
 
+/** A transistor's statement as written: its terminal words (d, g, s, b) and model name. */
+function writtenMos(file: SyntaxFile, m: Circuit['mosfets'][number]): { words: WordItem[]; model: string | undefined } | undefined {
+  if (m.origin.file !== file.file) return undefined;
+  const stmt = file.statements.find((s) => s.range.start.line === m.origin.range.start.line && s.range.start.character === m.origin.range.start.character);
+  const el = stmt ? interpretElement(stmt) : undefined;
+  if (!el || el.kind !== 'mos') return undefined;
+  return { words: el.nodes as WordItem[], model: el.model?.text };
+}
+
 function netOrigin(result: AnalysisResult, node: string) {
   for (const a of result.circuits) {
     const id = a.circuit.netByName.get(node);
@@ -91,12 +101,10 @@ function netOrigin(result: AnalysisResult, node: string) {
 function localContext(c: Circuit, file: SyntaxFile, subckt: string | null): { vdd?: string; vddBulk?: string; gnd?: string; gndBulk?: string; pModel?: string; nModel?: string } {
   const ctx: ReturnType<typeof localContext> = {};
   for (const m of c.mosfets) {
-    if (m.origin.subckt !== subckt || m.origin.file !== file.file) continue;
-    const stmt = file.statements.find((s) => s.range.start.line === m.origin.range.start.line && s.range.start.character === m.origin.range.start.character);
-    if (!stmt) continue;
-    const el = interpretElement(stmt);
-    if (!el || el.kind !== 'mos' || el.nodes.length < 4) continue;
-    const words = el.nodes as WordItem[];
+    if (m.origin.subckt !== subckt) continue;
+    const w = writtenMos(file, m);
+    if (!w || w.words.length < 4) continue;
+    const words = w.words;
     const terms = [m.d, m.g, m.s, m.b];
     for (let t = 0; t < 4; t++) {
       const kind = c.nets[terms[t]!]!.kind;
@@ -108,8 +116,8 @@ function localContext(c: Circuit, file: SyntaxFile, subckt: string | null): { vd
       if (kind === 'supply') ctx.vdd ??= words[t]!.text;
       if (kind === 'ground') ctx.gnd ??= words[t]!.text;
     }
-    if (m.polarity === 'p') ctx.pModel ??= el.model?.text;
-    else ctx.nModel ??= el.model?.text;
+    if (m.polarity === 'p') ctx.pModel ??= w.model;
+    else ctx.nModel ??= w.model;
     if (ctx.vdd && ctx.gnd && ctx.pModel && ctx.nModel && ctx.vddBulk && ctx.gndBulk) break;
   }
   return ctx;
@@ -167,17 +175,6 @@ function holderFix(result: AnalysisResult, d: Diagnostic, file: SyntaxFile): Qui
   return undefined;
 }
 
-/** The terminal words (d, g, s, b) of a transistor as written in its own statement. */
-function localTerminals(c: Circuit, file: SyntaxFile, index: number): WordItem[] | undefined {
-  const m = c.mosfets[index]!;
-  if (m.origin.file !== file.file) return undefined;
-  const stmt = file.statements.find((s) => s.range.start.line === m.origin.range.start.line && s.range.start.character === m.origin.range.start.character);
-  if (!stmt) return undefined;
-  const el = interpretElement(stmt);
-  if (!el || el.kind !== 'mos' || el.nodes.length < 4) return undefined;
-  return el.nodes as WordItem[];
-}
-
 /**
  * Charge sharing: precharge each internal node the evaluation joins to the dynamic node, with a
  * device like the node's own precharge device (same clock, same rail, minimum size), so the
@@ -198,15 +195,13 @@ function prechargeFix(result: AnalysisResult, d: Diagnostic, file: SyntaxFile): 
     const preIndex = (clocked ?? toRail[0])?.i;
     if (preIndex === undefined) return undefined;
     const pm = c.mosfets[preIndex]!;
-    const words = localTerminals(c, file, preIndex);
-    if (!words) return undefined;
-    const railWord = pm.d === id ? words[2]! : words[0]!;
-    const gateWord = words[1]!;
-    const bulkWord = words[3]!;
-    const model = localModel(file, pm);
-    if (!model) return undefined;
+    const written = writtenMos(file, pm);
+    const model = written?.model;
+    if (!written || written.words.length < 4 || !model) return undefined;
+    const [drainWord, gateWord, sourceWord, bulkWord] = written.words as [WordItem, WordItem, WordItem, WordItem];
+    const railWord = pm.d === id ? sourceWord : drainWord;
     const wMin = Math.min(...c.mosfets.filter((m) => m.polarity === pm.polarity).map((m) => m.wM / m.nf));
-    const lines = [`* tidemark precharge for the internal nodes of ${local}: they joined ${formatF(cs.sharedF)} to it and drooped it by ${(cs.droopV * 1e3).toFixed(0)} mV`];
+    const lines = [`* tidemark precharge for the internal nodes of ${local}: they joined ${formatEng(cs.sharedF, 'F')} to it and drooped it by ${formatEng(cs.droopV, 'V')}`];
     const names: string[] = [];
     for (const j of cs.joined) {
       const o = c.nets[j]!.origin;
@@ -225,16 +220,6 @@ function prechargeFix(result: AnalysisResult, d: Diagnostic, file: SyntaxFile): 
   return undefined;
 }
 
-function formatF(f: number): string {
-  return `${Number((f * 1e15).toPrecision(3))} fF`;
-}
-
-function localModel(file: SyntaxFile, m: Circuit['mosfets'][number]): string | undefined {
-  const stmt = file.statements.find((s) => s.range.start.line === m.origin.range.start.line && s.range.start.character === m.origin.range.start.character);
-  const el = stmt ? interpretElement(stmt) : undefined;
-  return el && el.kind === 'mos' ? el.model?.text : undefined;
-}
-
 function keeperFix(result: AnalysisResult, d: Diagnostic, file: SyntaxFile): QuickFix | undefined {
   for (const a of result.circuits) {
     const c = a.circuit;
@@ -243,19 +228,11 @@ function keeperFix(result: AnalysisResult, d: Diagnostic, file: SyntaxFile): Qui
     const e = a.estimates?.get(id);
     const s = e?.suggestedKeeper;
     if (!s) continue;
-    const net = c.nets[id]!;
-    const local = net.origin.local;
-    const lc = localContext(c, file, net.origin.subckt);
+    const { local, safe, dim, insertLine, lc } = placement(result, c, file, id);
     const vdd = s.polarity === 'p' ? lc.vdd : lc.gnd;
     const bulk = s.polarity === 'p' ? (lc.vddBulk ?? lc.vdd) : (lc.gndBulk ?? lc.gnd);
     const model = s.polarity === 'p' ? lc.pModel : lc.nModel;
     if (!vdd || !bulk || !model || !lc.gnd || !lc.vdd || !lc.nModel || !lc.pModel) return undefined;
-    const scale = result.design.geometryScale.value;
-    // in the netlist's own units: SPICE suffixes in metres, or plain numbers under a scale
-    const dim = (m: number) => (scale === 1 ? spiceNumber(m) : String(Number((m / scale).toPrecision(3))));
-    const stmt = statementAt(file, net.origin.range.start.line);
-    const insertLine = (stmt ? stmt.range.end.line : net.origin.range.start.line) + 1;
-    const safe = local.replace(/[^a-z0-9_]/gi, '_');
     const lines: string[] = [`* tidemark keeper for ${local}: ${s.reasoning.join('; ')}`];
     let gate = s.inverter.existingOutput ? localOutput(c, file, id) : undefined;
     if (!gate) {
@@ -281,11 +258,9 @@ function keeperFix(result: AnalysisResult, d: Diagnostic, file: SyntaxFile): Qui
 function localOutput(c: Circuit, file: SyntaxFile, node: number): string | undefined {
   for (const m of c.mosfets) {
     if (m.g !== node || m.polarity !== 'p') continue;
-    const stmt = file.statements.find((s) => s.range.start.line === m.origin.range.start.line && s.range.start.character === m.origin.range.start.character);
-    if (!stmt) continue;
-    const el = interpretElement(stmt);
-    if (!el || el.kind !== 'mos') continue;
-    const [dw, , sw] = el.nodes as WordItem[];
+    const w = writtenMos(file, m);
+    if (!w) continue;
+    const [dw, , sw] = w.words;
     if (c.nets[m.s]!.kind === 'supply') return dw!.text;
     if (c.nets[m.d]!.kind === 'supply') return sw!.text;
   }

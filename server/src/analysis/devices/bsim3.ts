@@ -8,7 +8,7 @@
 // (BSIM3 has none), non-quasi-static effects. Binned L/W/P parameter variants are honoured.
 
 import { EPS_OX_F_PER_M, EPS_SI_F_PER_M, ELEMENTARY_CHARGE_C, intrinsicDensityPerCm3, siliconBandGapEv, thermalVoltage, ZERO_CELSIUS_K } from './physics';
-import { bsimChannelCurrent } from './bsimOutput';
+import { bsimChannelCurrent, outputParams } from './bsimOutput';
 import { param, given, type JunctionParams, type MosModel } from './mosModel';
 
 const EXP_THRESHOLD = 34;
@@ -261,18 +261,8 @@ export function createBsim3(card: Readonly<Record<string, number>>, polarity: 'n
       Weff,
       Leff,
       Rds,
-      vsat: s['vsattemp']!,
       cox: cox,
-      a1: s['a1']!,
-      a2: s['a2']!,
-      delta: s['delta']!,
-      pclm: s['pclm']!,
-      litl: s['litl']!,
-      thetaRout: s['thetaRout']!,
-      pdiblb: s['pdiblb']!,
-      pvag: s['pvag']!,
-      pscbe1: s['pscbe1']!,
-      pscbe2: s['pscbe2']!,
+      ...outputParams(s),
     });
   };
 

@@ -8,7 +8,7 @@
 // (SA/SB), well proximity, RDSMOD 1's external resistances, the high-k mobility model.
 
 import { EPS0_F_PER_M, EPS_SI_F_PER_M, ELEMENTARY_CHARGE_C, intrinsicDensityPerCm3, thermalVoltage, ZERO_CELSIUS_K } from './physics';
-import { bsimChannelCurrent } from './bsimOutput';
+import { bsimChannelCurrent, outputParams } from './bsimOutput';
 import { given, param, type JunctionParams, type MosModel } from './mosModel';
 
 const EXP_THRESHOLD = 34;
@@ -244,18 +244,8 @@ export function createBsim4(card: Readonly<Record<string, number>>, polarity: 'n
       Weff,
       Leff,
       Rds,
-      vsat: s['vsattemp']!,
       cox: coxe,
-      a1: s['a1']!,
-      a2: s['a2']!,
-      delta: s['delta']!,
-      pclm: s['pclm']!,
-      litl: s['litl']!,
-      thetaRout: s['thetaRout']!,
-      pdiblb: s['pdiblb']!,
-      pvag: s['pvag']!,
-      pscbe1: s['pscbe1']!,
-      pscbe2: s['pscbe2']!,
+      ...outputParams(s),
     });
   };
 

@@ -31,6 +31,23 @@ export interface BsimOutputInputs {
   pscbe2: number;
 }
 
+/** The output-conductance parameters, read from a size-dependent parameter set (both models). */
+export function outputParams(s: Record<string, number | undefined>): Pick<BsimOutputInputs, 'vsat' | 'a1' | 'a2' | 'delta' | 'pclm' | 'litl' | 'thetaRout' | 'pdiblb' | 'pvag' | 'pscbe1' | 'pscbe2'> {
+  return {
+    vsat: s['vsattemp']!,
+    a1: s['a1']!,
+    a2: s['a2']!,
+    delta: s['delta']!,
+    pclm: s['pclm']!,
+    litl: s['litl']!,
+    thetaRout: s['thetaRout']!,
+    pdiblb: s['pdiblb']!,
+    pvag: s['pvag']!,
+    pscbe1: s['pscbe1']!,
+    pscbe2: s['pscbe2']!,
+  };
+}
+
 export function bsimChannelCurrent(x: BsimOutputInputs): number {
   const { Vgsteff, Vds, Vbseff, vtm, Abulk, ueff, Weff, Leff, Rds, vsat, cox, a1, a2, delta } = x;
   const WVCoxRds = Weff * vsat * cox * Rds;
