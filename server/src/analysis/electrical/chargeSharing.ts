@@ -9,7 +9,7 @@
 // `textbookChargeSharing` gives the two closed forms for comparison.
 
 import { NetRole, SwitchKind } from '../switchNetwork';
-import { evaluateComponent, newScratch } from '../constants';
+import { evaluateComponent, newScratch, type Scratch } from '../constants';
 import type { ElectricalContext } from './context';
 import { islandCapacitance } from './capacitance';
 import { channelCurrent } from './leakage';
@@ -26,6 +26,18 @@ export interface ChargeSharingResult {
 }
 
 const MAX_GATES = 12;
+
+/**
+ * Working copies of a phase's values, one per phase value array (a node's enumeration changes
+ * only its free gates and their driving stages, and puts them back), so a node costs no
+ * allocation proportional to the circuit.
+ */
+const phaseBuffers = new WeakMap<Uint8Array, { work: Uint8Array; out: Uint8Array; scratch: Scratch }>();
+function buffersFor(phaseValues: Uint8Array): { work: Uint8Array; out: Uint8Array; scratch: Scratch } {
+  let b = phaseBuffers.get(phaseValues);
+  if (!b) phaseBuffers.set(phaseValues, (b = { work: phaseValues.slice(), out: new Uint8Array(phaseValues.length), scratch: newScratch(phaseValues.length) }));
+  return b;
+}
 
 /** The textbook's closed forms (Rabaey et al.), for a node CL at VDD joined to Ca at 0 V. */
 export function textbookChargeSharing(vdd: number, vtn: number, cl: number, ca: number): number {
@@ -49,9 +61,7 @@ export function chargeSharing(ctx: ElectricalContext, node: number, phaseIndex: 
   const precharged = (n: number) => otherPhaseValues.some((vals) => vals[n] === storedLevel);
   // one level of witness checking: a free gate driven by logic from the other free gates (an
   // inverted or buffered copy) must agree with what that logic gives
-  const work = phaseValues.slice();
-  const out = new Uint8Array(phaseValues.length);
-  const scratch = newScratch(phaseValues.length);
+  const { work, out, scratch } = buffersFor(phaseValues);
   const drivers = free.map((g) => (net.role[g] === NetRole.Internal ? net.components[net.componentOf[g]!]! : undefined));
   for (let a = 0; a < 1 << free.length; a++) {
     const gate = (g: number) => (pos.has(g) ? (a >> pos.get(g)!) & 1 : phaseValues[g]!);
@@ -105,6 +115,7 @@ export function chargeSharing(ctx: ElectricalContext, node: number, phaseIndex: 
       best = { droopV: 0, gates: new Map(free.map((g, i) => [g, ((a >> i) & 1) as 0 | 1])), when, joined, sharedF, exact: true };
     }
   }
+  for (const g of free) work[g] = phaseValues[g]!;
   if (best.sharedF === 0) return best;
   // The sharing itself is integrated in time over the phase: the node (CL) and the joined
   // nodes (their bias-dependent capacitance, lumped) exchange charge through the joining
