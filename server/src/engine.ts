@@ -11,11 +11,12 @@ import type { Circuit, Design } from './circuit/circuit';
 import { findClocks } from './phases/clocks';
 import { buildPhases, type PhasePlan } from './phases/phases';
 import { buildSwitchNetwork } from './analysis/switchNetwork';
-import { classify, type Classification } from './analysis/classify';
+import { classifySteps, type Classification } from './analysis/classify';
 import { classificationFindings } from './findings/classificationFindings';
 import { applyAccepts } from './findings/accepts';
 import { buildContext, type ElectricalContext } from './analysis/electrical/context';
-import { estimateNodes, type NodeEstimate } from './analysis/electrical/estimate';
+import { estimateNodeSteps, type NodeEstimate } from './analysis/electrical/estimate';
+import { runToEnd, type Steps } from './core/steps';
 import { DEFAULT_BUDGET_FRACTION, receiverBudget } from './analysis/electrical/budget';
 import { existingInverter } from './analysis/electrical/keeper';
 import { FALLBACK_PROFILE_NAME, FALLBACK_SUPPLY_V } from './analysis/devices/catalogue';
@@ -68,8 +69,19 @@ export function readDeck(host: FileHost, file: string, options: EngineOptions = 
 
 /** Analyses one top-level netlist (and what it includes), read through `host`. */
 export function analyse(host: FileHost, file: string, options: EngineOptions = {}): AnalysisResult {
+  return runToEnd(analyseSteps(host, file, options));
+}
+
+/**
+ * `analyse` in slices: it yields between stages and inside the long ones, so the language
+ * server can answer requests meanwhile and abandon the run when a newer edit arrives. The
+ * host is read only before the first yield, so the result belongs to one set of texts.
+ */
+export function* analyseSteps(host: FileHost, file: string, options: EngineOptions = {}): Steps<AnalysisResult> {
   const deck = readDeck(host, file, options);
+  yield;
   const { design, diagnostics } = elaborate(deck, options);
+  yield;
   const all = [...deck.diagnostics, ...diagnostics];
   const circuits: CircuitAnalysis[] = [];
   if (options.frontEndOnly !== true) {
@@ -77,14 +89,15 @@ export function analyse(host: FileHost, file: string, options: EngineOptions = {
       const clocks = findClocks(circuit, design.directives, options);
       const plan = buildPhases(circuit, clocks.clocks, design.directives, options);
       const network = buildSwitchNetwork(circuit, clocks.clocks);
-      const classification = classify(network, plan);
+      yield;
+      const classification = yield* classifySteps(network, plan);
       const analysis: CircuitAnalysis = { circuit, plan, classification };
       circuits.push(analysis);
       all.push(...clocks.diagnostics, ...plan.diagnostics, ...classificationFindings(circuit, classification, options));
       if (options.skipEstimates !== true) {
         const ctx = electricalContext(circuit, design, plan, classification, options);
         analysis.electrical = ctx;
-        analysis.estimates = estimateNodes(ctx);
+        analysis.estimates = yield* estimateNodeSteps(ctx);
         all.push(...electricalFindings(ctx, analysis.estimates));
         all.push(...modelNotes(circuit));
       }

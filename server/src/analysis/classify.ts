@@ -9,6 +9,7 @@ import type { PhasePlan, Phase } from '../phases/phases';
 import { floatWindow } from '../phases/phases';
 import { evaluateComponent, newScratch, propagateConstants, X, type Scratch } from './constants';
 import { NetRole, SwitchKind, type Component, type SwitchNetwork } from './switchNetwork';
+import { ITEMS_PER_SLICE, runToEnd, type Steps } from '../core/steps';
 
 export type NodeStateName = 'driven' | 'conditional' | 'floating' | 'kept' | 'contention' | 'undriven';
 
@@ -214,6 +215,11 @@ function trace(net: SwitchNetwork, comp: Component, free: number[], values: Uint
 
 /** Classifies every node of a circuit in every phase of the plan. */
 export function classify(net: SwitchNetwork, plan: PhasePlan): Classification {
+  return runToEnd(classifySteps(net, plan));
+}
+
+/** `classify` in slices (see core/steps). */
+export function* classifySteps(net: SwitchNetwork, plan: PhasePlan): Steps<Classification> {
   const c = net.circuit;
   const storage = new Uint8Array(c.nets.length);
   for (let i = 0; i < c.nets.length; i++) if (net.drivesGate[i]) storage[i] = 1;
@@ -240,9 +246,11 @@ export function classify(net: SwitchNetwork, plan: PhasePlan): Classification {
     // `work` is the phase's values, changed by a witness check and restored after it
     const work = values.slice();
     const out = new Uint8Array(values.length);
-    for (const comp of net.components) {
+    for (let k = 0; k < net.components.length; k++) {
+      const comp = net.components[k]!;
       for (let i = 0; i < comp.nodes.length; i++) local[comp.nodes[i]!] = i;
       classifyComponent(net, comp, values, local, scratch, states, wide, unchecked, work, out, storage, buffers);
+      if (k % ITEMS_PER_SLICE === ITEMS_PER_SLICE - 1) yield;
     }
     for (let i = 0; i < c.nets.length; i++) if (net.unreachable[i]) states.set(i, { state: 'undriven', exact: true });
     result.perPhase.push(states);

@@ -5,6 +5,7 @@
 import { floatsIn, nodeFloatWindow, type NodePhaseResult } from '../classify';
 import { evaluateComponent, newScratch, type Scratch } from '../constants';
 import { NetRole } from '../switchNetwork';
+import { ITEMS_PER_SLICE, runToEnd, type Steps } from '../../core/steps';
 import type { ElectricalContext } from './context';
 import { capacitanceSignature, islandCapacitance, type CapacitanceBreakdown } from './capacitance';
 import { buildLeakageNetwork, leakageAt, leakageSignature, type LeakageContributor } from './leakage';
@@ -58,6 +59,11 @@ export interface NodeEstimate {
 type LeakCache = Map<string, { corners: Array<{ leakageA: number; retentionS: number | null; held: boolean; contributors: Array<{ pos: number; mechanism: LeakageContributor['mechanism']; currentA: number }> }> }>;
 
 export function estimateNodes(ctx: ElectricalContext): Map<number, NodeEstimate> {
+  return runToEnd(estimateNodeSteps(ctx));
+}
+
+/** `estimateNodes` in slices (see core/steps). */
+export function* estimateNodeSteps(ctx: ElectricalContext): Steps<Map<number, NodeEstimate>> {
   const cache: LeakCache = new Map();
   const internalCache = new Map<string, { estimate: NodeEstimate; position: Map<number, number> }>();
   const storageCache = new Map<string, { estimate: NodeEstimate; position: Map<number, number> }>();
@@ -69,6 +75,7 @@ export function estimateNodes(ctx: ElectricalContext): Map<number, NodeEstimate>
   const c = ctx.circuit;
   const constantEverywhere = (n: number) => Number.isFinite(ctx.railVolts[n]!) || values.every((v) => v[n] !== 2 && v[n] === values[0]![n]);
   for (let n = 0; n < c.nets.length; n++) {
+    if (n % ITEMS_PER_SLICE === ITEMS_PER_SLICE - 1) yield;
     if (ctx.network.role[n] !== NetRole.Internal || ctx.network.unreachable[n]) continue;
     const states = cl.perPhase.map((m) => m.get(n));
     const floating = states.map((s, i) => ({ s, i })).filter(({ s }) => s && (floatsIn(s) || s.state === 'kept')) as Array<{ s: NodePhaseResult; i: number }>;
