@@ -60,7 +60,7 @@ async function main(): Promise<void> {
       next = published();
       conn.sendNotification('textDocument/didChange', { textDocument: { uri, version: version++ }, contentChanges: [{ text }] });
       await next;
-      console.log(`edit      ${ms.toFixed(0).padStart(6)} ms to new diagnostics (${count}); outline ${outlineMs.toFixed(0)} ms (${symbols.length} symbols) | ${what}, round ${round + 1}; includes the 150 ms keystroke debounce`);
+      console.log(`edit      ${ms.toFixed(0).padStart(6)} ms to new diagnostics (${count}); outline ${outlineMs.toFixed(0)} ms (${symbols.length} symbols) | ${what}, round ${round + 1}; includes the 40 ms keystroke debounce`);
     }
   }
   await conn.sendRequest('shutdown');

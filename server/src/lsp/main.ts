@@ -20,7 +20,9 @@ import {
 import { TextDocument } from 'vscode-languageserver-textdocument';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import * as path from 'node:path';
-import { analyse, readDeck, type AnalysisResult } from '../engine';
+import { analyseSteps, readDeck, type AnalysisResult } from '../engine';
+import { performance } from 'node:perf_hooks';
+import { carryOver } from '../service/carryOver';
 import type { Deck } from '../circuit/deck';
 import { diskHost } from '../cli/diskHost';
 import type { FileHost } from '../core/host';
@@ -63,9 +65,22 @@ function guard<T>(what: string, fn: () => T, fallback: T): T {
   try {
     return fn();
   } catch (e) {
-    connection.console.error(`tidemark: ${what} failed: ${e instanceof Error ? (e.stack ?? e.message) : String(e)}`);
+    logFailure(what, e);
     return fallback;
   }
+}
+
+async function guardAsync<T>(what: string, fn: () => Promise<T>, fallback: T): Promise<T> {
+  try {
+    return await fn();
+  } catch (e) {
+    logFailure(what, e);
+    return fallback;
+  }
+}
+
+function logFailure(what: string, e: unknown): void {
+  connection.console.error(`tidemark: ${what} failed: ${e instanceof Error ? (e.stack ?? e.message) : String(e)}`);
 }
 
 function engineOptions(lineCount: number): EngineOptions {
@@ -123,67 +138,155 @@ function toLsp(d: Diagnostic): LspDiagnostic {
 }
 
 interface Cached {
-  /** The texts the result was computed from (root and includes), to tell when it is stale. */
-  texts: Map<string, string>;
+  /** The texts the result was computed from (root and includes; undefined: file missing). */
+  texts: Map<string, string | undefined>;
   result: AnalysisResult;
 }
 
 const results = new Map<string, Cached>();
 const published = new Map<string, Set<string>>();
 const timers = new Map<string, NodeJS.Timeout>();
+/** Bumped by every change that concerns a root; a run for an older generation is abandoned. */
 const generation = new Map<string, number>();
+const runs = new Map<string, { gen: number; promise: Promise<Cached | undefined> }>();
+
+/** Wait after a keystroke before re-analysing: a burst of typing gives one analysis. */
+const EDIT_DEBOUNCE_MS = 40;
+/** Longest stretch the analysis holds the thread before letting protocol messages in. */
+const SLICE_MS = 8;
 
 function fresh(c: Cached): boolean {
   for (const [f, t] of c.texts) if (host.readFile(f) !== t) return false;
   return true;
 }
 
-/** The analysis of a root document, recomputed only when its text or an include changed. */
-function resultFor(uri: string): Cached | undefined {
-  if (!uri.startsWith('file:')) return undefined;
+const genOf = (uri: string) => generation.get(uri) ?? 0;
+
+/**
+ * The analysis of a root document's current texts: the cached one, the run already under way
+ * for them, or a new run. Runs go in slices (engine `analyseSteps`), so requests and edits are
+ * served between slices; a run whose document changed meanwhile stops and answers undefined.
+ */
+function analysisOf(uri: string): Promise<Cached | undefined> {
+  if (!uri.startsWith('file:')) return Promise.resolve(undefined);
   const hit = results.get(uri);
-  if (hit && fresh(hit)) return hit;
+  if (hit && fresh(hit)) return Promise.resolve(hit);
+  const gen = genOf(uri);
+  const running = runs.get(uri);
+  if (running && running.gen === gen) return running.promise;
+  const promise = runAnalysis(uri, gen).finally(() => {
+    if (runs.get(uri)?.promise === promise) runs.delete(uri);
+  });
+  runs.set(uri, { gen, promise });
+  return promise;
+}
+
+async function runAnalysis(uri: string, gen: number): Promise<Cached | undefined> {
   const file = fileURLToPath(uri);
-  const text = host.readFile(file) ?? '';
-  const lines = text.split('\n').length;
-  const result = analyse(host, file, engineOptions(lines));
-  if (lines > settings.maxAnalysisLines) {
-    result.diagnostics.push({ rule: 'unknown-card', severity: 'info', file, range: { start: { line: 0, character: 0 }, end: { line: 0, character: 0 } }, message: `this file has ${lines} lines, over tidemark.maxAnalysisLines (${settings.maxAnalysisLines}): only the front end runs` });
-  }
-  const texts = new Map<string, string>();
-  for (const f of result.design.files) texts.set(f, host.readFile(f) ?? '');
-  const c = { texts, result };
-  results.set(uri, c);
-  return c;
-}
-
-function publish(uri: string): void {
-  guard('analysis', () => {
-    const c = resultFor(uri);
-    if (!c) return;
-    const file = fileURLToPath(uri);
-    const byFile = new Map<string, LspDiagnostic[]>([[file, []]]);
-    for (const d of c.result.diagnostics) {
-      const list = byFile.get(d.file) ?? [];
-      list.push(toLsp(d));
-      byFile.set(d.file, list);
+  // every text the run reads, as it read it (all reads happen in its first slice)
+  const texts = new Map<string, string | undefined>();
+  const recording: FileHost = {
+    ...host,
+    readFile(p) {
+      const t = host.readFile(p);
+      if (!texts.has(p)) texts.set(p, t);
+      return t;
+    },
+  };
+  const lines = countLines(host.readFile(file) ?? '');
+  const steps = analyseSteps(recording, file, engineOptions(lines));
+  let sliceStart = performance.now();
+  for (;;) {
+    const r = steps.next();
+    if (r.done) {
+      const result = r.value;
+      if (lines > settings.maxAnalysisLines) {
+        result.diagnostics.push({ rule: 'unknown-card', severity: 'info', file, range: { start: { line: 0, character: 0 }, end: { line: 0, character: 0 } }, message: `this file has ${lines} lines, over tidemark.maxAnalysisLines (${settings.maxAnalysisLines}): only the front end runs` });
+      }
+      const c = { texts, result };
+      if (genOf(uri) === gen) results.set(uri, c);
+      return c;
     }
-    const before = published.get(uri) ?? new Set();
-    for (const f of before) if (!byFile.has(f)) connection.sendDiagnostics({ uri: pathToFileURL(f).toString(), diagnostics: [] });
-    for (const [f, list] of byFile) connection.sendDiagnostics({ uri: pathToFileURL(f).toString(), diagnostics: list });
-    published.set(uri, new Set(byFile.keys()));
-  }, undefined);
+    if (performance.now() - sliceStart < SLICE_MS) continue;
+    await new Promise<void>((resolve) => setImmediate(resolve));
+    sliceStart = performance.now();
+    if (genOf(uri) !== gen) {
+      steps.return(undefined as never);
+      return undefined;
+    }
+  }
 }
 
-function schedule(uri: string, delayMs = 150): void {
+function countLines(text: string): number {
+  let n = 1;
+  for (let i = text.indexOf('\n'); i >= 0; i = text.indexOf('\n', i + 1)) n++;
+  return n;
+}
+
+/**
+ * For requests that need the analysis (hover, quick fixes, lenses): the analysis of the
+ * current text, waiting for the run under way if there is one. Gives up (undefined) only when
+ * the document keeps changing under it.
+ */
+async function currentAnalysis(uri: string): Promise<Cached | undefined> {
+  for (let attempt = 0; attempt < 50; attempt++) {
+    const c = await analysisOf(uri);
+    if (c && fresh(c)) return c;
+    if (!uri.startsWith('file:')) return undefined;
+  }
+  return undefined;
+}
+
+function send(uri: string, diagnostics: Diagnostic[]): void {
+  const file = fileURLToPath(uri);
+  const byFile = new Map<string, LspDiagnostic[]>([[file, []]]);
+  for (const d of diagnostics) {
+    const list = byFile.get(d.file) ?? [];
+    list.push(toLsp(d));
+    byFile.set(d.file, list);
+  }
+  const before = published.get(uri) ?? new Set();
+  for (const f of before) if (!byFile.has(f)) connection.sendDiagnostics({ uri: pathToFileURL(f).toString(), diagnostics: [] });
+  for (const [f, list] of byFile) connection.sendDiagnostics({ uri: pathToFileURL(f).toString(), diagnostics: list });
+  published.set(uri, new Set(byFile.keys()));
+}
+
+/** What was last sent per root, to skip sending the same diagnostics twice. */
+const sentFrom = new Map<string, Diagnostic[]>();
+
+async function publish(uri: string): Promise<void> {
+  const gen = genOf(uri);
+  const c = await guardAsync('analysis', () => analysisOf(uri), undefined);
+  // a newer edit publishes its own
+  if (!c || genOf(uri) !== gen) return;
+  if (sentFrom.get(uri) === c.result.diagnostics) return;
+  guard('publish', () => send(uri, c.result.diagnostics), undefined);
+  sentFrom.set(uri, c.result.diagnostics);
+}
+
+/**
+ * An edit: if it changed no meaning (comments, blank lines), the previous findings are moved
+ * to their new lines and published at once; the re-analysis follows after the debounce either
+ * way (cancelled by the next edit), for hovers and quick fixes on the new text.
+ */
+function schedule(uri: string, delayMs = EDIT_DEBOUNCE_MS): void {
   clearTimeout(timers.get(uri));
-  const gen = (generation.get(uri) ?? 0) + 1;
+  const gen = genOf(uri) + 1;
   generation.set(uri, gen);
-  // a newer edit replaces the pending analysis; a burst of keystrokes gives one analysis
+  guard('carry-over', () => {
+    const last = results.get(uri);
+    if (!last || delayMs === 0) return;
+    const deck = deckFor(uri);
+    const moved = deck && carryOver(last.result, deck);
+    if (moved) {
+      send(uri, moved);
+      sentFrom.set(uri, moved);
+    }
+  }, undefined);
   timers.set(
     uri,
     setTimeout(() => {
-      if (generation.get(uri) === gen) publish(uri);
+      if (genOf(uri) === gen) void publish(uri);
     }, delayMs),
   );
 }
@@ -232,13 +335,16 @@ connection.onDidChangeConfiguration(async () => {
   for (const d of documents.all()) schedule(d.uri, 0);
 });
 
-documents.onDidOpen((e) => publish(e.document.uri));
+documents.onDidOpen((e) => void publish(e.document.uri));
 documents.onDidChangeContent((e) => {
   schedule(e.document.uri);
   if (e.document.uri.startsWith('file:')) for (const dep of dependents(fileURLToPath(e.document.uri))) schedule(dep);
 });
 documents.onDidClose((e) => {
   clearTimeout(timers.get(e.document.uri));
+  // an analysis under way for it is dropped at its next slice
+  generation.set(e.document.uri, genOf(e.document.uri) + 1);
+  sentFrom.delete(e.document.uri);
   for (const f of published.get(e.document.uri) ?? []) connection.sendDiagnostics({ uri: pathToFileURL(f).toString(), diagnostics: [] });
   published.delete(e.document.uri);
   results.delete(e.document.uri);
@@ -277,8 +383,8 @@ function fileOf(deck: Deck | undefined, file: string) {
 }
 
 connection.onHover((p) =>
-  guard('hover', () => {
-    const c = resultFor(p.textDocument.uri);
+  guardAsync('hover', async () => {
+    const c = await currentAnalysis(p.textDocument.uri);
     if (!c) return null;
     const file = fileURLToPath(p.textDocument.uri);
     const f = syntaxOf(c, file);
@@ -297,8 +403,8 @@ connection.onHover((p) =>
 );
 
 connection.onCodeAction((p) =>
-  guard('code actions', () => {
-    const c = resultFor(p.textDocument.uri);
+  guardAsync('code actions', async () => {
+    const c = await currentAnalysis(p.textDocument.uri);
     if (!c) return [];
     const file = fileURLToPath(p.textDocument.uri);
     const actions: CodeAction[] = [];
@@ -395,8 +501,8 @@ connection.onCompletion((p) =>
 );
 
 connection.onCodeLens((p) =>
-  guard('code lens', () => {
-    const c = resultFor(p.textDocument.uri);
+  guardAsync('code lens', async () => {
+    const c = await currentAnalysis(p.textDocument.uri);
     if (!c) return [];
     const file = fileURLToPath(p.textDocument.uri);
     const f = syntaxOf(c, file);
@@ -420,7 +526,7 @@ connection.onExecuteCommand((p) =>
   guard('command', () => {
     if (p.command === 'tidemark.reanalyse') {
       results.clear();
-      for (const d of documents.all()) publish(d.uri);
+      for (const d of documents.all()) schedule(d.uri, 0);
     }
     return null;
   }, null),
@@ -428,8 +534,8 @@ connection.onExecuteCommand((p) =>
 
 /** The phase table of a document, for the client's "show phases" command. */
 connection.onRequest('tidemark/phases', (p: { uri: string }) =>
-  guard('phases', () => {
-    const c = resultFor(p.uri);
+  guardAsync('phases', async () => {
+    const c = await currentAnalysis(p.uri);
     if (!c) return [];
     return c.result.circuits.flatMap((a) => a.plan.phases.map((ph) => ({ circuit: a.circuit.name, name: ph.name, start_s: ph.startS, duration_s: ph.durationS, standby: ph.standby })));
   }, []),
@@ -437,8 +543,8 @@ connection.onRequest('tidemark/phases', (p: { uri: string }) =>
 
 /** Counts for the client's status bar. */
 connection.onRequest('tidemark/summary', (p: { uri: string }) =>
-  guard('summary', () => {
-    const c = resultFor(p.uri);
+  guardAsync('summary', async () => {
+    const c = await currentAnalysis(p.uri);
     if (!c) return null;
     const d = c.result.diagnostics.filter((x) => !x.accepted);
     let floating = 0;

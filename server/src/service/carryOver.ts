@@ -1,0 +1,152 @@
+// Findings carried over an edit that changes no meaning: comments, blank lines, white space at
+// line ends, lines moved up or down by such edits. When every file of the new deck says exactly
+// what the old one said (the same statements, directives and pin lines, word for word and laid
+// out the same within each one), the analysis is the same up to where things are written, so
+// the previous findings are moved to their new lines instead of waiting for a re-analysis.
+// Anything else (a changed word, a line that cannot be placed) answers `undefined`.
+
+import type { Diagnostic, RelatedInfo } from '../core/diagnostics';
+import { rangeOf, type Range } from '../core/source';
+import type { Deck } from '../circuit/deck';
+import type { Item, SyntaxFile } from '../syntax/tree';
+
+/** Old first line -> line shift, for every meaningful line of one file. */
+interface LineMap {
+  /** Sorted by old start line: [oldStart, oldEnd, shift]. */
+  spans: Array<[number, number, number]>;
+}
+
+export function carryOver(previous: { deck: Deck; diagnostics: Diagnostic[] }, deck: Deck): Diagnostic[] | undefined {
+  const maps = new Map<string, LineMap>();
+  const before = previous.deck.files;
+  const after = deck.files;
+  if (before.length !== after.length) return undefined;
+  for (let i = 0; i < before.length; i++) {
+    const m = fileMap(before[i]!, after[i]!);
+    if (!m) return undefined;
+    maps.set(before[i]!.file, m);
+  }
+  // messages that quote a line number would go stale
+  if (previous.diagnostics.some((d) => d.rule === 'duplicate-definition')) return undefined;
+  const moveRange = (file: string, r: Range): Range | undefined => {
+    const m = maps.get(file);
+    if (!m) return undefined;
+    const shift = shiftAt(m, r.start.line);
+    if (shift === undefined) return undefined;
+    return shift === 0 ? r : rangeOf(r.start.line + shift, r.start.character, r.end.line + shift, r.end.character);
+  };
+  const out: Diagnostic[] = [];
+  for (const d of previous.diagnostics) {
+    const range = moveRange(d.file, d.range);
+    if (!range) return undefined;
+    const moved: Diagnostic = { ...d, range };
+    if (d.related) {
+      const related: RelatedInfo[] = [];
+      for (const r of d.related) {
+        const rr = moveRange(r.file, r.range);
+        if (!rr) return undefined;
+        related.push({ ...r, range: rr });
+      }
+      moved.related = related;
+    }
+    if (d.accepted) {
+      const ar = moveRange(d.accepted.file, d.accepted.range);
+      if (!ar) return undefined;
+      moved.accepted = { ...d.accepted, range: ar };
+    }
+    out.push(moved);
+  }
+  return out;
+}
+
+function shiftAt(m: LineMap, line: number): number | undefined {
+  // the title and file-wide notes sit on line 0, which never moves
+  if (line === 0) return 0;
+  let lo = 0;
+  let hi = m.spans.length - 1;
+  while (lo <= hi) {
+    const mid = (lo + hi) >> 1;
+    const [s, e, shift] = m.spans[mid]!;
+    if (line < s) hi = mid - 1;
+    else if (line > e) lo = mid + 1;
+    else return shift;
+  }
+  return undefined;
+}
+
+/** The line shifts from `a` to `b`, or undefined when they differ in anything but layout between lines. */
+function fileMap(a: SyntaxFile, b: SyntaxFile): LineMap | undefined {
+  if (a.file !== b.file || a.title !== b.title) return undefined;
+  if (a.statements.length !== b.statements.length || a.directives.length !== b.directives.length || a.pinInfos.length !== b.pinInfos.length || a.diagnostics.length !== b.diagnostics.length) return undefined;
+  const spans: Array<[number, number, number]> = [];
+  for (let i = 0; i < a.statements.length; i++) {
+    const x = a.statements[i]!;
+    const y = b.statements[i]!;
+    const shift = y.range.start.line - x.range.start.line;
+    if (x.range.start.character !== y.range.start.character || !sameItem(x.head, y.head, shift)) return undefined;
+    if (x.items.length !== y.items.length) return undefined;
+    for (let k = 0; k < x.items.length; k++) if (!sameItem(x.items[k]!, y.items[k]!, shift)) return undefined;
+    if (!sameRange(x.range, y.range, shift)) return undefined;
+    spans.push([x.range.start.line, x.range.end.line, shift]);
+  }
+  for (let i = 0; i < a.directives.length; i++) {
+    const x = a.directives[i]!;
+    const y = b.directives[i]!;
+    const shift = y.range.start.line - x.range.start.line;
+    if (x.verb !== y.verb || x.statementIndex !== y.statementIndex || x.args.length !== y.args.length || !sameRange(x.range, y.range, shift)) return undefined;
+    for (let k = 0; k < x.args.length; k++) if (x.args[k]!.text !== y.args[k]!.text || !sameRange(x.args[k]!.range, y.args[k]!.range, shift)) return undefined;
+    spans.push([x.range.start.line, x.range.end.line, shift]);
+  }
+  for (let i = 0; i < a.pinInfos.length; i++) {
+    const x = a.pinInfos[i]!;
+    const y = b.pinInfos[i]!;
+    const shift = y.range.start.line - x.range.start.line;
+    if (x.statementIndex !== y.statementIndex || x.pins.length !== y.pins.length || !sameRange(x.range, y.range, shift)) return undefined;
+    for (let k = 0; k < x.pins.length; k++) if (x.pins[k]!.name !== y.pins[k]!.name || x.pins[k]!.direction !== y.pins[k]!.direction || !sameRange(x.pins[k]!.range, y.pins[k]!.range, shift)) return undefined;
+    spans.push([x.range.start.line, x.range.end.line, shift]);
+  }
+  // the parser's own findings (broken lines) must be the same ones, moved like their lines
+  spans.sort((p, q) => p[0] - q[0]);
+  const m: LineMap = { spans };
+  for (let i = 0; i < a.diagnostics.length; i++) {
+    const x = a.diagnostics[i]!;
+    const y = b.diagnostics[i]!;
+    if (x.rule !== y.rule || x.message !== y.message) return undefined;
+    const shift = y.range.start.line - x.range.start.line;
+    if (!sameRange(x.range, y.range, shift)) return undefined;
+    if (shiftAt(m, x.range.start.line) === undefined) insertSpan(spans, x.range.start.line, x.range.end.line, shift);
+    else if (shiftAt(m, x.range.start.line) !== shift) return undefined;
+  }
+  return m;
+}
+
+function insertSpan(spans: Array<[number, number, number]>, s: number, e: number, shift: number): void {
+  let i = 0;
+  while (i < spans.length && spans[i]![0] < s) i++;
+  spans.splice(i, 0, [s, e, shift]);
+}
+
+function sameRange(x: Range, y: Range, shift: number): boolean {
+  return x.start.line + shift === y.start.line && x.end.line + shift === y.end.line && x.start.character === y.start.character && x.end.character === y.end.character;
+}
+
+function sameItem(x: Item, y: Item, shift: number): boolean {
+  if (x.kind !== y.kind || !sameRange(x.range, y.range, shift)) return false;
+  switch (x.kind) {
+    case 'word':
+    case 'string':
+      return x.text === (y as typeof x).text;
+    case 'expr':
+      return x.text === (y as typeof x).text && x.delimiter === (y as typeof x).delimiter;
+    case 'group': {
+      const g = y as typeof x;
+      return x.items.length === g.items.length && x.items.every((it, k) => sameItem(it, g.items[k]!, shift));
+    }
+    case 'assign': {
+      const v = y as typeof x;
+      if (!sameItem(x.name, v.name, shift)) return false;
+      if (x.value === undefined || v.value === undefined) return x.value === v.value;
+      return sameItem(x.value, v.value, shift);
+    }
+  }
+}

@@ -1,0 +1,93 @@
+// The server under edits on a netlist large enough that an analysis takes many slices: edits that
+// change no meaning are answered by carrying the findings over (exactly what a re-analysis
+// gives), requests are served while an analysis runs, a burst of edits ends with the findings
+// of the last text, and hovers answer from the analysis of the current text.
+
+import * as fs from 'node:fs';
+import * as os from 'node:os';
+import * as path from 'node:path';
+import { pathToFileURL } from 'node:url';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { TestLspClient, type PublishedDiagnostics } from './support/lspClient';
+import { hierarchicalNetlist } from '../scripts/netlists';
+import { analyse } from '../server/src/engine';
+import { memoryHost } from '../server/src/core/host';
+
+/** What the engine itself finds for a text, in the shape the server publishes (line, rule, message). */
+function engineFindings(file: string, text: string): string[] {
+  return analyse(memoryHost({ [file]: text }), file)
+    .diagnostics.filter((d) => d.file === file)
+    .map((d) => `${d.range.start.line}:${d.range.start.character} ${d.rule} ${d.accepted ? `accepted: "${d.accepted.reason}". ` : ''}${d.message}`);
+}
+const published = (p: PublishedDiagnostics) => p.diagnostics.map((d) => `${d.range.start.line}:${d.range.start.character} ${d.code} ${d.message}`);
+
+describe('incremental and responsive analysis over the real protocol', () => {
+  let client: TestLspClient;
+  let dir: string;
+  let file: string;
+  let uri: string;
+  const text = hierarchicalNetlist(30_000);
+  let first: PublishedDiagnostics;
+  beforeAll(async () => {
+    dir = fs.mkdtempSync(path.join(os.tmpdir(), 'tidemark-inc-'));
+    file = path.join(dir, 'datapath.sp');
+    fs.writeFileSync(file, text);
+    uri = pathToFileURL(file).toString();
+    client = new TestLspClient();
+    await client.initialize(pathToFileURL(dir).toString());
+    const next = client.diagnosticsFor(uri);
+    await client.open(uri, text);
+    first = await next;
+  }, 120_000);
+  afterAll(async () => {
+    await client.shutdown();
+    fs.rmSync(dir, { recursive: true, force: true });
+  });
+
+  it('carries findings over a comment line, moved to their new lines, equal to a re-analysis', async () => {
+    expect(first.diagnostics.length).toBeGreaterThan(0);
+    const lines = text.split('\n');
+    const at = lines.findIndex((l) => l.startsWith('.subckt b_domino'));
+    lines.splice(at, 0, '* Tern datapath: domino cells reviewed');
+    const edited = lines.join('\n');
+    const next = client.diagnosticsFor(uri);
+    await client.change(uri, edited, 2);
+    const moved = await next;
+    const expected = first.diagnostics.map((d) => `${d.range.start.line >= at ? d.range.start.line + 1 : d.range.start.line}:${d.range.start.character} ${d.code} ${d.message}`);
+    expect(published(moved)).toEqual(expected);
+    expect(published(moved)).toEqual(engineFindings(file, edited));
+    // the hover answers from the analysis of this text (the node's line moved by one)
+    const dynLine = lines.findIndex((l) => l.startsWith('Mpre dyn'));
+    const hover = (await client.conn.sendRequest('textDocument/hover', { textDocument: { uri }, position: { line: dynLine, character: 6 } })) as { contents: { value: string } } | null;
+    expect(hover?.contents.value).toMatch(/dyn/);
+    expect(hover?.contents.value).toMatch(/Capacitance/);
+  }, 120_000);
+
+  it('answers a request while an analysis runs, and a burst of edits ends with the last text findings', async () => {
+    const lines = text.split('\n');
+    const target = lines.findIndex((l) => l.startsWith('Mkp dyn out'));
+    let last = '';
+    let version = 10;
+    // five edits in a row, each changing the keeper's length; only the last one matters
+    for (const l of ['0.2u', '0.3u', '0.25u', '0.12u', '0.4u']) {
+      lines[target] = `Mkp dyn out vdd vdd bp w=0.15u l=${l}`;
+      last = lines.join('\n');
+      await client.change(uri, last, version++);
+    }
+    const settled = client.diagnosticsFor(uri, (p) => published(p).join('\n') === engineFindings(file, last).join('\n'));
+    // past the debounce the analysis is under way: the outline is answered before it ends
+    await new Promise((r) => setTimeout(r, 80));
+    let answeredFirst = false;
+    let done = false;
+    const symbols = client.conn.sendRequest('textDocument/documentSymbol', { textDocument: { uri } }).then((s) => {
+      answeredFirst = !done;
+      return s;
+    });
+    const final = await settled;
+    done = true;
+    expect(Array.isArray(await symbols)).toBe(true);
+    expect(answeredFirst, 'the outline did not wait for the analysis').toBe(true);
+    expect(published(final)).toEqual(engineFindings(file, last));
+    expect(client.proc.exitCode).toBeNull();
+  }, 120_000);
+});
