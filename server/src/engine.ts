@@ -15,10 +15,13 @@ import { classifySteps, type Classification } from './analysis/classify';
 import { classificationFindings } from './findings/classificationFindings';
 import { applyAccepts } from './findings/accepts';
 import { buildContext, type ElectricalContext } from './analysis/electrical/context';
-import { estimateNodeSteps, type NodeEstimate } from './analysis/electrical/estimate';
+import { estimateNodeSteps, nodesReading, updateEstimates, type NodeEstimate } from './analysis/electrical/estimate';
+import { patchSizes } from './circuit/patch';
+import { sameRange } from './syntax/compare';
+import type { Range } from './core/source';
 import { runToEnd, type Steps } from './core/steps';
 import { DEFAULT_BUDGET_FRACTION, receiverBudget } from './analysis/electrical/budget';
-import { existingInverter } from './analysis/electrical/keeper';
+import { existingInverter, sameSizingBasis } from './analysis/electrical/keeper';
 import { FALLBACK_PROFILE_NAME, FALLBACK_SUPPLY_V } from './analysis/devices/catalogue';
 import { electricalFindings } from './findings/electricalFindings';
 import { celsiusToKelvin } from './analysis/devices/physics';
@@ -33,6 +36,8 @@ export interface CircuitAnalysis {
   /** Absent when estimates were skipped. */
   electrical?: ElectricalContext;
   estimates?: Map<number, NodeEstimate>;
+  /** This circuit's findings by stage, kept so an edit can redo only the stages it reaches. */
+  findings: { classification: Diagnostic[]; electrical: Diagnostic[] };
 }
 
 export const DEFAULT_TEMPS_C = [25, 110];
@@ -44,6 +49,8 @@ export interface AnalysisResult {
   circuits: CircuitAnalysis[];
   /** Every finding of every stage, in file order. */
   diagnostics: Diagnostic[];
+  /** The front end's findings (parse, includes, elaboration), kept for edits that reuse them. */
+  frontEnd: Diagnostic[];
 }
 
 const parseCache = new Map<string, { text: string; result: SyntaxFile }>();
@@ -82,7 +89,7 @@ export function* analyseSteps(host: FileHost, file: string, options: EngineOptio
   yield;
   const { design, diagnostics } = elaborate(deck, options);
   yield;
-  const all = [...deck.diagnostics, ...diagnostics];
+  const frontEnd = [...deck.diagnostics, ...diagnostics];
   const circuits: CircuitAnalysis[] = [];
   if (options.frontEndOnly !== true) {
     for (const circuit of design.circuits) {
@@ -91,23 +98,73 @@ export function* analyseSteps(host: FileHost, file: string, options: EngineOptio
       const network = buildSwitchNetwork(circuit, clocks.clocks);
       yield;
       const classification = yield* classifySteps(network, plan);
-      const analysis: CircuitAnalysis = { circuit, plan, classification };
+      const analysis: CircuitAnalysis = { circuit, plan, classification, findings: { classification: [...clocks.diagnostics, ...plan.diagnostics, ...classificationFindings(circuit, classification, options)], electrical: [] } };
       circuits.push(analysis);
-      all.push(...clocks.diagnostics, ...plan.diagnostics, ...classificationFindings(circuit, classification, options));
       if (options.skipEstimates !== true) {
         const ctx = electricalContext(circuit, design, plan, classification, options);
         analysis.electrical = ctx;
         analysis.estimates = yield* estimateNodeSteps(ctx);
-        all.push(...electricalFindings(ctx, analysis.estimates));
-        all.push(...modelNotes(circuit));
+        analysis.findings.electrical = [...electricalFindings(ctx, analysis.estimates), ...modelNotes(circuit)];
       }
     }
   }
+  return finish(deck, design, circuits, frontEnd, options);
+}
+
+/**
+ * The analysis after an edit, from the previous one, when the edit only changed device sizes
+ * written as plain numbers (see circuit/patch.ts): nets, connections, phases and the
+ * classification stay; the estimates of the nodes that read a changed device are redone and
+ * every other node keeps its figures. Equal to `analyse` on the new text (the tests hold it);
+ * undefined when the edit is of another kind, and the caller analyses afresh.
+ */
+export function reanalyse(previous: AnalysisResult, host: FileHost, file: string, options: EngineOptions = {}): AnalysisResult | undefined {
+  if (options.frontEndOnly === true || options.skipEstimates === true) return undefined;
+  if (previous.circuits.length !== previous.design.circuits.length || previous.circuits.some((a) => !a.electrical || !a.estimates)) return undefined;
+  // a receiver budget reads the first storage node's inverter sizes
+  if (previous.design.directives.budget?.receiver || options.budget?.receiver) return undefined;
+  const deck = readDeck(host, file, options);
+  const patch = patchSizes(previous.deck, previous.design, deck);
+  if (!patch) return undefined;
+  // a front-end finding on an edited line may change with it (a parameter, a bin, the scale)
+  const edited = (d: Diagnostic) => patch.moved.some((m) => m.file === d.file && d.range.start.line >= m.from.start.line && d.range.start.line <= m.from.end.line);
+  if (previous.frontEnd.some(edited)) return undefined;
+  const move = (list: Diagnostic[]) => moveEditedRanges(list, patch.moved);
+  const circuits = previous.circuits.map((a, i): CircuitAnalysis => {
+    const changed = patch.changed[i]!;
+    if (changed.length === 0) return a;
+    const circuit = patch.design.circuits[i]!;
+    const network = { ...a.classification.network, circuit };
+    const classification = { ...a.classification, network };
+    const ctx: ElectricalContext = { ...a.electrical!, circuit, network, classification };
+    const affected = nodesReading(ctx, changed);
+    // keeper sizing reads the circuit's smallest devices: when those moved, every sized keeper is redone
+    if (!sameSizingBasis(a.circuit, circuit)) for (const [n, e] of a.estimates!) if (e.suggestedKeeper || e.suggestedHolder) affected.add(n);
+    const estimates = updateEstimates(ctx, a.estimates!, [...affected].sort((x, y) => x - y));
+    return { circuit, plan: a.plan, classification, electrical: ctx, estimates, findings: { classification: move(a.findings.classification), electrical: [...electricalFindings(ctx, estimates), ...modelNotes(circuit)] } };
+  });
+  return finish(deck, patch.design, circuits, previous.frontEnd, options);
+}
+
+/** Findings kept across a size edit that point at an edited line take its new extent. */
+function moveEditedRanges(list: Diagnostic[], moved: Array<{ file: string; from: Range; to: Range }>): Diagnostic[] {
+  const to = (file: string, r: Range): Range => moved.find((m) => m.file === file && sameRange(m.from, r, 0))?.to ?? r;
+  return list.map((d) => {
+    const range = to(d.file, d.range);
+    const related = d.related?.map((x) => ({ ...x, range: to(x.file, x.range) }));
+    return range === d.range && !related?.some((x, k) => x.range !== d.related![k]!.range) ? d : { ...d, range, ...(related ? { related } : {}) };
+  });
+}
+
+/** All findings in file order, once each, with the accept directives applied. */
+function finish(deck: Deck, design: Design, circuits: CircuitAnalysis[], frontEnd: Diagnostic[], options: EngineOptions): AnalysisResult {
+  const all = [...frontEnd];
+  for (const a of circuits) all.push(...a.findings.classification, ...a.findings.electrical);
   const byPlace = (a: Diagnostic, b: Diagnostic) => (a.file < b.file ? -1 : a.file > b.file ? 1 : a.range.start.line - b.range.start.line || a.range.start.character - b.range.start.character);
   all.sort(byPlace);
   // stale accepts are reported where they are written, in order with the rest
   const findings = options.frontEndOnly === true ? dedupe(all) : applyAccepts(dedupe(all), design.circuits, design.directives.accepts).sort(byPlace);
-  return { deck, design, circuits, diagnostics: findings };
+  return { deck, design, circuits, diagnostics: findings, frontEnd };
 }
 
 /** Supply, corners and budget: directives win over settings, settings over defaults. */

@@ -150,4 +150,6 @@ export interface Design {
   geometryScale: { value: number; from: 'option' | 'directive' | 'setting' | 'assumed' | 'default' };
   tempC: number | undefined;
   files: string[];
+  /** The model cards by name (every bin), for choosing a bin again after a size edit. */
+  modelCards: ReadonlyMap<string, ModelCard[]>;
 }

@@ -162,6 +162,7 @@ class Elaborator {
       geometryScale: { value: this.scale, from: this.scaleFrom },
       tempC: this.tempC,
       files: deck.files.map((f) => f.file),
+      modelCards: this.models,
     };
     return { design, diagnostics: this.diagnostics };
   }

@@ -20,7 +20,7 @@ import {
 import { TextDocument } from 'vscode-languageserver-textdocument';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import * as path from 'node:path';
-import { analyseSteps, readDeck, type AnalysisResult } from '../engine';
+import { analyseSteps, readDeck, reanalyse, type AnalysisResult } from '../engine';
 import { performance } from 'node:perf_hooks';
 import { carryOver } from '../service/carryOver';
 import type { Deck } from '../circuit/deck';
@@ -265,30 +265,55 @@ async function publish(uri: string): Promise<void> {
 }
 
 /**
- * An edit: if it changed no meaning (comments, blank lines), the previous findings are moved
- * to their new lines and published at once; the re-analysis follows after the debounce either
- * way (cancelled by the next edit), for hovers and quick fixes on the new text.
+ * An edit. Two kinds are answered at once, from the last analysis: one that changed no meaning
+ * (comments, blank lines) moves the findings to their new lines, and one that changed only
+ * device sizes re-estimates just the nodes those devices reach (engine `reanalyse`, exact).
+ * Otherwise, or to refresh hovers after a moved-lines edit, a full analysis runs after the
+ * debounce, in slices, and the next edit cancels it.
  */
 function schedule(uri: string, delayMs = EDIT_DEBOUNCE_MS): void {
   clearTimeout(timers.get(uri));
   const gen = genOf(uri) + 1;
   generation.set(uri, gen);
-  guard('carry-over', () => {
-    const last = results.get(uri);
-    if (!last || delayMs === 0) return;
-    const deck = deckFor(uri);
-    const moved = deck && carryOver(last.result, deck);
-    if (moved) {
-      send(uri, moved);
-      sentFrom.set(uri, moved);
-    }
-  }, undefined);
+  // after the messages already received (an outline request right behind the edit goes first)
+  if (delayMs > 0)
+    setImmediate(() => {
+      if (genOf(uri) === gen) guard('quick re-analysis', () => quickAnswer(uri), undefined);
+    });
   timers.set(
     uri,
     setTimeout(() => {
       if (genOf(uri) === gen) void publish(uri);
     }, delayMs),
   );
+}
+
+function quickAnswer(uri: string): void {
+  const last = results.get(uri);
+  if (!last || fresh(last)) return;
+  const deck = deckFor(uri);
+  if (!deck) return;
+  const moved = carryOver(last.result, deck);
+  if (moved) {
+    send(uri, moved);
+    sentFrom.set(uri, moved);
+    return;
+  }
+  const file = fileURLToPath(uri);
+  const texts = new Map<string, string | undefined>();
+  const recording: FileHost = {
+    ...host,
+    readFile(p) {
+      const t = host.readFile(p);
+      if (!texts.has(p)) texts.set(p, t);
+      return t;
+    },
+  };
+  const result = reanalyse(last.result, recording, file, engineOptions(countLines(host.readFile(file) ?? '')));
+  if (!result) return;
+  results.set(uri, { texts, result });
+  send(uri, result.diagnostics);
+  sentFrom.set(uri, result.diagnostics);
 }
 
 /** Roots whose analysis read `file`: they are re-analysed when it changes. */

@@ -8,7 +8,8 @@
 import type { Diagnostic, RelatedInfo } from '../core/diagnostics';
 import { rangeOf, type Range } from '../core/source';
 import type { Deck } from '../circuit/deck';
-import type { Item, SyntaxFile } from '../syntax/tree';
+import type { SyntaxFile } from '../syntax/tree';
+import { sameItem, sameRange } from '../syntax/compare';
 
 /** Old first line -> line shift, for every meaningful line of one file. */
 interface LineMap {
@@ -124,29 +125,4 @@ function insertSpan(spans: Array<[number, number, number]>, s: number, e: number
   let i = 0;
   while (i < spans.length && spans[i]![0] < s) i++;
   spans.splice(i, 0, [s, e, shift]);
-}
-
-function sameRange(x: Range, y: Range, shift: number): boolean {
-  return x.start.line + shift === y.start.line && x.end.line + shift === y.end.line && x.start.character === y.start.character && x.end.character === y.end.character;
-}
-
-function sameItem(x: Item, y: Item, shift: number): boolean {
-  if (x.kind !== y.kind || !sameRange(x.range, y.range, shift)) return false;
-  switch (x.kind) {
-    case 'word':
-    case 'string':
-      return x.text === (y as typeof x).text;
-    case 'expr':
-      return x.text === (y as typeof x).text && x.delimiter === (y as typeof x).delimiter;
-    case 'group': {
-      const g = y as typeof x;
-      return x.items.length === g.items.length && x.items.every((it, k) => sameItem(it, g.items[k]!, shift));
-    }
-    case 'assign': {
-      const v = y as typeof x;
-      if (!sameItem(x.name, v.name, shift)) return false;
-      if (x.value === undefined || v.value === undefined) return x.value === v.value;
-      return sameItem(x.value, v.value, shift);
-    }
-  }
 }

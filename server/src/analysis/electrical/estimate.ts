@@ -64,27 +64,121 @@ export function estimateNodes(ctx: ElectricalContext): Map<number, NodeEstimate>
 
 /** `estimateNodes` in slices (see core/steps). */
 export function* estimateNodeSteps(ctx: ElectricalContext): Steps<Map<number, NodeEstimate>> {
-  const cache: LeakCache = new Map();
-  const internalCache = new Map<string, { estimate: NodeEstimate; position: Map<number, number> }>();
-  const storageCache = new Map<string, { estimate: NodeEstimate; position: Map<number, number> }>();
-  const cl = ctx.classification;
-  const phases = ctx.plan.phases;
-  const values = cl.phaseValues;
-  void phases;
+  const run = new EstimateRun(ctx);
   const out = new Map<number, NodeEstimate>();
-  const c = ctx.circuit;
-  const constantEverywhere = (n: number) => Number.isFinite(ctx.railVolts[n]!) || values.every((v) => v[n] !== 2 && v[n] === values[0]![n]);
-  for (let n = 0; n < c.nets.length; n++) {
+  for (let n = 0; n < ctx.circuit.nets.length; n++) {
     if (n % ITEMS_PER_SLICE === ITEMS_PER_SLICE - 1) yield;
-    if (ctx.network.role[n] !== NetRole.Internal || ctx.network.unreachable[n]) continue;
+    const e = run.estimate(n);
+    if (e) out.set(n, e);
+  }
+  sharedSolves.set(out, run.shareOf);
+  return out;
+}
+
+/**
+ * Which node's solve each estimate copies (itself when it was solved), per estimate map: a later
+ * size edit solves each such family once again and copies the rest.
+ */
+const sharedSolves = new WeakMap<ReadonlyMap<number, NodeEstimate>, Map<number, number>>();
+
+/**
+ * The estimates after an edit that changed only device sizes: the nodes in `affected` (every
+ * node whose group, or whose gate loads, hold a changed device), in node order, are estimated
+ * again; every other node keeps its previous estimate, which read nothing that changed. Nodes
+ * that shared one solve before share one again (their groups changed alike), so each family
+ * is solved once; the result equals a full pass (the tests compare them).
+ */
+export function updateEstimates(ctx: ElectricalContext, previous: ReadonlyMap<number, NodeEstimate>, affected: readonly number[]): Map<number, NodeEstimate> {
+  const run = new EstimateRun(ctx);
+  const out = new Map(previous);
+  const before = sharedSolves.get(previous);
+  const shareOf = new Map(before ?? []);
+  const affectedSet = new Set(affected);
+  // the family's first affected node is solved; the others copy it when they are internal nodes
+  const solvedFor = new Map<number, { estimate: NodeEstimate; devices: number[] }>();
+  for (const n of affected) {
+    // the classification did not change, so neither did which nodes have an estimate
+    if (!previous.has(n)) continue;
+    const family = before?.get(n);
+    const first = family !== undefined && affectedSet.has(family) ? solvedFor.get(family) : undefined;
+    if (first && !ctx.classification.storage[n]) {
+      out.set(n, copyEstimate(first.estimate, n, first.devices, canonicalDevices(ctx, n)));
+      shareOf.set(n, first.estimate.node);
+      continue;
+    }
+    const e = run.estimate(n);
+    if (e) {
+      out.set(n, e);
+      shareOf.set(n, run.shareOf.get(n) ?? n);
+      if (family !== undefined && !solvedFor.has(family)) solvedFor.set(family, { estimate: e, devices: canonicalDevices(ctx, n) });
+    } else {
+      out.delete(n);
+      shareOf.delete(n);
+    }
+  }
+  sharedSolves.set(out, shareOf);
+  return out;
+}
+
+/** The nodes whose estimates can read a device: those of the groups on its drain, gate and source. */
+export function nodesReading(ctx: ElectricalContext, mosfets: Iterable<number>): Set<number> {
+  const net = ctx.network;
+  const seen = new Uint8Array(net.components.length);
+  const mark = new Uint8Array(ctx.circuit.nets.length);
+  for (const i of mosfets) {
+    const m = ctx.circuit.mosfets[i]!;
+    for (const t of [m.d, m.g, m.s]) {
+      const comp = net.componentOf[t]!;
+      if (comp < 0 || seen[comp]) continue;
+      seen[comp] = 1;
+      for (const x of net.components[comp]!.nodes) mark[x] = 1;
+    }
+  }
+  // in node order, as a full pass meets them, so the same node seeds each shared solve
+  const out = new Set<number>();
+  for (let x = 0; x < mark.length; x++) if (mark[x]) out.add(x);
+  return out;
+}
+
+/** An internal node's estimate from another node of identical structure, its devices put in. */
+function copyEstimate(from: NodeEstimate, n: number, fromDevices: number[], devices: number[]): NodeEstimate {
+  // built as a solve's cache entry is, so a device listed twice maps the same way
+  const position = new Map(fromDevices.map((d, k) => [d, k]));
+  return {
+    ...from,
+    node: n,
+    stored: from.stored.map((s) => ({ ...s, corners: s.corners.map((k) => ({ ...k, contributors: k.contributors.map((x) => ({ ...x, device: devices[position.get(x.device)!]! })) })) })),
+  };
+}
+
+/** One pass of estimates over a circuit, with the caches that let repeated cells share solves. */
+class EstimateRun {
+  private readonly cache: LeakCache = new Map();
+  private readonly internalCache = new Map<string, { estimate: NodeEstimate; position: Map<number, number> }>();
+  private readonly storageCache = new Map<string, { estimate: NodeEstimate; position: Map<number, number> }>();
+  private readonly constantEverywhere: (n: number) => boolean;
+  /** Node -> the node whose solve its estimate copies. */
+  readonly shareOf = new Map<number, number>();
+
+  constructor(private readonly ctx: ElectricalContext) {
+    const values = ctx.classification.phaseValues;
+    this.constantEverywhere = (n: number) => Number.isFinite(ctx.railVolts[n]!) || values.every((v) => v[n] !== 2 && v[n] === values[0]![n]);
+  }
+
+  /** The node's estimate, or undefined when it never floats (nothing to estimate). */
+  estimate(n: number): NodeEstimate | undefined {
+    const ctx = this.ctx;
+    const cl = ctx.classification;
+    const values = cl.phaseValues;
+    if (ctx.network.role[n] !== NetRole.Internal || ctx.network.unreachable[n]) return undefined;
     const states = cl.perPhase.map((m) => m.get(n));
     const floating = states.map((s, i) => ({ s, i })).filter(({ s }) => s && (floatsIn(s) || s.state === 'kept')) as Array<{ s: NodePhaseResult; i: number }>;
-    if (floating.length === 0) continue;
+    if (floating.length === 0) return undefined;
     // Nodes repeat with every instance of a cell: one leakage solve serves all instances whose
     // group has the same devices, sizes and surroundings (checked by structureKey).
     const { key, devices } = structureKey(ctx, n, floating, values);
     if (cl.storage[n]) {
-      const prior = storageCache.get(key);
+      const prior = this.storageCache.get(key);
       const remap = (d: number) => devices[prior!.position.get(d)!]!;
       const reuse = prior
         ? {
@@ -93,25 +187,25 @@ export function* estimateNodeSteps(ctx: ElectricalContext): Steps<Map<number, No
             keeper: prior.estimate.keeper ? { ...prior.estimate.keeper, devices: prior.estimate.keeper.devices.map(remap), against: [] as number[] } : undefined,
           }
         : undefined;
-      const e = estimateNode(ctx, n, floating, values, constantEverywhere, cache, reuse);
-      out.set(n, e);
-      if (!prior) storageCache.set(key, { estimate: e, position: new Map(devices.map((d, k) => [d, k])) });
-      continue;
+      const e = estimateNode(ctx, n, floating, values, this.constantEverywhere, this.cache, reuse);
+      if (!prior) this.storageCache.set(key, { estimate: e, position: new Map(devices.map((d, k) => [d, k])) });
+      this.shareOf.set(n, prior ? prior.estimate.node : n);
+      return e;
     }
-    const hit = internalCache.get(key);
+    const hit = this.internalCache.get(key);
     if (hit) {
-      out.set(n, {
+      this.shareOf.set(n, hit.estimate.node);
+      return {
         ...hit.estimate,
         node: n,
         stored: hit.estimate.stored.map((s) => ({ ...s, corners: s.corners.map((k) => ({ ...k, contributors: k.contributors.map((x) => ({ ...x, device: devices[hit.position.get(x.device)!]! })) })) })),
-      });
-      continue;
+      };
     }
-    const e = estimateNode(ctx, n, floating, values, constantEverywhere, cache);
-    out.set(n, e);
-    internalCache.set(key, { estimate: e, position: new Map(devices.map((d, k) => [d, k])) });
+    const e = estimateNode(ctx, n, floating, values, this.constantEverywhere, this.cache);
+    this.internalCache.set(key, { estimate: e, position: new Map(devices.map((d, k) => [d, k])) });
+    this.shareOf.set(n, n);
+    return e;
   }
-  return out;
 }
 
 interface Reuse {
@@ -284,7 +378,7 @@ function structureKey(ctx: ElectricalContext, n: number, floating: Array<{ s: No
     return s;
   };
   const parts: string[] = [floating.map((f) => `${f.i}${f.s.state}`).join(','), String(originId(c.nets[n]!.origin))];
-  const devices: number[] = [];
+  const devices = canonicalDevices(ctx, n);
   for (const si of comp.switches) {
     const s = net.switches[si]!;
     if (s.mosfet < 0) {
@@ -292,12 +386,10 @@ function structureKey(ctx: ElectricalContext, n: number, floating: Array<{ s: No
       continue;
     }
     const m = c.mosfets[s.mosfet]!;
-    devices.push(s.mosfet);
     parts.push(`${originId(m.origin)}:${m.wM}:${m.lM}:${m.m}:${m.nf}:${m.adM2}:${m.pdM}:${m.asM2}:${m.psM}:${code(m.d)}${code(m.g)}${code(m.s)}${code(m.b)}`);
   }
   for (const i of ctx.gateOf[n]!) {
     const m = c.mosfets[i]!;
-    devices.push(i);
     parts.push(`g${originId(m.origin)}:${m.wM}:${m.lM}:${m.m}:${code(m.d)}${code(m.s)}${code(m.b)}`);
   }
   for (const x of comp.nodes) {
@@ -307,6 +399,19 @@ function structureKey(ctx: ElectricalContext, n: number, floating: Array<{ s: No
     }
   }
   return { key: parts.join(';'), devices };
+}
+
+/** The devices of a node's group (in switch order) and those its gate loads, as structureKey lists them. */
+function canonicalDevices(ctx: ElectricalContext, n: number): number[] {
+  const net = ctx.network;
+  const comp = net.components[net.componentOf[n]!]!;
+  const devices: number[] = [];
+  for (const si of comp.switches) {
+    const m = net.switches[si]!.mosfet;
+    if (m >= 0) devices.push(m);
+  }
+  for (const i of ctx.gateOf[n]!) devices.push(i);
+  return devices;
 }
 
 export { HOLD_MARGIN };

@@ -4,7 +4,7 @@
 // that evaluation wins: a keeper-to-pull-down current ratio of about 0.1 to 0.3 is common
 // practice (no source). Minimum width and a longer-than-minimum length make it weak.
 
-import type { Mosfet, Polarity } from '../../circuit/circuit';
+import type { Circuit, Mosfet, Polarity } from '../../circuit/circuit';
 import { NetRole } from '../switchNetwork';
 import { channelCurrent } from './leakage';
 import type { ElectricalContext } from './context';
@@ -101,15 +101,62 @@ export function existingInverter(ctx: ElectricalContext, node: number): number |
   return undefined;
 }
 
+/** What keeper sizing reads from the whole circuit: per polarity, the smallest sizes and the first device. */
+export interface SizingBasis {
+  n: PolarityBasis | undefined;
+  p: PolarityBasis | undefined;
+}
+interface PolarityBasis {
+  /** Smallest width per finger and smallest length (m). */
+  wMin: number;
+  lMin: number;
+  /** The first device of the polarity: the template when none sits on the node. */
+  first: number;
+}
+
+const bases = new WeakMap<Circuit, SizingBasis>();
+
+export function sizingBasis(c: Circuit): SizingBasis {
+  let b = bases.get(c);
+  if (b) return b;
+  b = { n: undefined, p: undefined };
+  for (let i = 0; i < c.mosfets.length; i++) {
+    const m = c.mosfets[i]!;
+    const k = b[m.polarity];
+    if (!k) b[m.polarity] = { wMin: m.wM / m.nf, lMin: m.lM, first: i };
+    else {
+      k.wMin = Math.min(k.wMin, m.wM / m.nf);
+      k.lMin = Math.min(k.lMin, m.lM);
+    }
+  }
+  bases.set(c, b);
+  return b;
+}
+
+/** True when two circuits give every keeper the same sizing basis (sizes, first devices and their cards). */
+export function sameSizingBasis(a: Circuit, b: Circuit): boolean {
+  const x = sizingBasis(a);
+  const y = sizingBasis(b);
+  return (['n', 'p'] as const).every((pol) => {
+    const s = x[pol];
+    const t = y[pol];
+    if (!s || !t) return s === t;
+    const ms = a.mosfets[s.first]!;
+    const mt = b.mosfets[t.first]!;
+    return s.wMin === t.wMin && s.lMin === t.lMin && s.first === t.first && ms.card === mt.card && ms.model === mt.model;
+  });
+}
+
 export function sizeKeeper(ctx: ElectricalContext, node: number, storedLevel: 0 | 1, hotLeakageA: number, hotTempK: number): KeeperSuggestion | undefined {
   const c = ctx.circuit;
   const polarity: Polarity = storedLevel === 1 ? 'p' : 'n';
-  const same = c.mosfets.filter((m) => m.polarity === polarity);
-  const nDevices = c.mosfets.filter((m) => m.polarity === 'n');
-  const template = same.find((m) => ctx.channelOf[node]!.includes(c.mosfets.indexOf(m))) ?? same[0];
-  if (!template) return undefined;
-  const wMin = Math.min(...same.map((m) => m.wM / m.nf));
-  const lMin = Math.min(...same.map((m) => m.lM));
+  const basis = sizingBasis(c);
+  const own = basis[polarity];
+  if (!own) return undefined;
+  // a device of the node's own group sets the model (the first in circuit order), else the circuit's first
+  const onNode = ctx.channelOf[node]!.find((i) => c.mosfets[i]!.polarity === polarity);
+  const template = c.mosfets[onNode ?? own.first]!;
+  const { wMin, lMin } = own;
   const pull = pullStrength(ctx, node, storedLevel, hotTempK);
   const reasoning: string[] = [];
   const base = { polarity, m: 1, nf: 1, card: template.card, model: template.model };
@@ -138,7 +185,8 @@ export function sizeKeeper(ctx: ElectricalContext, node: number, storedLevel: 0 
   if (pull.currentA > 0) reasoning.push(`keeper/pull-down ratio ${picked.ratio.toFixed(2)} against ${pull.devices.map((i) => c.mosfets[i]!.name).join(' + ')} (common practice ${KEEPER_RATIO_MIN}-${KEEPER_RATIO_MAX})`);
   reasoning.push(`W = ${f(picked.w)} (minimum ${f(wMin)}), L = ${f(picked.l)} (${(picked.l / lMin).toFixed(1)}x minimum) to stay weak`);
   const inv = existingInverter(ctx, node);
-  const inverter: KeeperSuggestion['inverter'] = inv !== undefined ? { existingOutput: c.nets[inv]!.name } : { newWnM: Math.min(...nDevices.map((m) => m.wM / m.nf)), newWpM: 2 * Math.min(...nDevices.map((m) => m.wM / m.nf)), newLM: Math.min(...nDevices.map((m) => m.lM)) };
+  const nBasis = basis.n;
+  const inverter: KeeperSuggestion['inverter'] = inv !== undefined ? { existingOutput: c.nets[inv]!.name } : nBasis ? { newWnM: nBasis.wMin, newWpM: 2 * nBasis.wMin, newLM: nBasis.lMin } : { newWnM: Infinity, newWpM: Infinity, newLM: Infinity };
   if (inv === undefined) reasoning.push('the node drives no inverter: add one to drive the keeper gate');
   return {
     polarity,

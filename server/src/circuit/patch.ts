@@ -1,0 +1,192 @@
+// The elaboration stage's answer to a size edit: when the new deck differs from the old one only
+// in plain-number sizes of MOSFET lines (W, L, M, NF, AD, AS, PD, PS), the flat circuit keeps
+// every net and connection, and only the devices written on those lines take their new values.
+// Anything else (a changed word, a parameter expression, a line moved, an edit that could change
+// the assumed geometry scale) answers `undefined`, and the caller elaborates afresh.
+
+import { Span, type Range } from '../core/source';
+import type { Circuit, Design, Mosfet, Origin } from './circuit';
+import type { Deck } from './deck';
+import { selectModel } from './models';
+import { parseSpiceNumber } from './numbers';
+import { sameItem, sameRange } from '../syntax/compare';
+import type { AssignItem, Item, Statement, SyntaxFile } from '../syntax/tree';
+
+/** Sizes the patch can take, and how each scales with the geometry scale. */
+const SIZE_PARAMS: Record<string, 'length' | 'area' | 'count'> = { w: 'length', l: 'length', pd: 'length', ps: 'length', ad: 'area', as: 'area', m: 'count', mult: 'count', nf: 'count' };
+
+/** Written lengths above this look like microns (the elaborator's scale guess). */
+const MICRON_LOOKING_L = 1e-3;
+/** Sizes the elaborator calls implausible (it reports them, so the patch steps aside). */
+const PLAUSIBLE_L_M = 1e-3;
+const PLAUSIBLE_W_M = 1e-1;
+
+export interface SizePatch {
+  design: Design;
+  /** Per circuit of the design: indices of the MOSFETs that took new values. */
+  changed: number[][];
+  /** The edited lines: old range -> new range, per file. */
+  moved: Array<{ file: string; from: Range; to: Range }>;
+}
+
+interface EditedLine {
+  file: string;
+  before: Statement;
+  after: Statement;
+}
+
+export function patchSizes(previousDeck: Deck, previous: Design, deck: Deck): SizePatch | undefined {
+  const a = previousDeck.files;
+  const b = deck.files;
+  if (a.length !== b.length) return undefined;
+  const edited: EditedLine[] = [];
+  for (let i = 0; i < a.length; i++) {
+    const lines = editedLines(a[i]!, b[i]!);
+    if (!lines) return undefined;
+    edited.push(...lines);
+  }
+  if (edited.length === 0) return undefined;
+  const scale = previous.geometryScale;
+  // devices are found by where their line starts: an earlier edit's analysis may hold an
+  // older parse of the same, unchanged line
+  type Target = { values: Sizes; origin: Origin | undefined; line: EditedLine; card: { for: Mosfet; card: Mosfet['card'] } | undefined };
+  const byLine = new Map<number, Target[]>();
+  for (const line of edited) {
+    const values = sizesOf(line, scale.value, scale.from === 'default' || scale.from === 'assumed');
+    if (!values) return undefined;
+    const at = startLine(line.before.range);
+    byLine.set(at, [...(byLine.get(at) ?? []), { values, origin: undefined, line, card: undefined }]);
+  }
+  const targetOf = (o: Origin): Target | undefined => {
+    const list = byLine.get(startLine(o.range));
+    if (!list) return undefined;
+    const ch = o.range.start.character;
+    return list.find((t) => t.line.file === o.file && t.line.before.range.start.character === ch);
+  };
+  const changed: number[][] = [];
+  const circuits: Circuit[] = [];
+  for (const c of previous.circuits) {
+    const indices: number[] = [];
+    let mosfets: Mosfet[] | undefined;
+    for (let k = 0; k < c.mosfets.length; k++) {
+      const m = c.mosfets[k]!;
+      const hit = targetOf(m.origin);
+      if (!hit) continue;
+      hit.origin ??= { ...m.origin, range: hit.line.after.range };
+      const v = hit.values;
+      const next: Mosfet = { name: m.name, polarity: m.polarity, d: m.d, g: m.g, s: m.s, b: m.b, wM: v.wM ?? m.wM, lM: v.lM ?? m.lM, m: v.m, nf: v.nf, model: m.model, card: m.card, origin: hit.origin };
+      if (v.adM2 !== undefined) next.adM2 = v.adM2;
+      if (v.asM2 !== undefined) next.asM2 = v.asM2;
+      if (v.pdM !== undefined) next.pdM = v.pdM;
+      if (v.psM !== undefined) next.psM = v.psM;
+      // the bin follows the size (one choice per line: every device of it has the same sizes
+      // and model); a card of the other polarity would change the switch network
+      if (!hit.card || hit.card.for.wM !== next.wM || hit.card.for.lM !== next.lM) hit.card = { for: next, card: selectModel(previous.modelCards, m.model, next.lM, next.wM) };
+      next.card = hit.card.card;
+      if ((m.card === undefined) !== (next.card === undefined)) return undefined;
+      if (next.card && (next.card.kind === 'nmos' ? 'n' : 'p') !== m.polarity) return undefined;
+      if (next.lM > PLAUSIBLE_L_M || next.wM > PLAUSIBLE_W_M) return undefined;
+      mosfets ??= c.mosfets.slice();
+      mosfets[k] = next;
+      indices.push(k);
+    }
+    changed.push(indices);
+    circuits.push(mosfets ? { ...c, mosfets } : c);
+  }
+  const moved = edited.map((l) => ({ file: l.file, from: l.before.range, to: l.after.range }));
+  return { design: { ...previous, circuits }, changed, moved };
+}
+
+function startLine(r: Range): number {
+  return r instanceof Span ? r.startLine : r.start.line;
+}
+
+/** The MOSFET lines whose sizes changed, or undefined when anything else differs. */
+function editedLines(a: SyntaxFile, b: SyntaxFile): EditedLine[] | undefined {
+  if (a.file !== b.file || a.title !== b.title) return undefined;
+  if (a.statements.length !== b.statements.length || a.directives.length !== b.directives.length || a.pinInfos.length !== b.pinInfos.length || a.diagnostics.length !== b.diagnostics.length) return undefined;
+  if (JSON.stringify(a.directives) !== JSON.stringify(b.directives) || JSON.stringify(a.pinInfos) !== JSON.stringify(b.pinInfos) || JSON.stringify(a.diagnostics) !== JSON.stringify(b.diagnostics)) return undefined;
+  const out: EditedLine[] = [];
+  for (let i = 0; i < a.statements.length; i++) {
+    const x = a.statements[i]!;
+    const y = b.statements[i]!;
+    if (x === y) continue;
+    if (sameStatement(x, y)) continue;
+    if (!sizeEditOf(x, y)) return undefined;
+    out.push({ file: a.file, before: x, after: y });
+  }
+  return out;
+}
+
+function sameStatement(x: Statement, y: Statement): boolean {
+  return sameRange(x.range, y.range, 0) && sameItem(x.head, y.head, 0) && x.items.length === y.items.length && x.items.every((it, k) => sameItem(it, y.items[k]!, 0));
+}
+
+/**
+ * True when `y` is `x` with some size values replaced by other plain numbers: same element,
+ * same nodes and model, same parameter names in the same order, on the same lines. Words after
+ * a changed value may sit a few characters further along its line.
+ */
+function sizeEditOf(x: Statement, y: Statement): boolean {
+  if (x.head.text[0]?.toLowerCase() !== 'm' || !sameItem(x.head, y.head, 0) || x.items.length !== y.items.length) return false;
+  if (x.range.start.line !== y.range.start.line || x.range.end.line !== y.range.end.line) return false;
+  let changedOnLine = -1;
+  for (let k = 0; k < x.items.length; k++) {
+    const p = x.items[k]!;
+    const q = y.items[k]!;
+    if (sameItem(p, q, 0)) continue;
+    const onChangedLine = p.range.start.line === changedOnLine && sameWords(p, q);
+    if (onChangedLine) continue;
+    if (p.kind !== 'assign' || q.kind !== 'assign' || p.name.text !== q.name.text || !(p.name.text.toLowerCase() in SIZE_PARAMS)) return false;
+    if (!isPlainNumber(p.value) || !isPlainNumber(q.value) || p.range.start.line !== q.range.start.line || p.range.end.line !== q.range.end.line) return false;
+    if (p.name.range.start.character !== q.name.range.start.character && p.range.start.line !== changedOnLine) return false;
+    changedOnLine = p.range.start.line;
+  }
+  return changedOnLine >= 0;
+}
+
+/** The same words on the same lines, wherever they sit along the line. */
+function sameWords(p: Item, q: Item): boolean {
+  if (p.kind !== q.kind || p.range.start.line !== q.range.start.line || p.range.end.line !== q.range.end.line) return false;
+  const shift = q.range.start.character - p.range.start.character;
+  const moved = (r: Range): Range => ({ start: { line: r.start.line, character: r.start.character + shift }, end: { line: r.end.line, character: r.end.character + (r.end.line === r.start.line ? shift : 0) } });
+  const shifted = (it: Item): Item => {
+    switch (it.kind) {
+      case 'assign':
+        return { ...it, range: moved(it.range), name: { ...it.name, range: moved(it.name.range) }, value: it.value && (shifted(it.value) as typeof it.value) };
+      case 'group':
+        return { ...it, range: moved(it.range), items: it.items.map(shifted) };
+      default:
+        return { ...it, range: moved(it.range) };
+    }
+  };
+  return sameItem(shifted(p), q, 0);
+}
+
+function isPlainNumber(v: AssignItem['value']): boolean {
+  return v?.kind === 'word' && parseSpiceNumber(v.text) !== undefined;
+}
+
+/**
+ * The new sizes of one edited line, as the elaborator would compute them (metres, scaled), or
+ * undefined when a size is not a plain number or a written length crosses the scale guess.
+ */
+type Sizes = { wM?: number; lM?: number; m: number; nf: number; adM2?: number; asM2?: number; pdM?: number; psM?: number };
+
+function sizesOf(line: EditedLine, scale: number, scaleGuessed: boolean): Sizes | undefined {
+  const written = new Map<string, number>();
+  const before = new Map<string, number>();
+  for (const it of line.after.items) {
+    if (it.kind !== 'assign') continue;
+    const k = it.name.text.toLowerCase();
+    if (!(k in SIZE_PARAMS)) continue;
+    if (!isPlainNumber(it.value)) return undefined;
+    written.set(k, parseSpiceNumber((it.value as { text: string }).text)!);
+  }
+  for (const it of line.before.items) if (it.kind === 'assign' && it.value?.kind === 'word' && it.name.text.toLowerCase() === 'l') before.set('l', parseSpiceNumber(it.value.text) ?? NaN);
+  // the elaborator guesses microns from the median written L: keep every L on its side of the line
+  if (scaleGuessed && written.has('l') && (before.get('l')! > MICRON_LOOKING_L) !== (written.get('l')! > MICRON_LOOKING_L)) return undefined;
+  const area = (k: string) => (written.has(k) ? written.get(k)! * scale * scale : undefined);
+  const len = (k: string) => (written.has(k) ? written.get(k)! * scale : undefined);
+  return { wM: len('w'), lM: len('l'), m: written.get('m') ?? written.get('mult') ?? 1, nf: written.get('nf') ?? 1, adM2: area('ad'), asM2: area('as'), pdM: len('pd'), psM: len('ps') };
+}

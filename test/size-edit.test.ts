@@ -1,0 +1,106 @@
+// The size-edit path (circuit/patch.ts, engine `reanalyse`): after an edit of plain-number sizes
+// on MOSFET lines, the analysis built from the previous one must equal a fresh analysis of the
+// new text, finding for finding and figure for figure (the whole JSON report, every node).
+// Random edits over every sample and a generated hierarchical datapath; edits of other kinds
+// must be declined.
+
+import * as fs from 'node:fs';
+import * as path from 'node:path';
+import fc from 'fast-check';
+import { describe, expect, it } from 'vitest';
+import { analyse, reanalyse, type AnalysisResult } from '../server/src/engine';
+import { diskHost } from '../server/src/cli/diskHost';
+import { memoryHost, type FileHost } from '../server/src/core/host';
+import { addToReport, emptyReport } from '../server/src/findings/report';
+import { hierarchicalNetlist } from '../scripts/netlists';
+
+const SAMPLES = path.join(__dirname, '..', 'samples');
+
+function overlay(file: string, text: string): FileHost {
+  const disk = diskHost();
+  return { ...disk, readFile: (p) => (path.resolve(p) === path.resolve(file) ? text : disk.readFile(p)) };
+}
+
+function report(file: string, r: AnalysisResult): unknown {
+  const rep = emptyReport();
+  addToReport(rep, file, r, { allNodes: true });
+  return JSON.parse(JSON.stringify(rep));
+}
+
+type Edit = { line: number; param: number; factor: number; kind: 'size' | 'other' };
+const FACTORS = [0.5, 0.8, 1.25, 2, 3];
+
+/** Scales one size of one MOSFET line (a 'size' edit), or changes a node name ('other'). */
+function apply(text: string, edits: Edit[]): { text: string; sizesOnly: boolean } {
+  const lines = text.split('\n');
+  const mos = lines.map((l, i) => (/^m\S*\s/i.test(l) && /\b(w|l|ad|pd|m)=\d/i.test(l) ? i : -1)).filter((i) => i >= 0);
+  let sizesOnly = true;
+  for (const e of edits) {
+    if (mos.length === 0) break;
+    const i = mos[e.line % mos.length]!;
+    if (e.kind === 'other') {
+      lines[i] = lines[i]!.replace(/^(\S+\s+)(\S+)/, '$1$2_x');
+      sizesOnly = false;
+      continue;
+    }
+    const sizes = [...lines[i]!.matchAll(/\b(w|l|ad|as|pd|ps)=(\d+(?:\.\d+)?)(u|n|p)?\b/gi)];
+    if (!sizes.length) continue;
+    const s = sizes[e.param % sizes.length]!;
+    const v = Number(s[2]) * FACTORS[e.factor % FACTORS.length]!;
+    lines[i] = lines[i]!.slice(0, s.index!) + `${s[1]}=${Number(v.toPrecision(4))}${s[3] ?? ''}` + lines[i]!.slice(s.index! + s[0].length);
+  }
+  return { text: lines.join('\n'), sizesOnly };
+}
+
+function check(file: string, original: string, hostFor: (t: string) => FileHost, runs: number): number {
+  const before = analyse(hostFor(original), file);
+  let patched = 0;
+  const edit = fc.array(fc.record({ line: fc.nat(500), param: fc.nat(5), factor: fc.nat(4), kind: fc.constantFrom<Edit['kind']>('size', 'size', 'size', 'other') }), { minLength: 1, maxLength: 3 });
+  // two edits in a row: the second starts from the first's result, patched or fresh
+  fc.assert(
+    fc.property(edit, edit, (first, second) => {
+      let previous = before;
+      let text = original;
+      for (const edits of [first, second]) {
+        const next = apply(text, edits);
+        if (next.text === text) continue;
+        const host = hostFor(next.text);
+        const fast = reanalyse(previous, host, file);
+        if (!next.sizesOnly) expect(fast, 'only size edits take the patch').toBeUndefined();
+        const full = analyse(host, file);
+        if (fast) {
+          patched++;
+          expect(JSON.parse(JSON.stringify(fast.diagnostics))).toEqual(JSON.parse(JSON.stringify(full.diagnostics)));
+          expect(report(file, fast)).toEqual(report(file, full));
+        }
+        previous = fast ?? full;
+        text = next.text;
+      }
+    }),
+    { numRuns: runs, seed: 11 },
+  );
+  return patched;
+}
+
+describe('size edits reuse the previous analysis and equal a fresh one', () => {
+  for (const name of fs.readdirSync(SAMPLES).filter((f) => f.endsWith('.sp'))) {
+    it(`${name}: random size edits`, () => {
+      const file = path.join(SAMPLES, name);
+      const text = fs.readFileSync(file, 'utf8');
+      const patched = check(file, text, (t) => overlay(file, t), 12);
+      // sizes written as parameter expressions are never patched (the sample with {wn}, {lmin})
+      const plainSizes = /^m\S*\s.*\bw=\d/im.test(text);
+      if (plainSizes) expect(patched, 'some edits took the patch').toBeGreaterThan(0);
+      else {
+        const edited = text.replace(/\.param\s+wn\s*=\s*([\d.]+)/i, (_m, v) => `.param wn=${Number(v) * 2}`);
+        expect(edited).not.toBe(text);
+        expect(reanalyse(analyse(overlay(file, text), file), overlay(file, edited), file), 'a parameter edit is not a size edit').toBeUndefined();
+      }
+    });
+  }
+  it('a generated hierarchical datapath (5k transistors): random size edits in its leaf cells', () => {
+    const file = '/datapath.sp';
+    const patched = check(file, hierarchicalNetlist(5_000), (t) => memoryHost({ [file]: t }), 6);
+    expect(patched).toBeGreaterThan(0);
+  });
+});
