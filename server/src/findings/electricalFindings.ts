@@ -47,7 +47,7 @@ export function electricalFindings(ctx: ElectricalContext, estimates: Map<number
         const ratio = k.retentionS / window;
         if (ratio < 3) {
           const top = k.contributors[0];
-          const who = top ? `, mostly ${c.mosfets[top.device]!.name} (${top.mechanism})` : '';
+          const who = top ? `, mostly ${c.mosfets[e.devices[top.pos]!]!.name} (${top.mechanism})` : '';
           const w = Number.isFinite(window) ? `its float window of ${formatEng(window, 's')}` : 'the time it floats (it is never restored)';
           emit(
             e.node,

@@ -145,7 +145,7 @@ function addEstimate(node: ReportNode, e: NodeEstimate, c: Circuit): void {
       leakage_A: k.leakageA,
       retention_s: k.retentionS,
       held: k.held,
-      contributors: k.contributors.map((x) => ({ device: c.mosfets[x.device]!.name, mechanism: x.mechanism, current_A: x.currentA })),
+      contributors: k.contributors.map((x) => ({ device: c.mosfets[e.devices[x.pos]!]!.name, mechanism: x.mechanism, current_A: x.currentA })),
     })),
   }));
   node.charge_share_droop_V = e.chargeSharing?.droopV ?? 0;

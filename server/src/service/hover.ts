@@ -86,7 +86,7 @@ export function netHover(result: AnalysisResult, file: string, target: Extract<T
     lines.push(`**Capacitance** ${formatEng(k.totalF, 'F')}: gate ${formatEng(k.gateF, 'F')}, diffusion ${formatEng(k.diffusionF, 'F')}, overlap ${formatEng(k.overlapF, 'F')}, explicit ${formatEng(k.explicitF, 'F')}${k.couplingF ? ` (coupling ${formatEng(k.couplingF, 'F')})` : ''}`);
     for (const s of e.stored) {
       const rows = s.corners.map((x) => {
-        const top = x.contributors.slice(0, 3).map((y) => `${c.mosfets[y.device]!.name} ${y.mechanism} ${formatEng(y.currentA, 'A')}`).join(', ');
+        const top = x.contributors.slice(0, 3).map((y) => `${c.mosfets[e.devices[y.pos]!]!.name} ${y.mechanism} ${formatEng(y.currentA, 'A')}`).join(', ');
         const ret = x.held ? 'held' : x.retentionS === null ? '—' : formatEng(x.retentionS, 's');
         return `| ${x.tempC} C | ${formatEng(x.leakageA, 'A')} | ${ret} | ${top} |`;
       });
@@ -133,7 +133,7 @@ export function deviceHover(result: AnalysisResult, file: string, target: Extrac
     const idx = c.mosfets.indexOf(m);
     const contributions: string[] = [];
     for (const [node, e] of a.estimates ?? []) {
-      for (const s of e.stored) for (const k of s.corners) for (const x of k.contributors) if (x.device === idx && contributions.length < 6) contributions.push(`${formatEng(x.currentA, 'A')} ${x.mechanism} from ${c.nets[node]!.name} holding ${s.level} at ${k.tempC} C`);
+      for (const s of e.stored) for (const k of s.corners) for (const x of k.contributors) if (e.devices[x.pos] === idx && contributions.length < 6) contributions.push(`${formatEng(x.currentA, 'A')} ${x.mechanism} from ${c.nets[node]!.name} holding ${s.level} at ${k.tempC} C`);
     }
     if (contributions.length) lines.push(`**Leaks** ${contributions.join('; ')}`);
     lines.push('_Tidemark estimates are a screening aid, not sign-off._');

@@ -14,10 +14,18 @@ import { chargeSharing, type ChargeSharingResult } from './chargeSharing';
 import { couplingDroop, type CouplingResult } from './coupling';
 import { HOLD_MARGIN, keeperHoldCurrent, keeperRatio, sizeHolder, sizeKeeper, type HolderSuggestion, type KeeperSuggestion } from './keeper';
 
+/** A leaking device of the node's estimate: `pos` indexes the estimate's `devices`. */
+export interface NodeContributor {
+  pos: number;
+  mechanism: LeakageContributor['mechanism'];
+  /** Positive when it moves the node away from its stored level. */
+  currentA: number;
+}
+
 export interface CornerEstimate {
   tempC: number;
   leakageA: number;
-  contributors: LeakageContributor[];
+  contributors: NodeContributor[];
   retentionS: number | null;
   held: boolean;
 }
@@ -31,6 +39,12 @@ export interface StoredEstimate {
 
 export interface NodeEstimate {
   node: number;
+  /**
+   * The node's group devices (in switch order) and its gate loads (MOSFET indices). Identical
+   * nodes of repeated cells list theirs in the same order, so they share the figures below
+   * and differ only here.
+   */
+  devices: number[];
   storage: boolean;
   capacitance: CapacitanceBreakdown;
   stored: StoredEstimate[];
@@ -95,14 +109,14 @@ export function updateEstimates(ctx: ElectricalContext, previous: ReadonlyMap<nu
   const shareOf = new Map(before ?? []);
   const affectedSet = new Set(affected);
   // the family's first affected node is solved; the others copy it when they are internal nodes
-  const solvedFor = new Map<number, { estimate: NodeEstimate; devices: number[] }>();
+  const solvedFor = new Map<number, { estimate: NodeEstimate }>();
   for (const n of affected) {
     // the classification did not change, so neither did which nodes have an estimate
     if (!previous.has(n)) continue;
     const family = before?.get(n);
     const first = family !== undefined && affectedSet.has(family) ? solvedFor.get(family) : undefined;
     if (first && !ctx.classification.storage[n]) {
-      out.set(n, copyEstimate(first.estimate, n, first.devices, canonicalDevices(ctx, n)));
+      out.set(n, copyEstimate(first.estimate, n, canonicalDevices(ctx, n)));
       shareOf.set(n, first.estimate.node);
       continue;
     }
@@ -110,7 +124,7 @@ export function updateEstimates(ctx: ElectricalContext, previous: ReadonlyMap<nu
     if (e) {
       out.set(n, e);
       shareOf.set(n, run.shareOf.get(n) ?? n);
-      if (family !== undefined && !solvedFor.has(family)) solvedFor.set(family, { estimate: e, devices: canonicalDevices(ctx, n) });
+      if (family !== undefined && !solvedFor.has(family)) solvedFor.set(family, { estimate: e });
     } else {
       out.delete(n);
       shareOf.delete(n);
@@ -140,15 +154,9 @@ export function nodesReading(ctx: ElectricalContext, mosfets: Iterable<number>):
   return out;
 }
 
-/** An internal node's estimate from another node of identical structure, its devices put in. */
-function copyEstimate(from: NodeEstimate, n: number, fromDevices: number[], devices: number[]): NodeEstimate {
-  // built as a solve's cache entry is, so a device listed twice maps the same way
-  const position = new Map(fromDevices.map((d, k) => [d, k]));
-  return {
-    ...from,
-    node: n,
-    stored: from.stored.map((s) => ({ ...s, corners: s.corners.map((k) => ({ ...k, contributors: k.contributors.map((x) => ({ ...x, device: devices[position.get(x.device)!]! })) })) })),
-  };
+/** An internal node's estimate from another node of identical structure: its own node and devices. */
+function copyEstimate(from: NodeEstimate, n: number, devices: number[]): NodeEstimate {
+  return { ...from, node: n, devices };
 }
 
 /** One pass of estimates over a circuit, with the caches that let repeated cells share solves. */
@@ -180,14 +188,15 @@ class EstimateRun {
     if (cl.storage[n]) {
       const prior = this.storageCache.get(key);
       const remap = (d: number) => devices[prior!.position.get(d)!]!;
+      // the figures are positional (see NodeEstimate.devices): they carry over as they are
       const reuse = prior
         ? {
             capacitance: prior.estimate.capacitance,
-            stored: prior.estimate.stored.map((s) => ({ ...s, corners: s.corners.map((k) => ({ ...k, contributors: k.contributors.map((x) => ({ ...x, device: remap(x.device) })) })) })),
+            stored: prior.estimate.stored,
             keeper: prior.estimate.keeper ? { ...prior.estimate.keeper, devices: prior.estimate.keeper.devices.map(remap), against: [] as number[] } : undefined,
           }
         : undefined;
-      const e = estimateNode(ctx, n, floating, values, this.constantEverywhere, this.cache, reuse);
+      const e = estimateNode(ctx, n, devices, floating, values, this.constantEverywhere, this.cache, reuse);
       if (!prior) this.storageCache.set(key, { estimate: e, position: new Map(devices.map((d, k) => [d, k])) });
       this.shareOf.set(n, prior ? prior.estimate.node : n);
       return e;
@@ -195,13 +204,9 @@ class EstimateRun {
     const hit = this.internalCache.get(key);
     if (hit) {
       this.shareOf.set(n, hit.estimate.node);
-      return {
-        ...hit.estimate,
-        node: n,
-        stored: hit.estimate.stored.map((s) => ({ ...s, corners: s.corners.map((k) => ({ ...k, contributors: k.contributors.map((x) => ({ ...x, device: devices[hit.position.get(x.device)!]! })) })) })),
-      };
+      return copyEstimate(hit.estimate, n, devices);
     }
-    const e = estimateNode(ctx, n, floating, values, this.constantEverywhere, this.cache);
+    const e = estimateNode(ctx, n, devices, floating, values, this.constantEverywhere, this.cache);
     this.internalCache.set(key, { estimate: e, position: new Map(devices.map((d, k) => [d, k])) });
     this.shareOf.set(n, n);
     return e;
@@ -214,11 +219,13 @@ interface Reuse {
   keeper: NodeEstimate['keeper'] | undefined;
 }
 
-function estimateNode(ctx: ElectricalContext, n: number, floating: Array<{ s: NodePhaseResult; i: number }>, values: Uint8Array[], constantEverywhere: (n: number) => boolean, cache: LeakCache, reuse?: Reuse): NodeEstimate {
+function estimateNode(ctx: ElectricalContext, n: number, devices: number[], floating: Array<{ s: NodePhaseResult; i: number }>, values: Uint8Array[], constantEverywhere: (n: number) => boolean, cache: LeakCache, reuse?: Reuse): NodeEstimate {
   const c = ctx.circuit;
   const cl = ctx.classification;
   const vdd = ctx.vddV;
   const storage = cl.storage[n] === 1;
+  const positionOf = new Map(devices.map((d, k) => [d, k]));
+  const positional = (list: readonly LeakageContributor[]): NodeContributor[] => list.map((x) => ({ pos: positionOf.get(x.device)!, mechanism: x.mechanism, currentA: x.currentA }));
   const notes: string[] = [];
   const keptState = floating.find((f) => f.s.state === 'kept')?.s;
   // the level a dynamic node is meant to keep: what other phases drive it to, else its keeper's
@@ -262,11 +269,14 @@ function estimateNode(ctx: ElectricalContext, n: number, floating: Array<{ s: No
         level,
         volts: vs,
         phase: ctx.plan.phases[i]!.name,
-        corners: hit.corners.map((k, ci) => ({ tempC: ctx.corners[ci]!.tempC, leakageA: k.leakageA, retentionS: k.retentionS, held: k.held, contributors: k.contributors.map((x) => ({ device: [...ln.devices, ...ln.keepers, ...ln.gateDevices][x.pos]!, mechanism: x.mechanism, currentA: x.currentA })) })),
+        corners: hit.corners.map((k, ci) => {
+          const listed = [...ln.devices, ...ln.keepers, ...ln.gateDevices];
+          return { tempC: ctx.corners[ci]!.tempC, leakageA: k.leakageA, retentionS: k.retentionS, held: k.held, contributors: positional(k.contributors.map((x) => ({ device: listed[x.pos]!, mechanism: x.mechanism, currentA: x.currentA }))) };
+        }),
       });
       continue;
     }
-    const corners: CornerEstimate[] = ctx.corners.map((k) => {
+    const solved: Array<CornerEstimate & { leaking: LeakageContributor[] }> = ctx.corners.map((k) => {
       const at = leakageAt(ctx, ln, vs, k.tempK, level, true);
       const leak = level === 1 ? at.outA : -at.outA;
       let ret: { seconds: number | null; held: boolean };
@@ -280,13 +290,15 @@ function estimateNode(ctx: ElectricalContext, n: number, floating: Array<{ s: No
         // an internal node: first order, C dV / I at the stored level
         ret = leak > 0 ? { seconds: (capAt(vs) * ctx.budgetV) / leak, held: false } : { seconds: null, held: true };
       }
-      return { tempC: k.tempC, leakageA: leak, contributors: at.contributors.slice(0, 8), retentionS: ret.seconds, held: ret.held };
+      const leaking = at.contributors.slice(0, 8);
+      return { tempC: k.tempC, leakageA: leak, contributors: positional(leaking), leaking, retentionS: ret.seconds, held: ret.held };
     });
+    const corners: CornerEstimate[] = solved.map(({ leaking: _, ...k }) => k);
     stored.push({ level, volts: vs, phase: ctx.plan.phases[i]!.name, corners });
     if (!keepers.length) {
       const pos = new Map<number, number>();
       [...ln.devices, ...ln.keepers, ...ln.gateDevices].forEach((d, k) => pos.has(d) || pos.set(d, k));
-      cache.set(key, { corners: corners.map((k) => ({ leakageA: k.leakageA, retentionS: k.retentionS, held: k.held, contributors: k.contributors.map((x) => ({ pos: pos.get(x.device)!, mechanism: x.mechanism, currentA: x.currentA })) })) });
+      cache.set(key, { corners: solved.map((k) => ({ leakageA: k.leakageA, retentionS: k.retentionS, held: k.held, contributors: k.leaking.map((x) => ({ pos: pos.get(x.device)!, mechanism: x.mechanism, currentA: x.currentA })) })) });
     }
     if (keepers.length && !keeperInfo) {
       const km = c.mosfets[keepers[0]!]!;
@@ -330,6 +342,7 @@ function estimateNode(ctx: ElectricalContext, n: number, floating: Array<{ s: No
   for (const i of ctx.channelOf[n]!) for (const note of ctx.model(c.mosfets[i]!).notes) if (!notes.includes(note)) notes.push(note);
   const est: NodeEstimate = {
     node: n,
+    devices,
     storage,
     capacitance,
     stored,
