@@ -5,6 +5,7 @@
 import { floatsIn, nodeFloatWindow, type NodePhaseResult } from '../classify';
 import { evaluateComponent, newScratch, type Scratch } from '../constants';
 import { NetRole } from '../switchNetwork';
+import { carryToTwin } from './family';
 import { ITEMS_PER_SLICE, runToEnd, type Steps } from '../../core/steps';
 import type { ElectricalContext } from './context';
 import { capacitanceSignature, islandCapacitance, type CapacitanceBreakdown } from './capacitance';
@@ -115,10 +116,15 @@ export function updateEstimates(ctx: ElectricalContext, previous: ReadonlyMap<nu
     if (!previous.has(n)) continue;
     const family = before?.get(n);
     const first = family !== undefined && affectedSet.has(family) ? solvedFor.get(family) : undefined;
-    if (first && !ctx.classification.storage[n]) {
-      out.set(n, copyEstimate(first.estimate, n, canonicalDevices(ctx, n)));
-      shareOf.set(n, first.estimate.node);
-      continue;
+    if (first) {
+      // an internal node's figures carry over as they are; a storage node's name its own nets
+      const devices = canonicalDevices(ctx, n);
+      const twin = ctx.classification.storage[n] ? carryToTwin(ctx, first.estimate, n, devices) : copyEstimate(first.estimate, n, devices);
+      if (twin) {
+        out.set(n, twin);
+        shareOf.set(n, first.estimate.node);
+        continue;
+      }
     }
     const e = run.estimate(n);
     if (e) {
