@@ -17,6 +17,9 @@ import { applyAccepts } from './findings/accepts';
 import { buildContext, type ElectricalContext } from './analysis/electrical/context';
 import { estimateNodeSteps, nodesReading, updateEstimates, type NodeEstimate } from './analysis/electrical/estimate';
 import { patchSizes } from './circuit/patch';
+import { renameNets, type NetRename } from './circuit/rename';
+import { renameStates } from './analysis/classify';
+import { renameEstimates } from './analysis/electrical/estimate';
 import { sameRange } from './syntax/compare';
 import type { Range } from './core/source';
 import { runToEnd, type Steps } from './core/steps';
@@ -37,7 +40,7 @@ export interface CircuitAnalysis {
   electrical?: ElectricalContext;
   estimates?: Map<number, NodeEstimate>;
   /** This circuit's findings by stage, kept so an edit can redo only the stages it reaches. */
-  findings: { classification: Diagnostic[]; electrical: Diagnostic[] };
+  findings: { phases: Diagnostic[]; classification: Diagnostic[]; electrical: Diagnostic[] };
 }
 
 export const DEFAULT_TEMPS_C = [25, 110];
@@ -98,7 +101,7 @@ export function* analyseSteps(host: FileHost, file: string, options: EngineOptio
       const network = buildSwitchNetwork(circuit, clocks.clocks);
       yield;
       const classification = yield* classifySteps(network, plan);
-      const analysis: CircuitAnalysis = { circuit, plan, classification, findings: { classification: [...clocks.diagnostics, ...plan.diagnostics, ...classificationFindings(circuit, classification, options)], electrical: [] } };
+      const analysis: CircuitAnalysis = { circuit, plan, classification, findings: { phases: [...clocks.diagnostics, ...plan.diagnostics], classification: classificationFindings(circuit, classification, options), electrical: [] } };
       circuits.push(analysis);
       if (options.skipEstimates !== true) {
         const ctx = electricalContext(circuit, design, plan, classification, options);
@@ -124,6 +127,8 @@ export function reanalyse(previous: AnalysisResult, host: FileHost, file: string
   // a receiver budget reads the first storage node's inverter sizes
   if (previous.design.directives.budget?.receiver || options.budget?.receiver) return undefined;
   const deck = readDeck(host, file, options);
+  const renamed = renameNets(previous.deck, previous.design, deck, options);
+  if (renamed) return afterRename(previous, deck, renamed, options);
   const patch = patchSizes(previous.deck, previous.design, deck);
   if (!patch) return undefined;
   // a front-end finding on an edited line may change with it (a parameter, a bin, the scale)
@@ -141,9 +146,29 @@ export function reanalyse(previous: AnalysisResult, host: FileHost, file: string
     // keeper sizing reads the circuit's smallest devices: when those moved, every sized keeper is redone
     if (!sameSizingBasis(a.circuit, circuit)) for (const [n, e] of a.estimates!) if (e.suggestedKeeper || e.suggestedHolder) affected.add(n);
     const estimates = updateEstimates(ctx, a.estimates!, [...affected].sort((x, y) => x - y));
-    return { circuit, plan: a.plan, classification, electrical: ctx, estimates, findings: { classification: move(a.findings.classification), electrical: [...electricalFindings(ctx, estimates), ...modelNotes(circuit)] } };
+    return { circuit, plan: a.plan, classification, electrical: ctx, estimates, findings: { phases: move(a.findings.phases), classification: move(a.findings.classification), electrical: [...electricalFindings(ctx, estimates), ...modelNotes(circuit)] } };
   });
   return finish(deck, patch.design, circuits, previous.frontEnd, options);
+}
+
+/**
+ * After a rename (circuit/rename.ts): the same graph, so phases, classification and estimates
+ * stand with the new names put in; the findings are written again (they quote names).
+ */
+function afterRename(previous: AnalysisResult, deck: Deck, renamed: NetRename, options: EngineOptions): AnalysisResult | undefined {
+  const edited = (d: Diagnostic) => renamed.moved.some((m) => m.file === d.file && d.range.start.line >= m.from.start.line && d.range.start.line <= m.from.end.line);
+  if (previous.frontEnd.some(edited)) return undefined;
+  const names = renamed.names;
+  const circuits = previous.circuits.map((a, i): CircuitAnalysis => {
+    const circuit = renamed.design.circuits[i]!;
+    const network = { ...a.classification.network, circuit };
+    const classification: Classification = { ...a.classification, network, perPhase: a.classification.perPhase.map((m) => renameStates(m, names)) };
+    const electrical = a.electrical && { ...a.electrical, circuit, network, classification };
+    const estimates = a.estimates && renameEstimates(a.estimates, names);
+    const findings = { phases: moveEditedRanges(a.findings.phases, renamed.moved), classification: classificationFindings(circuit, classification, options), electrical: electrical && estimates ? [...electricalFindings(electrical, estimates), ...modelNotes(circuit)] : [] };
+    return { circuit, plan: a.plan, classification, ...(electrical ? { electrical } : {}), ...(estimates ? { estimates } : {}), findings };
+  });
+  return finish(deck, renamed.design, circuits, previous.frontEnd, options);
 }
 
 /** Findings kept across a size edit that point at an edited line take its new extent. */
@@ -159,7 +184,7 @@ function moveEditedRanges(list: Diagnostic[], moved: Array<{ file: string; from:
 /** All findings in file order, once each, with the accept directives applied. */
 function finish(deck: Deck, design: Design, circuits: CircuitAnalysis[], frontEnd: Diagnostic[], options: EngineOptions): AnalysisResult {
   const all = [...frontEnd];
-  for (const a of circuits) all.push(...a.findings.classification, ...a.findings.electrical);
+  for (const a of circuits) all.push(...a.findings.phases, ...a.findings.classification, ...a.findings.electrical);
   const byPlace = (a: Diagnostic, b: Diagnostic) => (a.file < b.file ? -1 : a.file > b.file ? 1 : a.range.start.line - b.range.start.line || a.range.start.character - b.range.start.character);
   all.sort(byPlace);
   // stale accepts are reported where they are written, in order with the rest

@@ -626,3 +626,31 @@ export function nodeFloatWindow(cl: Classification, node: number): number | null
   const idx = new Map<Phase, number>(cl.plan.phases.map((p, i) => [p, i]));
   return floatWindow(cl.plan, (p) => floatsIn(cl.perPhase[idx.get(p)!]!.get(node)));
 }
+
+/** A phase's results with net names replaced (a rename keeps the graph; witnesses quote names). */
+export function renameStates(states: Map<number, NodePhaseResult>, names: ReadonlyMap<string, string>): Map<number, NodePhaseResult> {
+  const rename = (r: Record<string, 0 | 1> | undefined) => {
+    if (!r) return r;
+    let changed = false;
+    for (const k in r) if (names.has(k)) changed = true;
+    if (!changed) return r;
+    const out: Record<string, 0 | 1> = {};
+    for (const k in r) out[names.get(k) ?? k] = r[k]!;
+    return out;
+  };
+  let out: Map<number, NodePhaseResult> | undefined;
+  for (const [n, r] of states) {
+    const when = rename(r.when);
+    const contentionWhen = rename(r.contentionWhen);
+    const cover = r.floatCover?.map((c) => rename(c)!);
+    const coverChanged = cover !== undefined && cover.some((c, k) => c !== r.floatCover![k]);
+    if (when === r.when && contentionWhen === r.contentionWhen && !coverChanged) continue;
+    out ??= new Map(states);
+    const next: NodePhaseResult = { ...r };
+    if (when) next.when = when;
+    if (contentionWhen) next.contentionWhen = contentionWhen;
+    if (cover) next.floatCover = cover;
+    out.set(n, next);
+  }
+  return out ?? states;
+}

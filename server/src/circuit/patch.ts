@@ -9,8 +9,8 @@ import type { Circuit, Design, Mosfet, Origin } from './circuit';
 import type { Deck } from './deck';
 import { selectModel } from './models';
 import { parseSpiceNumber } from './numbers';
-import { sameItem, sameRange } from '../syntax/compare';
-import type { AssignItem, Item, Statement, SyntaxFile } from '../syntax/tree';
+import { sameItem, sameRange, sameWords } from '../syntax/compare';
+import type { AssignItem, Statement, SyntaxFile } from '../syntax/tree';
 
 /** Sizes the patch can take, and how each scales with the geometry scale. */
 const SIZE_PARAMS: Record<string, 'length' | 'area' | 'count'> = { w: 'length', l: 'length', pd: 'length', ps: 'length', ad: 'area', as: 'area', m: 'count', mult: 'count', nf: 'count' };
@@ -143,24 +143,6 @@ function sizeEditOf(x: Statement, y: Statement): boolean {
     changedOnLine = p.range.start.line;
   }
   return changedOnLine >= 0;
-}
-
-/** The same words on the same lines, wherever they sit along the line. */
-function sameWords(p: Item, q: Item): boolean {
-  if (p.kind !== q.kind || p.range.start.line !== q.range.start.line || p.range.end.line !== q.range.end.line) return false;
-  const shift = q.range.start.character - p.range.start.character;
-  const moved = (r: Range): Range => ({ start: { line: r.start.line, character: r.start.character + shift }, end: { line: r.end.line, character: r.end.character + (r.end.line === r.start.line ? shift : 0) } });
-  const shifted = (it: Item): Item => {
-    switch (it.kind) {
-      case 'assign':
-        return { ...it, range: moved(it.range), name: { ...it.name, range: moved(it.name.range) }, value: it.value && (shifted(it.value) as typeof it.value) };
-      case 'group':
-        return { ...it, range: moved(it.range), items: it.items.map(shifted) };
-      default:
-        return { ...it, range: moved(it.range) };
-    }
-  };
-  return sameItem(shifted(p), q, 0);
 }
 
 function isPlainNumber(v: AssignItem['value']): boolean {

@@ -30,3 +30,27 @@ export function sameItem(x: Item, y: Item, lineShift: number): boolean {
     }
   }
 }
+
+/** The same words on the same lines, wherever they sit along the line. */
+export function sameWords(p: Item, q: Item): boolean {
+  if (p.kind !== q.kind || p.range.start.line !== q.range.start.line || p.range.end.line !== q.range.end.line) return false;
+  const shift = q.range.start.character - p.range.start.character;
+  const moved = (r: Range): Range => ({ start: { line: r.start.line, character: r.start.character + shift }, end: { line: r.end.line, character: r.end.character + (r.end.line === r.start.line ? shift : 0) } });
+  // built field by field: the parser's compact nodes keep their fields behind getters
+  const shifted = (it: Item): Item => {
+    switch (it.kind) {
+      case 'word':
+        return { kind: 'word', text: it.text, range: moved(it.range) };
+      case 'string':
+        return { kind: 'string', text: it.text, range: moved(it.range) };
+      case 'expr':
+        return { kind: 'expr', text: it.text, delimiter: it.delimiter, range: moved(it.range) };
+      case 'group':
+        return { kind: 'group', items: it.items.map(shifted), range: moved(it.range) };
+      case 'assign':
+        return { kind: 'assign', name: { kind: 'word', text: it.name.text, range: moved(it.name.range) }, value: it.value && (shifted(it.value) as typeof it.value), range: moved(it.range) };
+    }
+  };
+  return sameItem(shifted(p), q, 0);
+}
+

@@ -140,6 +140,39 @@ export function updateEstimates(ctx: ElectricalContext, previous: ReadonlyMap<nu
   return out;
 }
 
+/** Estimates with net names replaced (a rename keeps the graph and every figure). */
+export function renameEstimates(estimates: Map<number, NodeEstimate>, names: ReadonlyMap<string, string>): Map<number, NodeEstimate> {
+  const name = (s: string) => names.get(s) ?? s;
+  const inverter = (k: KeeperSuggestion['inverter']) => (k.existingOutput !== undefined && names.has(k.existingOutput) ? { ...k, existingOutput: name(k.existingOutput) } : k);
+  const keeper = (k: KeeperSuggestion): KeeperSuggestion => {
+    const inv = inverter(k.inverter);
+    return inv === k.inverter ? k : { ...k, inverter: inv };
+  };
+  let out: Map<number, NodeEstimate> | undefined;
+  for (const [n, e] of estimates) {
+    const cs = e.chargeSharing;
+    const csChanged = cs !== undefined && Object.keys(cs.when).some((k) => names.has(k));
+    const coupChanged = e.coupling.aggressors.some((a) => names.has(a.net));
+    const sk = e.suggestedKeeper && keeper(e.suggestedKeeper);
+    const sh = e.suggestedHolder;
+    const up = sh && keeper(sh.pullUp);
+    const down = sh && keeper(sh.pullDown);
+    const holderChanged = sh !== undefined && (up !== sh.pullUp || down !== sh.pullDown || inverter(sh.forward) !== sh.forward);
+    if (!csChanged && !coupChanged && sk === e.suggestedKeeper && !holderChanged) continue;
+    out ??= new Map(estimates);
+    const next: NodeEstimate = { ...e };
+    if (csChanged) next.chargeSharing = { ...cs!, when: Object.fromEntries(Object.entries(cs!.when).map(([k, v]) => [name(k), v])) };
+    if (coupChanged) next.coupling = { droopV: e.coupling.droopV, aggressors: e.coupling.aggressors.map((a) => ({ net: name(a.net), capacitanceF: a.capacitanceF, droopV: a.droopV, via: a.via })) };
+    if (sk) next.suggestedKeeper = sk;
+    if (sh && holderChanged) next.suggestedHolder = { ...sh, pullUp: up!, pullDown: down!, forward: up!.inverter };
+    out.set(n, next);
+  }
+  if (!out) return estimates;
+  const shares = sharedSolves.get(estimates);
+  if (shares) sharedSolves.set(out, shares);
+  return out;
+}
+
 /** The nodes whose estimates can read a device: those of the groups on its drain, gate and source. */
 export function nodesReading(ctx: ElectricalContext, mosfets: Iterable<number>): Set<number> {
   const net = ctx.network;

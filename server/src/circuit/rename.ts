@@ -1,0 +1,266 @@
+// The elaboration stage's answer to a net rename: when the new deck differs from the old one only
+// in node names on element lines, and within each subcircuit (or the top level) every use of a
+// name became one new name that was not used there before, the flat circuit is the same graph
+// with some nets called differently. Names that carry meaning (rails and clocks by their name,
+// globals, ports, names in directives or settings, source nodes) are never taken this way.
+// Anything else answers `undefined`, and the caller elaborates afresh.
+
+import { Span, type Range } from '../core/source';
+import { DEFAULT_CLOCK_PATTERN, DEFAULT_GROUND_PATTERN, DEFAULT_SUPPLY_PATTERN, type EngineOptions } from '../core/options';
+import type { Circuit, Design, Net, Origin } from './circuit';
+import type { Deck, SubcktDefinition } from './deck';
+import { interpretElement } from './elements';
+import { sameItem, sameRange, sameWords } from '../syntax/compare';
+import type { Item, Statement, SyntaxFile } from '../syntax/tree';
+
+export interface NetRename {
+  design: Design;
+  /** Flat net name -> its new name. */
+  names: Map<string, string>;
+  /** The edited lines: old range -> new range, per file. */
+  moved: Array<{ file: string; from: Range; to: Range }>;
+}
+
+const GROUND_ALIASES = new Set(['0', 'gnd', 'gnd!']);
+
+interface EditedLine {
+  file: string;
+  before: Statement;
+  after: Statement;
+  /** Node words renamed on it: [old, new], lower case. */
+  renames: Array<[string, string]>;
+}
+
+export function renameNets(previousDeck: Deck, previous: Design, deck: Deck, options: EngineOptions): NetRename | undefined {
+  const a = previousDeck.files;
+  const b = deck.files;
+  if (a.length !== b.length) return undefined;
+  const edited: EditedLine[] = [];
+  for (let i = 0; i < a.length; i++) {
+    const lines = editedLines(a[i]!, b[i]!);
+    if (!lines) return undefined;
+    edited.push(...lines);
+  }
+  if (edited.length === 0) return undefined;
+  // which subcircuit (or the top level, null) holds each edited line
+  const scopeOf = new Map<Statement, string | null>();
+  let nested = false;
+  const walk = (defs: Map<string, SubcktDefinition>) => {
+    for (const d of defs.values()) {
+      if (d.local.size) nested = true;
+      for (const s of d.body) scopeOf.set(s.item, d.name);
+      walk(d.local);
+    }
+  };
+  walk(deck.subckts);
+  for (const s of deck.top) scopeOf.set(s.item, null);
+  if (nested) return undefined;
+  const renames = new Map<string | null, Map<string, string>>();
+  for (const line of edited) {
+    const scope = scopeOf.get(line.after);
+    if (scope === undefined) return undefined;
+    const m = renames.get(scope) ?? new Map<string, string>();
+    renames.set(scope, m);
+    for (const [from, to] of line.renames) {
+      const had = m.get(from);
+      if (had !== undefined && had !== to) return undefined;
+      m.set(from, to);
+    }
+  }
+  if (!meaningless(renames, previousDeck, deck, previous, options)) return undefined;
+  // every use renamed, and the new names new in their scope: the same graph
+  for (const [scope, m] of renames) {
+    const before = namesIn(previousDeck, scope);
+    const after = namesIn(deck, scope);
+    if (!before || !after) return undefined;
+    const targets = new Set<string>();
+    for (const [from, to] of m) {
+      if (targets.has(to) || after.other.has(from) || after.nodes.has(from) || before.nodes.has(to) || before.other.has(to) || after.other.has(to) || before.other.has(from)) return undefined;
+      targets.add(to);
+    }
+  }
+  // positions on the edited lines: old start -> new range (items after a renamed word move along)
+  const moves = new Map<string, Range>();
+  const moved: NetRename['moved'] = [];
+  for (const line of edited) {
+    const key = (r: Range) => rangeKey(line.file, r);
+    moves.set(key(line.before.range), line.after.range);
+    const pairs = (x: Item[], y: Item[]) => x.forEach((it, k) => moves.set(key(it.range), y[k]!.range));
+    pairs([line.before.head], [line.after.head]);
+    pairs(line.before.items, line.after.items);
+    moved.push({ file: line.file, from: line.before.range, to: line.after.range });
+  }
+  const editedStart = new Set(edited.map((l) => `${l.file}|${startLine(l.before.range)}`));
+  // one moved origin per original, so every instance of a line still shares its origin
+  const movedOrigins = new Map<Origin, Origin>();
+  const moveOrigin = <T extends { origin: Origin }>(x: T): T => {
+    const o = x.origin;
+    if (!editedStart.has(`${o.file}|${startLine(o.range)}`)) return x;
+    let m = movedOrigins.get(o);
+    if (!m) {
+      const to = moves.get(rangeKey(o.file, o.range));
+      if (!to) return x;
+      movedOrigins.set(o, (m = { ...o, range: to }));
+    }
+    return { ...x, origin: m };
+  };
+  const names = new Map<string, string>();
+  const renamedOrigins = new Map<Origin, Origin>();
+  const circuits: Circuit[] = [];
+  for (const c of previous.circuits) {
+    let nets: Net[] | undefined;
+    for (let i = 0; i < c.nets.length; i++) {
+      const n = c.nets[i]!;
+      const to = renames.get(n.origin.subckt)?.get(n.origin.local);
+      if (to === undefined) continue;
+      if (n.global || !n.name.endsWith(n.origin.local)) return undefined;
+      const name = n.name.slice(0, n.name.length - n.origin.local.length) + to;
+      nets ??= c.nets.slice();
+      let origin = renamedOrigins.get(n.origin);
+      if (!origin) renamedOrigins.set(n.origin, (origin = { ...n.origin, local: to }));
+      nets[i] = { ...n, name, origin };
+      names.set(n.name, name);
+    }
+    const touched = <T extends { origin: Origin }>(list: T[]): T[] => {
+      let out: T[] | undefined;
+      for (let i = 0; i < list.length; i++) {
+        const x = list[i]!;
+        const y = moveOrigin(x);
+        if (y === x) continue;
+        out ??= list.slice();
+        out[i] = y;
+      }
+      return out ?? list;
+    };
+    const allNets = touched(nets ?? c.nets);
+    let netByName = c.netByName;
+    if (nets) {
+      netByName = new Map(c.netByName);
+      for (const [from, to] of names) {
+        const id = c.netByName.get(from);
+        if (id === undefined || netByName.has(to)) return undefined;
+        netByName.delete(from);
+        netByName.set(to, id);
+      }
+    }
+    circuits.push({ ...c, nets: allNets, netByName, mosfets: touched(c.mosfets), capacitors: touched(c.capacitors), resistors: touched(c.resistors), inductors: touched(c.inductors), sources: touched(c.sources), diodes: touched(c.diodes), others: touched(c.others), instances: touched(c.instances) });
+  }
+  if (names.size === 0) return undefined;
+  return { design: { ...previous, circuits }, names, moved };
+}
+
+/** A range by value: a line and its first word start at the same place, so the end counts too. */
+function rangeKey(file: string, r: Range): string {
+  return `${file}|${startLine(r)}|${r.start.character}|${r.end.line}|${r.end.character}`;
+}
+
+function startLine(r: Range): number {
+  return r instanceof Span ? r.startLine : r.start.line;
+}
+
+/** Names that decide roles, and names the user wrote elsewhere, are not renamed here. */
+function meaningless(renames: Map<string | null, Map<string, string>>, previousDeck: Deck, deck: Deck, design: Design, options: EngineOptions): boolean {
+  const supply = new RegExp(options.supplyNamePattern ?? DEFAULT_SUPPLY_PATTERN, 'i');
+  const ground = new RegExp(options.groundNamePattern ?? DEFAULT_GROUND_PATTERN, 'i');
+  const clock = new RegExp(options.clockNamePattern ?? DEFAULT_CLOCK_PATTERN, 'i');
+  const globals = new Set([...previousDeck.globals, ...deck.globals].map((g) => g.item.text.toLowerCase()));
+  const written = new Set<string>();
+  for (const d of [...previousDeck.directives, ...deck.directives]) for (const w of d.item.args) for (const part of w.text.toLowerCase().split(/[=,.:()]/)) written.add(part);
+  const collect = (defs: Map<string, SubcktDefinition>) => {
+    for (const d of defs.values()) {
+      for (const x of d.directives) for (const w of x.item.args) for (const part of w.text.toLowerCase().split(/[=,.:()]/)) written.add(part);
+      collect(d.local);
+    }
+  };
+  collect(previousDeck.subckts);
+  collect(deck.subckts);
+  for (const k of Object.keys(options.supplies ?? {})) written.add(k.toLowerCase());
+  for (const g of options.grounds ?? []) written.add(g.toLowerCase());
+  for (const k of options.clocks ?? []) written.add(k.net.toLowerCase()), k.inverseOf && written.add(k.inverseOf.toLowerCase());
+  for (const k of options.standby ?? []) written.add(k.net.toLowerCase());
+  void design;
+  for (const [scope, m] of renames) {
+    const ports = scope === null ? [] : [...(previousDeck.subckts.get(scope)?.ports ?? []), ...(deck.subckts.get(scope)?.ports ?? [])];
+    for (const [from, to] of m) {
+      for (const name of [from, to]) {
+        if (GROUND_ALIASES.has(name) || name.endsWith('!') || name.includes('.') || globals.has(name) || ports.includes(name) || written.has(name)) return false;
+        if (supply.test(name) || ground.test(name) || clock.test(name)) return false;
+      }
+    }
+  }
+  return true;
+}
+
+/** Node names used in a scope, and every other word there (so a renamed name may not hide in a card). */
+function namesIn(deck: Deck, scope: string | null): { nodes: Set<string>; other: Set<string> } | undefined {
+  const body = scope === null ? deck.top : deck.subckts.get(scope)?.body;
+  if (!body) return undefined;
+  const nodes = new Set<string>();
+  const other = new Set<string>();
+  const words = (it: Item) => {
+    if (it.kind === 'word') other.add(it.text.toLowerCase());
+    else if (it.kind === 'group') it.items.forEach(words);
+    else if (it.kind === 'assign') it.value && words(it.value);
+  };
+  for (const { item } of body) {
+    const head = item.head.text.toLowerCase();
+    const syntax = head.startsWith('.') ? undefined : interpretElement(item);
+    const nodeItems = new Set(syntax && 'nodes' in syntax ? syntax.nodes : []);
+    // a source's nodes decide clocks and inputs by name: never renamed
+    if (syntax?.kind === 'source') for (const w of syntax.nodes) other.add(w.text.toLowerCase());
+    for (const it of item.items) {
+      if (it.kind === 'word' && nodeItems.has(it)) nodes.add(it.text.toLowerCase());
+      else words(it);
+    }
+  }
+  return { nodes, other };
+}
+
+/** Element lines whose node names changed (and nothing else), or undefined when anything else differs. */
+function editedLines(a: SyntaxFile, b: SyntaxFile): EditedLine[] | undefined {
+  if (a.file !== b.file || a.title !== b.title) return undefined;
+  if (a.statements.length !== b.statements.length || a.directives.length !== b.directives.length || a.pinInfos.length !== b.pinInfos.length || a.diagnostics.length !== b.diagnostics.length) return undefined;
+  if (JSON.stringify(a.directives) !== JSON.stringify(b.directives) || JSON.stringify(a.pinInfos) !== JSON.stringify(b.pinInfos) || JSON.stringify(a.diagnostics) !== JSON.stringify(b.diagnostics)) return undefined;
+  const out: EditedLine[] = [];
+  for (let i = 0; i < a.statements.length; i++) {
+    const x = a.statements[i]!;
+    const y = b.statements[i]!;
+    if (x === y) continue;
+    if (sameRange(x.range, y.range, 0) && sameItem(x.head, y.head, 0) && x.items.length === y.items.length && x.items.every((it, k) => sameItem(it, y.items[k]!, 0))) continue;
+    const renames = renamedNodes(x, y);
+    if (!renames) return undefined;
+    out.push({ file: a.file, before: x, after: y, renames });
+  }
+  return out;
+}
+
+/** The node words of an element line that changed, when nothing else on it did. */
+function renamedNodes(x: Statement, y: Statement): Array<[string, string]> | undefined {
+  if (x.head.text[0] === '.' || !sameItem(x.head, y.head, 0) || x.items.length !== y.items.length) return undefined;
+  if (x.range.start.line !== y.range.start.line || x.range.end.line !== y.range.end.line) return undefined;
+  const sx = interpretElement(x);
+  const sy = interpretElement(y);
+  if (!sx || !sy || sx.kind !== sy.kind || !('nodes' in sx) || !('nodes' in sy) || sx.nodes.length !== sy.nodes.length || sx.kind === 'source') return undefined;
+  const nodeAt = new Map<Item, number>();
+  sx.nodes.forEach((w, k) => nodeAt.set(w, k));
+  const out: Array<[string, string]> = [];
+  let shiftedLine = -1;
+  for (let k = 0; k < x.items.length; k++) {
+    const p = x.items[k]!;
+    const q = y.items[k]!;
+    if (sameItem(p, q, 0)) continue;
+    const node = nodeAt.get(p);
+    if (node !== undefined && q.kind === 'word' && sy.nodes[node] === q && p.range.start.line === q.range.start.line) {
+      if (p.range.start.character !== q.range.start.character && p.range.start.line !== shiftedLine) return undefined;
+      const from = (p as { text: string }).text.toLowerCase();
+      const to = q.text.toLowerCase();
+      if (from !== to) out.push([from, to]);
+      shiftedLine = p.range.start.line;
+      continue;
+    }
+    // a word further along a line whose earlier word was renamed
+    if (p.range.start.line === shiftedLine && sameWords(p, q)) continue;
+    return undefined;
+  }
+  return out.length ? out : undefined;
+}
