@@ -90,12 +90,12 @@ export function renameNets(previousDeck: Deck, previous: Design, deck: Deck, opt
     pairs(line.before.items, line.after.items);
     moved.push({ file: line.file, from: line.before.range, to: line.after.range });
   }
-  const editedStart = new Set(edited.map((l) => `${l.file}|${startLine(l.before.range)}`));
+  const editedStart = new Set(edited.map((l) => startLine(l.before.range)));
   // one moved origin per original, so every instance of a line still shares its origin
   const movedOrigins = new Map<Origin, Origin>();
   const moveOrigin = <T extends { origin: Origin }>(x: T): T => {
     const o = x.origin;
-    if (!editedStart.has(`${o.file}|${startLine(o.range)}`)) return x;
+    if (!editedStart.has(startLine(o.range))) return x;
     let m = movedOrigins.get(o);
     if (!m) {
       const to = moves.get(rangeKey(o.file, o.range));

@@ -39,7 +39,9 @@ export function electricalFindings(ctx: ElectricalContext, estimates: Map<number
     const name = c.nets[e.node]!.name;
     const primary = e.stored.find((s) => s.level === e.primaryLevel)!;
     const window = e.floatWindowS;
-    const cap = formatEng(e.capacitance.totalF, 'F');
+    // formatted only for a node that has a finding (most have none)
+    let capText: string | undefined;
+    const capOf = () => (capText ??= formatEng(e.capacitance.totalF, 'F'));
     // retention against the float window
     if (window !== null) {
       for (const k of primary.corners) {
@@ -53,7 +55,7 @@ export function electricalFindings(ctx: ElectricalContext, estimates: Map<number
             e.node,
             'retention-short',
             ratio < 1 ? 'error' : 'warning',
-            `${name} holding ${e.primaryLevel}: at ${k.tempC} C it leaks ${formatEng(k.leakageA, 'A')}${who} and droops by the ${b} budget in ${formatEng(k.retentionS, 's')}, ${ratio < 1 ? 'shorter than' : 'less than 3x'} ${w} (C = ${cap}; phase ${primary.phase})`,
+            `${name} holding ${e.primaryLevel}: at ${k.tempC} C it leaks ${formatEng(k.leakageA, 'A')}${who} and droops by the ${b} budget in ${formatEng(k.retentionS, 's')}, ${ratio < 1 ? 'shorter than' : 'less than 3x'} ${w} (C = ${capOf()}; phase ${primary.phase})`,
           );
           break;
         }
@@ -62,7 +64,7 @@ export function electricalFindings(ctx: ElectricalContext, estimates: Map<number
     const share = e.chargeSharing?.droopV ?? 0;
     if (share > budget) {
       const when = Object.entries(e.chargeSharing!.when).map(([k, v]) => `${k}=${v}`).join(' ');
-      emit(e.node, 'charge-sharing', share > 2 * budget ? 'error' : 'warning', `${name}: charge sharing with ${e.chargeSharing!.joined.map((j) => c.nets[j]!.name).join(', ')} (${formatEng(e.chargeSharing!.sharedF, 'F')} against ${cap}) when ${when} droops it by ${formatEng(share, 'V')}, over the ${b} budget`);
+      emit(e.node, 'charge-sharing', share > 2 * budget ? 'error' : 'warning', `${name}: charge sharing with ${e.chargeSharing!.joined.map((j) => c.nets[j]!.name).join(', ')} (${formatEng(e.chargeSharing!.sharedF, 'F')} against ${capOf()}) when ${when} droops it by ${formatEng(share, 'V')}, over the ${b} budget`);
     }
     const coup = e.coupling.droopV;
     if (coup > budget) {

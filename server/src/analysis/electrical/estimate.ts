@@ -5,7 +5,7 @@
 import { floatsIn, nodeFloatWindow, type NodePhaseResult } from '../classify';
 import { evaluateComponent, newScratch, type Scratch } from '../constants';
 import { NetRole } from '../switchNetwork';
-import { carryToTwin } from './family';
+import { carryToTwin, familyOf, type Family } from './family';
 import { ITEMS_PER_SLICE, runToEnd, type Steps } from '../../core/steps';
 import type { ElectricalContext } from './context';
 import { capacitanceSignature, islandCapacitance, type CapacitanceBreakdown } from './capacitance';
@@ -86,15 +86,21 @@ export function* estimateNodeSteps(ctx: ElectricalContext): Steps<Map<number, No
     const e = run.estimate(n);
     if (e) out.set(n, e);
   }
-  sharedSolves.set(out, run.shareOf);
+  sharedSolves.set(out, sharesOf(run.shareOf, ctx.circuit.nets.length));
   return out;
+}
+
+function sharesOf(map: ReadonlyMap<number, number>, netCount: number): Int32Array {
+  const a = new Int32Array(netCount).fill(-1);
+  for (const [n, r] of map) a[n] = r;
+  return a;
 }
 
 /**
  * Which node's solve each estimate copies (itself when it was solved), per estimate map: a later
  * size edit solves each such family once again and copies the rest.
  */
-const sharedSolves = new WeakMap<ReadonlyMap<number, NodeEstimate>, Map<number, number>>();
+const sharedSolves = new WeakMap<ReadonlyMap<number, NodeEstimate>, Int32Array>();
 
 /**
  * The estimates after an edit that changed only device sizes: the nodes in `affected` (every
@@ -107,33 +113,35 @@ export function updateEstimates(ctx: ElectricalContext, previous: ReadonlyMap<nu
   const run = new EstimateRun(ctx);
   const out = new Map(previous);
   const before = sharedSolves.get(previous);
-  const shareOf = new Map(before ?? []);
+  const shareOf = before ? before.slice() : new Int32Array(ctx.circuit.nets.length).fill(-1);
   const affectedSet = new Set(affected);
   // the family's first affected node is solved; the others copy it when they are internal nodes
-  const solvedFor = new Map<number, { estimate: NodeEstimate }>();
+  const solvedFor = new Map<number, { estimate: NodeEstimate; family?: Family }>();
   for (const n of affected) {
     // the classification did not change, so neither did which nodes have an estimate
     if (!previous.has(n)) continue;
-    const family = before?.get(n);
+    const family = before && before[n]! >= 0 ? before[n]! : undefined;
     const first = family !== undefined && affectedSet.has(family) ? solvedFor.get(family) : undefined;
     if (first) {
       // an internal node's figures carry over as they are; a storage node's name its own nets
       const devices = canonicalDevices(ctx, n);
-      const twin = ctx.classification.storage[n] ? carryToTwin(ctx, first.estimate, n, devices) : copyEstimate(first.estimate, n, devices);
+      let twin: NodeEstimate | undefined;
+      if (ctx.classification.storage[n]) twin = carryToTwin(ctx, (first.family ??= familyOf(ctx, first.estimate)), n, devices);
+      else twin = copyEstimate(first.estimate, n, devices);
       if (twin) {
         out.set(n, twin);
-        shareOf.set(n, first.estimate.node);
+        shareOf[n] = first.estimate.node;
         continue;
       }
     }
     const e = run.estimate(n);
     if (e) {
       out.set(n, e);
-      shareOf.set(n, run.shareOf.get(n) ?? n);
+      shareOf[n] = run.shareOf.get(n) ?? n;
       if (family !== undefined && !solvedFor.has(family)) solvedFor.set(family, { estimate: e });
     } else {
       out.delete(n);
-      shareOf.delete(n);
+      shareOf[n] = -1;
     }
   }
   sharedSolves.set(out, shareOf);

@@ -6,6 +6,7 @@
 import type { NodeEstimate } from './estimate';
 import type { ElectricalContext } from './context';
 import type { KeeperSuggestion, HolderSuggestion } from './keeper';
+import type { CapacitanceBreakdown } from './capacitance';
 
 /** Every net a node's estimate can name, in an order that identical nodes share. */
 export function netsAround(ctx: ElectricalContext, n: number, devices: readonly number[]): number[] {
@@ -20,32 +21,73 @@ export function netsAround(ctx: ElectricalContext, n: number, devices: readonly 
   return out;
 }
 
-/** Position-for-position correspondence of two lists, or undefined when they are not wired alike. */
-function correspondence(a: readonly number[], b: readonly number[]): Map<number, number> | undefined {
-  if (a.length !== b.length) return undefined;
-  const fwd = new Map<number, number>();
-  const back = new Map<number, number>();
-  for (let i = 0; i < a.length; i++) {
-    const x = a[i]!;
-    const y = b[i]!;
-    const f = fwd.get(x);
-    const r = back.get(y);
-    if (f === undefined && r === undefined) {
-      fwd.set(x, y);
-      back.set(y, x);
-    } else if (f !== y || r !== x) return undefined;
+/**
+ * A list's wiring pattern: for each position, the first position holding the same value. Two
+ * lists are wired alike when their patterns are equal.
+ */
+function patternOf(list: readonly number[]): Int32Array {
+  const first = new Map<number, number>();
+  const out = new Int32Array(list.length);
+  list.forEach((x, i) => {
+    const f = first.get(x);
+    if (f === undefined) first.set(x, i);
+    out[i] = f ?? i;
+  });
+  return out;
+}
+
+/** Per net/device id, the last check that saw it (so a check allocates nothing per id). */
+let stamps = new Int32Array(1024);
+let stampNow = 0;
+function wiredAlike(pattern: Int32Array, list: readonly number[]): boolean {
+  if (list.length !== pattern.length) return false;
+  stampNow++;
+  for (let i = 0; i < list.length; i++) {
+    const x = list[i]!;
+    if (pattern[i] !== i) {
+      if (list[pattern[i]!] !== x) return false;
+      continue;
+    }
+    // a first occurrence in the pattern: its value must be new here too
+    if (x >= stamps.length) {
+      const grown = new Int32Array(Math.max(x + 1, stamps.length * 2));
+      grown.set(stamps);
+      stamps = grown;
+    }
+    if (stamps[x] === stampNow) return false;
+    stamps[x] = stampNow;
   }
-  return fwd;
+  return true;
+}
+
+/** What carrying one node's estimate to its twins needs, worked out once per family. */
+export interface Family {
+  from: NodeEstimate;
+  netPos: Map<number, number>;
+  netPattern: Int32Array;
+  devPos: Map<number, number>;
+  devPattern: Int32Array;
+}
+
+export function familyOf(ctx: ElectricalContext, from: NodeEstimate): Family {
+  const nets = netsAround(ctx, from.node, from.devices);
+  const netPos = new Map<number, number>();
+  nets.forEach((x, i) => netPos.has(x) || netPos.set(x, i));
+  const devPos = new Map<number, number>();
+  from.devices.forEach((x, i) => devPos.has(x) || devPos.set(x, i));
+  return { from, netPos, netPattern: patternOf(nets), devPos, devPattern: patternOf(from.devices) };
 }
 
 /**
- * `from` (the estimate of node `fromNode`, devices `fromDevices`) carried to node `n` with
- * devices `devices`, or undefined when the two are not wired alike.
+ * The family's estimate carried to node `n` with devices `devices`, or undefined when the two
+ * are not wired alike (then the node is estimated on its own).
  */
-export function carryToTwin(ctx: ElectricalContext, from: NodeEstimate, n: number, devices: number[]): NodeEstimate | undefined {
-  const nets = correspondence(netsAround(ctx, from.node, from.devices), netsAround(ctx, n, devices));
-  const devs = correspondence(from.devices, devices);
-  if (!nets || !devs) return undefined;
+export function carryToTwin(ctx: ElectricalContext, family: Family, n: number, devices: number[]): NodeEstimate | undefined {
+  const from = family.from;
+  const around = netsAround(ctx, n, devices);
+  if (!wiredAlike(family.netPattern, around) || !wiredAlike(family.devPattern, devices)) return undefined;
+  const nets = { has: (x: number) => family.netPos.has(x), get: (x: number) => around[family.netPos.get(x)!] };
+  const devs = { has: (x: number) => family.devPos.has(x), get: (x: number) => devices[family.devPos.get(x)!] };
   const c = ctx.circuit;
   const net = (x: number) => nets.get(x)!;
   const dev = (x: number) => devs.get(x)!;
@@ -55,7 +97,7 @@ export function carryToTwin(ctx: ElectricalContext, from: NodeEstimate, n: numbe
   const rename = (s: string): string | undefined => {
     if (!deviceNames) {
       deviceNames = new Map();
-      for (const [x, y] of devs) deviceNames.set(c.mosfets[x]!.name, c.mosfets[y]!.name);
+      for (const [x, k] of family.devPos) deviceNames.set(c.mosfets[x]!.name, c.mosfets[devices[k]!]!.name);
     }
     const id = c.netByName.get(s);
     const asNet = id !== undefined && nets.has(id) ? c.nets[nets.get(id)!]!.name : undefined;
@@ -87,9 +129,9 @@ export function carryToTwin(ctx: ElectricalContext, from: NodeEstimate, n: numbe
     ...from,
     node: n,
     devices,
-    // written out field by field: spreading these small records is far slower in V8
-    capacitance: { ...from.capacitance, aggressors: from.capacitance.aggressors.map((a) => (a.device === undefined ? { net: net(a.net), capacitanceF: a.capacitanceF, via: a.via } : { net: net(a.net), capacitanceF: a.capacitanceF, via: a.via, device: dev(a.device) })) },
-    coupling: { droopV: from.coupling.droopV, aggressors: from.coupling.aggressors.map((a) => ({ net: rename(a.net)!, capacitanceF: a.capacitanceF, droopV: a.droopV, via: a.via })) },
+    // records built by constructors: object literals that outlive a hot loop are far slower in V8
+    capacitance: withAggressors(from.capacitance, from.capacitance.aggressors.map((a) => new CapacitanceAggressor(net(a.net), a.capacitanceF, a.via, a.device === undefined ? undefined : dev(a.device)))),
+    coupling: { droopV: from.coupling.droopV, aggressors: from.coupling.aggressors.map((a) => new CouplingAggressor(rename(a.net)!, a.capacitanceF, a.droopV, a.via)) },
   };
   if (from.chargeSharing) {
     const cs = from.chargeSharing;
@@ -112,4 +154,42 @@ export function carryToTwin(ctx: ElectricalContext, from: NodeEstimate, n: numbe
     est.suggestedHolder = { ...h, pullUp: up, pullDown: down, forward: up.inverter };
   }
   return clash ? undefined : est;
+}
+
+function withAggressors(k: CapacitanceBreakdown, aggressors: CapacitanceBreakdown['aggressors']): CapacitanceBreakdown {
+  return new Capacitance(k.totalF, k.gateF, k.diffusionF, k.overlapF, k.explicitF, k.couplingF, aggressors, k.estimatedGeometry);
+}
+
+class Capacitance implements CapacitanceBreakdown {
+  constructor(
+    readonly totalF: number,
+    readonly gateF: number,
+    readonly diffusionF: number,
+    readonly overlapF: number,
+    readonly explicitF: number,
+    readonly couplingF: number,
+    readonly aggressors: CapacitanceBreakdown['aggressors'],
+    readonly estimatedGeometry: boolean,
+  ) {}
+}
+
+class CapacitanceAggressor {
+  declare device?: number;
+  constructor(
+    readonly net: number,
+    readonly capacitanceF: number,
+    readonly via: 'capacitor' | 'overlap',
+    device: number | undefined,
+  ) {
+    if (device !== undefined) this.device = device;
+  }
+}
+
+class CouplingAggressor {
+  constructor(
+    readonly net: string,
+    readonly capacitanceF: number,
+    readonly droopV: number,
+    readonly via: string,
+  ) {}
 }
