@@ -275,11 +275,14 @@ function schedule(uri: string, delayMs = EDIT_DEBOUNCE_MS): void {
   clearTimeout(timers.get(uri));
   const gen = genOf(uri) + 1;
   generation.set(uri, gen);
-  // after the messages already received (an outline request right behind the edit goes first)
+  // after the messages already received: the protocol library takes one message per turn of
+  // the event loop, so two turns let a request sent right behind the edit (an outline) go first
   if (delayMs > 0)
-    setImmediate(() => {
-      if (genOf(uri) === gen) guard('quick re-analysis', () => quickAnswer(uri), undefined);
-    });
+    setImmediate(() =>
+      setImmediate(() => {
+        if (genOf(uri) === gen) guard('quick re-analysis', () => quickAnswer(uri), undefined);
+      }),
+    );
   timers.set(
     uri,
     setTimeout(() => {
