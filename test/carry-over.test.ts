@@ -8,16 +8,12 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { analyse, readDeck } from '../server/src/engine';
 import { diskHost } from '../server/src/cli/diskHost';
-import type { FileHost } from '../server/src/core/host';
 import { carryOver } from '../server/src/service/carryOver';
+import { overlay } from './support/edits';
 
 const SAMPLES = path.join(__dirname, '..', 'samples');
 const samples = fs.readdirSync(SAMPLES).filter((f) => f.endsWith('.sp'));
 
-function overlay(file: string, text: string): FileHost {
-  const disk = diskHost();
-  return { ...disk, readFile: (p) => (path.resolve(p) === path.resolve(file) ? text : disk.readFile(p)) };
-}
 
 /** Plain data, so ranges compare by value whatever class holds them. */
 const plain = (x: unknown) => JSON.parse(JSON.stringify(x));

@@ -8,24 +8,14 @@ import * as fs from 'node:fs';
 import * as path from 'node:path';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { analyse, reanalyse, type AnalysisResult } from '../server/src/engine';
-import { diskHost } from '../server/src/cli/diskHost';
+import { analyse, reanalyse } from '../server/src/engine';
 import { memoryHost, type FileHost } from '../server/src/core/host';
-import { addToReport, emptyReport } from '../server/src/findings/report';
+import { overlay, report } from './support/edits';
 import { hierarchicalNetlist } from '../scripts/netlists';
 
 const SAMPLES = path.join(__dirname, '..', 'samples');
 
-function overlay(file: string, text: string): FileHost {
-  const disk = diskHost();
-  return { ...disk, readFile: (p) => (path.resolve(p) === path.resolve(file) ? text : disk.readFile(p)) };
-}
 
-function report(file: string, r: AnalysisResult): unknown {
-  const rep = emptyReport();
-  addToReport(rep, file, r, { allNodes: true });
-  return JSON.parse(JSON.stringify(rep));
-}
 
 /** Node words of element lines: [line, word index] for M (4 nodes) and X (all but the last word) lines. */
 function nodeWords(lines: string[]): Array<[number, number]> {

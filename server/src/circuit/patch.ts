@@ -9,8 +9,8 @@ import type { Circuit, Design, Mosfet, Origin } from './circuit';
 import type { Deck } from './deck';
 import { selectModel } from './models';
 import { parseSpiceNumber } from './numbers';
-import { sameItem, sameRange, sameWords } from '../syntax/compare';
-import type { AssignItem, Statement, SyntaxFile } from '../syntax/tree';
+import { editedStatements, sameItem, sameWords } from '../syntax/compare';
+import type { AssignItem, Statement } from '../syntax/tree';
 
 /** Sizes the patch can take, and how each scales with the geometry scale. */
 const SIZE_PARAMS: Record<string, 'length' | 'area' | 'count'> = { w: 'length', l: 'length', pd: 'length', ps: 'length', ad: 'area', as: 'area', m: 'count', mult: 'count', nf: 'count' };
@@ -36,16 +36,8 @@ interface EditedLine {
 }
 
 export function patchSizes(previousDeck: Deck, previous: Design, deck: Deck): SizePatch | undefined {
-  const a = previousDeck.files;
-  const b = deck.files;
-  if (a.length !== b.length) return undefined;
-  const edited: EditedLine[] = [];
-  for (let i = 0; i < a.length; i++) {
-    const lines = editedLines(a[i]!, b[i]!);
-    if (!lines) return undefined;
-    edited.push(...lines);
-  }
-  if (edited.length === 0) return undefined;
+  const edited = editedStatements(previousDeck.files, deck.files, (file, before, after): EditedLine | undefined => (sizeEditOf(before, after) ? { file, before, after } : undefined));
+  if (!edited || edited.length === 0) return undefined;
   const scale = previous.geometryScale;
   // devices are found by where their line starts: an earlier edit's analysis may hold an
   // older parse of the same, unchanged line
@@ -99,27 +91,6 @@ export function patchSizes(previousDeck: Deck, previous: Design, deck: Deck): Si
 
 function startLine(r: Range): number {
   return r instanceof Span ? r.startLine : r.start.line;
-}
-
-/** The MOSFET lines whose sizes changed, or undefined when anything else differs. */
-function editedLines(a: SyntaxFile, b: SyntaxFile): EditedLine[] | undefined {
-  if (a.file !== b.file || a.title !== b.title) return undefined;
-  if (a.statements.length !== b.statements.length || a.directives.length !== b.directives.length || a.pinInfos.length !== b.pinInfos.length || a.diagnostics.length !== b.diagnostics.length) return undefined;
-  if (JSON.stringify(a.directives) !== JSON.stringify(b.directives) || JSON.stringify(a.pinInfos) !== JSON.stringify(b.pinInfos) || JSON.stringify(a.diagnostics) !== JSON.stringify(b.diagnostics)) return undefined;
-  const out: EditedLine[] = [];
-  for (let i = 0; i < a.statements.length; i++) {
-    const x = a.statements[i]!;
-    const y = b.statements[i]!;
-    if (x === y) continue;
-    if (sameStatement(x, y)) continue;
-    if (!sizeEditOf(x, y)) return undefined;
-    out.push({ file: a.file, before: x, after: y });
-  }
-  return out;
-}
-
-function sameStatement(x: Statement, y: Statement): boolean {
-  return sameRange(x.range, y.range, 0) && sameItem(x.head, y.head, 0) && x.items.length === y.items.length && x.items.every((it, k) => sameItem(it, y.items[k]!, 0));
 }
 
 /**

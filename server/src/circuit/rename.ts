@@ -10,8 +10,8 @@ import { DEFAULT_CLOCK_PATTERN, DEFAULT_GROUND_PATTERN, DEFAULT_SUPPLY_PATTERN, 
 import type { Circuit, Design, Net, Origin } from './circuit';
 import type { Deck, SubcktDefinition } from './deck';
 import { interpretElement } from './elements';
-import { sameItem, sameRange, sameWords } from '../syntax/compare';
-import type { Item, Statement, SyntaxFile } from '../syntax/tree';
+import { editedStatements, sameItem, sameWords } from '../syntax/compare';
+import type { Item, Statement } from '../syntax/tree';
 
 export interface NetRename {
   design: Design;
@@ -32,16 +32,11 @@ interface EditedLine {
 }
 
 export function renameNets(previousDeck: Deck, previous: Design, deck: Deck, options: EngineOptions): NetRename | undefined {
-  const a = previousDeck.files;
-  const b = deck.files;
-  if (a.length !== b.length) return undefined;
-  const edited: EditedLine[] = [];
-  for (let i = 0; i < a.length; i++) {
-    const lines = editedLines(a[i]!, b[i]!);
-    if (!lines) return undefined;
-    edited.push(...lines);
-  }
-  if (edited.length === 0) return undefined;
+  const edited = editedStatements(previousDeck.files, deck.files, (file, before, after): EditedLine | undefined => {
+    const renames = renamedNodes(before, after);
+    return renames ? { file, before, after, renames } : undefined;
+  });
+  if (!edited || edited.length === 0) return undefined;
   // which subcircuit (or the top level, null) holds each edited line
   const scopeOf = new Map<Statement, string | null>();
   let nested = false;
@@ -214,24 +209,6 @@ function namesIn(deck: Deck, scope: string | null): { nodes: Set<string>; other:
     }
   }
   return { nodes, other };
-}
-
-/** Element lines whose node names changed (and nothing else), or undefined when anything else differs. */
-function editedLines(a: SyntaxFile, b: SyntaxFile): EditedLine[] | undefined {
-  if (a.file !== b.file || a.title !== b.title) return undefined;
-  if (a.statements.length !== b.statements.length || a.directives.length !== b.directives.length || a.pinInfos.length !== b.pinInfos.length || a.diagnostics.length !== b.diagnostics.length) return undefined;
-  if (JSON.stringify(a.directives) !== JSON.stringify(b.directives) || JSON.stringify(a.pinInfos) !== JSON.stringify(b.pinInfos) || JSON.stringify(a.diagnostics) !== JSON.stringify(b.diagnostics)) return undefined;
-  const out: EditedLine[] = [];
-  for (let i = 0; i < a.statements.length; i++) {
-    const x = a.statements[i]!;
-    const y = b.statements[i]!;
-    if (x === y) continue;
-    if (sameRange(x.range, y.range, 0) && sameItem(x.head, y.head, 0) && x.items.length === y.items.length && x.items.every((it, k) => sameItem(it, y.items[k]!, 0))) continue;
-    const renames = renamedNodes(x, y);
-    if (!renames) return undefined;
-    out.push({ file: a.file, before: x, after: y, renames });
-  }
-  return out;
 }
 
 /** The node words of an element line that changed, when nothing else on it did. */

@@ -184,15 +184,7 @@ function analysisOf(uri: string): Promise<Cached | undefined> {
 async function runAnalysis(uri: string, gen: number): Promise<Cached | undefined> {
   const file = fileURLToPath(uri);
   // every text the run reads, as it read it (all reads happen in its first slice)
-  const texts = new Map<string, string | undefined>();
-  const recording: FileHost = {
-    ...host,
-    readFile(p) {
-      const t = host.readFile(p);
-      if (!texts.has(p)) texts.set(p, t);
-      return t;
-    },
-  };
+  const { texts, recording } = recordingHost();
   const lines = countLines(host.readFile(file) ?? '');
   const steps = analyseSteps(recording, file, engineOptions(lines));
   let sliceStart = performance.now();
@@ -215,6 +207,20 @@ async function runAnalysis(uri: string, gen: number): Promise<Cached | undefined
       return undefined;
     }
   }
+}
+
+/** The host, noting each text read, so a result knows the texts it came from. */
+function recordingHost(): { texts: Map<string, string | undefined>; recording: FileHost } {
+  const texts = new Map<string, string | undefined>();
+  const recording: FileHost = {
+    ...host,
+    readFile(p) {
+      const t = host.readFile(p);
+      if (!texts.has(p)) texts.set(p, t);
+      return t;
+    },
+  };
+  return { texts, recording };
 }
 
 function countLines(text: string): number {
@@ -303,15 +309,7 @@ function quickAnswer(uri: string): void {
     return;
   }
   const file = fileURLToPath(uri);
-  const texts = new Map<string, string | undefined>();
-  const recording: FileHost = {
-    ...host,
-    readFile(p) {
-      const t = host.readFile(p);
-      if (!texts.has(p)) texts.set(p, t);
-      return t;
-    },
-  };
+  const { texts, recording } = recordingHost();
   const result = reanalyse(last.result, recording, file, engineOptions(countLines(host.readFile(file) ?? '')));
   if (!result) return;
   results.set(uri, { texts, result });

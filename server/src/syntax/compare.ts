@@ -2,7 +2,7 @@
 // lines. Used by the editor's carry-over of findings and by the size-edit patch.
 
 import type { Range } from '../core/source';
-import type { Item } from './tree';
+import type { Item, Statement, SyntaxFile } from './tree';
 
 /** Same position after moving `lineShift` lines down (characters unchanged). */
 export function sameRange(x: Range, y: Range, lineShift: number): boolean {
@@ -54,3 +54,33 @@ export function sameWords(p: Item, q: Item): boolean {
   return sameItem(shifted(p), q, 0);
 }
 
+
+/**
+ * The statements that differ between two parses of the same files, each judged by `judge`
+ * (undefined: a difference of another kind, and the comparison gives up). Titles, directives,
+ * pin lines, the parser's findings and every other statement must be the same, in place.
+ */
+export function editedStatements<T>(a: readonly SyntaxFile[], b: readonly SyntaxFile[], judge: (file: string, before: Statement, after: Statement) => T | undefined): T[] | undefined {
+  if (a.length !== b.length) return undefined;
+  const out: T[] = [];
+  for (let f = 0; f < a.length; f++) {
+    const x = a[f]!;
+    const y = b[f]!;
+    if (x.file !== y.file || x.title !== y.title) return undefined;
+    if (x.statements.length !== y.statements.length || x.directives.length !== y.directives.length || x.pinInfos.length !== y.pinInfos.length || x.diagnostics.length !== y.diagnostics.length) return undefined;
+    if (JSON.stringify(x.directives) !== JSON.stringify(y.directives) || JSON.stringify(x.pinInfos) !== JSON.stringify(y.pinInfos) || JSON.stringify(x.diagnostics) !== JSON.stringify(y.diagnostics)) return undefined;
+    for (let i = 0; i < x.statements.length; i++) {
+      const p = x.statements[i]!;
+      const q = y.statements[i]!;
+      if (p === q || sameStatement(p, q)) continue;
+      const judged = judge(x.file, p, q);
+      if (judged === undefined) return undefined;
+      out.push(judged);
+    }
+  }
+  return out;
+}
+
+export function sameStatement(x: Statement, y: Statement): boolean {
+  return sameRange(x.range, y.range, 0) && sameItem(x.head, y.head, 0) && x.items.length === y.items.length && x.items.every((it, k) => sameItem(it, y.items[k]!, 0));
+}
