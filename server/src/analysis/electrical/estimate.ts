@@ -73,13 +73,17 @@ export interface NodeEstimate {
 /** Results of identical leakage problems (repeated cells), keyed by their structure. */
 type LeakCache = Map<string, { corners: Array<{ leakageA: number; retentionS: number | null; held: boolean; contributors: Array<{ pos: number; mechanism: LeakageContributor['mechanism']; currentA: number }> }> }>;
 
-export function estimateNodes(ctx: ElectricalContext): Map<number, NodeEstimate> {
-  return runToEnd(estimateNodeSteps(ctx));
+/**
+ * `twins: false` estimates every storage node on its own even when an identically wired node of
+ * the same structure was estimated already (for the test that holds the two ways equal).
+ */
+export function estimateNodes(ctx: ElectricalContext, how: { twins?: boolean } = {}): Map<number, NodeEstimate> {
+  return runToEnd(estimateNodeSteps(ctx, how));
 }
 
 /** `estimateNodes` in slices (see core/steps). */
-export function* estimateNodeSteps(ctx: ElectricalContext): Steps<Map<number, NodeEstimate>> {
-  const run = new EstimateRun(ctx);
+export function* estimateNodeSteps(ctx: ElectricalContext, how: { twins?: boolean } = {}): Steps<Map<number, NodeEstimate>> {
+  const run = new EstimateRun(ctx, how.twins !== false);
   const out = new Map<number, NodeEstimate>();
   for (let n = 0; n < ctx.circuit.nets.length; n++) {
     if (n % ITEMS_PER_SLICE === ITEMS_PER_SLICE - 1) yield;
@@ -210,12 +214,15 @@ function copyEstimate(from: NodeEstimate, n: number, devices: number[]): NodeEst
 class EstimateRun {
   private readonly cache: LeakCache = new Map();
   private readonly internalCache = new Map<string, { estimate: NodeEstimate; position: Map<number, number> }>();
-  private readonly storageCache = new Map<string, { estimate: NodeEstimate; position: Map<number, number> }>();
+  private readonly storageCache = new Map<string, { estimate: NodeEstimate; position: Map<number, number>; family?: Family }>();
   private readonly constantEverywhere: (n: number) => boolean;
   /** Node -> the node whose solve its estimate copies. */
   readonly shareOf = new Map<number, number>();
 
-  constructor(private readonly ctx: ElectricalContext) {
+  constructor(
+    private readonly ctx: ElectricalContext,
+    private readonly twins = true,
+  ) {
     const values = ctx.classification.phaseValues;
     this.constantEverywhere = (n: number) => Number.isFinite(ctx.railVolts[n]!) || values.every((v) => v[n] !== 2 && v[n] === values[0]![n]);
   }
@@ -234,6 +241,12 @@ class EstimateRun {
     const { key, devices } = structureKey(ctx, n, floating, values);
     if (cl.storage[n]) {
       const prior = this.storageCache.get(key);
+      // an identically wired twin takes the first node's estimate with its own nets put in
+      const twin = prior && this.twins ? carryToTwin(ctx, (prior.family ??= familyOf(ctx, prior.estimate)), n, devices) : undefined;
+      if (twin) {
+        this.shareOf.set(n, prior!.estimate.node);
+        return twin;
+      }
       const remap = (d: number) => devices[prior!.position.get(d)!]!;
       // the figures are positional (see NodeEstimate.devices): they carry over as they are
       const reuse = prior
