@@ -12,6 +12,8 @@ import { TestLspClient, type PublishedDiagnostics } from './support/lspClient';
 import { hierarchicalNetlist } from '../scripts/netlists';
 import { analyse } from '../server/src/engine';
 import { memoryHost } from '../server/src/core/host';
+import { locate } from '../server/src/service/locate';
+import { netHover } from '../server/src/service/hover';
 
 /** What the engine itself finds for a text, in the shape the server publishes (line, rule, message). */
 function engineFindings(file: string, text: string): string[] {
@@ -88,6 +90,15 @@ describe('incremental and responsive analysis over the real protocol', () => {
     expect(Array.isArray(await symbols)).toBe(true);
     expect(answeredFirst, 'the outline did not wait for the analysis').toBe(true);
     expect(published(final)).toEqual(engineFindings(file, last));
+    // the hover answers from the analysis of the last text (a size edit answered from the
+    // previous analysis): the same card a fresh analysis gives
+    const dynLine = lines.findIndex((l) => l.startsWith('Mpre dyn'));
+    const hover = (await client.conn.sendRequest('textDocument/hover', { textDocument: { uri }, position: { line: dynLine, character: 6 } })) as { contents: { value: string } } | null;
+    const fresh = analyse(memoryHost({ [file]: last }), file);
+    const f = fresh.deck.files.find((x) => x.file === file)!;
+    const spot = locate(f, { line: dynLine, character: 6 });
+    expect(spot?.kind).toBe('net');
+    expect(hover?.contents.value).toBe(netHover(fresh, file, spot as Extract<NonNullable<typeof spot>, { kind: 'net' }>));
     expect(client.proc.exitCode).toBeNull();
   }, 120_000);
 });
