@@ -300,6 +300,11 @@ function schedule(uri: string, delayMs = EDIT_DEBOUNCE_MS): void {
 function quickAnswer(uri: string): void {
   const last = results.get(uri);
   if (!last || fresh(last)) return;
+  // a file over the size limit gets only the front end, with a note quoting its line count: the
+  // quick answers are for analysed files on both sides of the edit
+  const file = fileURLToPath(uri);
+  const lines = countLines(host.readFile(file) ?? '');
+  if (lines > settings.maxAnalysisLines || last.result.circuits.length !== last.result.design.circuits.length) return;
   const deck = deckFor(uri);
   if (!deck) return;
   const moved = carryOver(last.result, deck);
@@ -308,9 +313,8 @@ function quickAnswer(uri: string): void {
     sentFrom.set(uri, moved);
     return;
   }
-  const file = fileURLToPath(uri);
   const { texts, recording } = recordingHost();
-  const result = reanalyse(last.result, recording, file, engineOptions(countLines(host.readFile(file) ?? '')));
+  const result = reanalyse(last.result, recording, file, engineOptions(lines));
   if (!result) return;
   results.set(uri, { texts, result });
   send(uri, result.diagnostics);
