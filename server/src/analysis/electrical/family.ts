@@ -1,7 +1,8 @@
 // Nodes of repeated cells: when two nodes have the same structure (equal structure keys) and
-// their surroundings are wired alike (the same nets at the same places, checked here), the
-// estimate of one is the estimate of the other with its nets and devices put in. A size edit
-// uses this to re-estimate one node per family of a storage node and carry it to the rest.
+// their surroundings are wired alike (the same nets at the same places, with the same values in
+// every phase and the same rail voltages, checked here), the estimate of one is the estimate of
+// the other with its nets and devices put in. The estimate pass uses this for storage nodes of
+// repeated cells, and a size edit to carry one fresh estimate per family to the rest.
 
 import type { NodeEstimate } from './estimate';
 import type { ElectricalContext } from './context';
@@ -65,6 +66,9 @@ export interface Family {
   from: NodeEstimate;
   netPos: Map<number, number>;
   netPattern: Int32Array;
+  /** Per phase, the value of each net around the first node (0, 1, 2 = X); rail voltages (NaN: none). */
+  values: Uint8Array[];
+  railVolts: Float64Array;
   devPos: Map<number, number>;
   devPattern: Int32Array;
 }
@@ -75,7 +79,9 @@ export function familyOf(ctx: ElectricalContext, from: NodeEstimate): Family {
   nets.forEach((x, i) => netPos.has(x) || netPos.set(x, i));
   const devPos = new Map<number, number>();
   from.devices.forEach((x, i) => devPos.has(x) || devPos.set(x, i));
-  return { from, netPos, netPattern: patternOf(nets), devPos, devPattern: patternOf(from.devices) };
+  const values = ctx.classification.phaseValues.map((v) => Uint8Array.from(nets, (x) => v[x]!));
+  const railVolts = Float64Array.from(nets, (x) => ctx.railVolts[x]!);
+  return { from, netPos, netPattern: patternOf(nets), values, railVolts, devPos, devPattern: patternOf(from.devices) };
 }
 
 /**
@@ -86,6 +92,15 @@ export function carryToTwin(ctx: ElectricalContext, family: Family, n: number, d
   const from = family.from;
   const around = netsAround(ctx, n, devices);
   if (!wiredAlike(family.netPattern, around) || !wiredAlike(family.devPattern, devices)) return undefined;
+  // the same values around it in every phase (the structure key holds only the phases it floats in)
+  const phaseValues = ctx.classification.phaseValues;
+  for (let i = 0; i < around.length; i++) {
+    const x = around[i]!;
+    const r = ctx.railVolts[x]!;
+    const fr = family.railVolts[i]!;
+    if (r !== fr && !(Number.isNaN(r) && Number.isNaN(fr))) return undefined;
+    for (let p = 0; p < phaseValues.length; p++) if (phaseValues[p]![x] !== family.values[p]![i]) return undefined;
+  }
   const nets = { has: (x: number) => family.netPos.has(x), get: (x: number) => around[family.netPos.get(x)!] };
   const devs = { has: (x: number) => family.devPos.has(x), get: (x: number) => devices[family.devPos.get(x)!] };
   const c = ctx.circuit;
