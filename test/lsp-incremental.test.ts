@@ -101,4 +101,54 @@ describe('incremental and responsive analysis over the real protocol', () => {
     expect(hover?.contents.value).toBe(netHover(fresh, file, spot as Extract<NonNullable<typeof spot>, { kind: 'net' }>));
     expect(client.proc.exitCode).toBeNull();
   }, 120_000);
+
+  it('an edit in an open included file re-analyses the netlist that includes it, at once for a size edit', async () => {
+    const cells = `* Tern datapath cells (included)
+.subckt t_dom a b clk out vdd vss
+Mpre dyn clk vdd vdd tp w=0.5u l=0.05u
+Mna dyn a n1 vss tn w=0.6u l=0.05u
+Mnb n1 b foot vss tn w=0.6u l=0.05u
+Mft foot clk vss vss tn w=0.8u l=0.05u
+Mi out dyn vss vss tn w=0.3u l=0.05u
+Mj out dyn vdd vdd tp w=0.6u l=0.05u
+.ends
+`;
+    const top = `Tern datapath with included cells
+.model tn nmos level=1 vto=0.4 kp=200u
+.model tp pmos level=1 vto=-0.4 kp=80u
+.include cells.inc
+* tidemark: input a0 a1
+X0 a0 a1 clk y0 vdd 0 t_dom
+vdd vdd 0 1
+vclk clk 0 PULSE(0 1 0 10p 10p 0.5n 1n)
+.end
+`;
+    const topFile = path.join(dir, 'top.sp');
+    const cellsFile = path.join(dir, 'cells.inc');
+    fs.writeFileSync(topFile, top);
+    fs.writeFileSync(cellsFile, cells);
+    const topUri = pathToFileURL(topFile).toString();
+    const cellsUri = pathToFileURL(cellsFile).toString();
+    const inContext = (cellsText: string) =>
+      analyse(memoryHost({ [topFile]: top, [cellsFile]: cellsText }), topFile)
+        .diagnostics.filter((d) => d.file === cellsFile)
+        .map((d) => `${d.range.start.line}:${d.range.start.character} ${d.rule} ${d.message}`);
+    // the cells file opened first is analysed on its own (its subcircuits standalone); once the
+    // netlist that includes it is open, its findings are those of the cells in that netlist
+    const alone = client.diagnosticsFor(cellsUri);
+    await client.open(cellsUri, cells, 1);
+    await alone;
+    const covered = client.diagnosticsFor(cellsUri, (p) => published(p).join('\n') === inContext(cells).join('\n'));
+    await client.open(topUri, top);
+    await covered;
+    await new Promise((r) => setTimeout(r, 300));
+    const last = client.published.filter((p) => p.uri === cellsUri).at(-1)!;
+    expect(published(last), 'nothing published over it afterwards').toEqual(inContext(cells));
+    const edited = cells.replace('Mna dyn a n1 vss tn w=0.6u', 'Mna dyn a n1 vss tn w=0.9u');
+    const expected = inContext(edited);
+    const next = client.diagnosticsFor(cellsUri, (p) => published(p).join('\n') === expected.join('\n'));
+    await client.change(cellsUri, edited, 2);
+    expect(published(await next)).toEqual(expected);
+  }, 120_000);
 });
+

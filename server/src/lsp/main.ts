@@ -255,16 +255,38 @@ function send(uri: string, diagnostics: Diagnostic[]): void {
   for (const f of before) if (!byFile.has(f)) connection.sendDiagnostics({ uri: pathToFileURL(f).toString(), diagnostics: [] });
   for (const [f, list] of byFile) connection.sendDiagnostics({ uri: pathToFileURL(f).toString(), diagnostics: list });
   published.set(uri, new Set(byFile.keys()));
+  // a file this netlist includes that was open as a netlist of its own (opened first) is
+  // covered from now on: what it published for other files is withdrawn
+  for (const f of new Set([...byFile.keys(), ...(results.get(uri)?.texts.keys() ?? [])])) {
+    const other = pathToFileURL(f).toString();
+    if (other === uri || !published.has(other)) continue;
+    for (const g of published.get(other)!) if (!byFile.has(g) && !published.get(uri)!.has(g)) connection.sendDiagnostics({ uri: pathToFileURL(g).toString(), diagnostics: [] });
+    published.delete(other);
+    sentFrom.delete(other);
+  }
 }
 
 /** What was last sent per root, to skip sending the same diagnostics twice. */
 const sentFrom = new Map<string, Diagnostic[]>();
 
+/**
+ * The netlist whose analysis covers a document: another open netlist that includes it (its
+ * findings and hovers come from there, in the context it is used in), else the document itself.
+ */
+function rootFor(uri: string): string {
+  if (!uri.startsWith('file:')) return uri;
+  const file = fileURLToPath(uri);
+  for (const [root, c] of results) if (root !== uri && c.texts.has(file) && documents.get(root)) return root;
+  return uri;
+}
+
 async function publish(uri: string): Promise<void> {
+  // an included file's findings are published by the netlist that includes it
+  if (rootFor(uri) !== uri) return;
   const gen = genOf(uri);
   const c = await guardAsync('analysis', () => analysisOf(uri), undefined);
   // a newer edit publishes its own
-  if (!c || genOf(uri) !== gen) return;
+  if (!c || genOf(uri) !== gen || rootFor(uri) !== uri) return;
   if (sentFrom.get(uri) === c.result.diagnostics) return;
   guard('publish', () => send(uri, c.result.diagnostics), undefined);
   sentFrom.set(uri, c.result.diagnostics);
@@ -298,6 +320,7 @@ function schedule(uri: string, delayMs = EDIT_DEBOUNCE_MS): void {
 }
 
 function quickAnswer(uri: string): void {
+  if (rootFor(uri) !== uri) return;
   const last = results.get(uri);
   if (!last || fresh(last)) return;
   // a file over the size limit gets only the front end, with a note quoting its line count: the
@@ -414,7 +437,7 @@ function fileOf(deck: Deck | undefined, file: string) {
 
 connection.onHover((p) =>
   guardAsync('hover', async () => {
-    const c = await currentAnalysis(p.textDocument.uri);
+    const c = await currentAnalysis(rootFor(p.textDocument.uri));
     if (!c) return null;
     const file = fileURLToPath(p.textDocument.uri);
     const f = syntaxOf(c, file);
@@ -434,7 +457,7 @@ connection.onHover((p) =>
 
 connection.onCodeAction((p) =>
   guardAsync('code actions', async () => {
-    const c = await currentAnalysis(p.textDocument.uri);
+    const c = await currentAnalysis(rootFor(p.textDocument.uri));
     if (!c) return [];
     const file = fileURLToPath(p.textDocument.uri);
     const actions: CodeAction[] = [];
@@ -532,7 +555,7 @@ connection.onCompletion((p) =>
 
 connection.onCodeLens((p) =>
   guardAsync('code lens', async () => {
-    const c = await currentAnalysis(p.textDocument.uri);
+    const c = await currentAnalysis(rootFor(p.textDocument.uri));
     if (!c) return [];
     const file = fileURLToPath(p.textDocument.uri);
     const f = syntaxOf(c, file);
@@ -565,7 +588,7 @@ connection.onExecuteCommand((p) =>
 /** The phase table of a document, for the client's "show phases" command. */
 connection.onRequest('tidemark/phases', (p: { uri: string }) =>
   guardAsync('phases', async () => {
-    const c = await currentAnalysis(p.uri);
+    const c = await currentAnalysis(rootFor(p.uri));
     if (!c) return [];
     return c.result.circuits.flatMap((a) => a.plan.phases.map((ph) => ({ circuit: a.circuit.name, name: ph.name, start_s: ph.startS, duration_s: ph.durationS, standby: ph.standby })));
   }, []),
@@ -574,7 +597,7 @@ connection.onRequest('tidemark/phases', (p: { uri: string }) =>
 /** Counts for the client's status bar. */
 connection.onRequest('tidemark/summary', (p: { uri: string }) =>
   guardAsync('summary', async () => {
-    const c = await currentAnalysis(p.uri);
+    const c = await currentAnalysis(rootFor(p.uri));
     if (!c) return null;
     const d = c.result.diagnostics.filter((x) => !x.accepted);
     let floating = 0;

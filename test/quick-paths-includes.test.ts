@@ -1,0 +1,61 @@
+// The quick paths when the edit is in an included file: a comment, a size and a rename in the
+// cells file a top netlist includes, each equal to a fresh analysis of the edited pair of files.
+
+import { describe, expect, it } from 'vitest';
+import { analyse, readDeck, reanalyse } from '../server/src/engine';
+import { memoryHost } from '../server/src/core/host';
+import { carryOver } from '../server/src/service/carryOver';
+import { report } from './support/edits';
+
+const CELLS = `* Tern datapath cells (included)
+.subckt t_dom a b clk out vdd vss
+Mpre dyn clk vdd vdd tp w=0.5u l=0.05u
+Mna dyn a n1 vss tn w=0.6u l=0.05u
+Mnb n1 b foot vss tn w=0.6u l=0.05u
+Mft foot clk vss vss tn w=0.8u l=0.05u
+Mi out dyn vss vss tn w=0.3u l=0.05u
+Mj out dyn vdd vdd tp w=0.6u l=0.05u
+.ends
+`;
+const TOP = `Tern datapath with included cells
+.model tn nmos level=1 vto=0.4 kp=200u
+.model tp pmos level=1 vto=-0.4 kp=80u
+.include cells.inc
+* tidemark: input a0 a1 a2
+X0 a0 a1 clk y0 vdd 0 t_dom
+X1 a1 a2 clk y1 vdd 0 t_dom
+X2 a2 a0 clk y2 vdd 0 t_dom
+vdd vdd 0 1
+vclk clk 0 PULSE(0 1 0 10p 10p 0.5n 1n)
+.end
+`;
+
+const host = (cells: string) => memoryHost({ '/t/top.sp': TOP, '/t/cells.inc': cells });
+const before = analyse(host(CELLS), '/t/top.sp');
+
+describe('quick paths for an edit in an included file', () => {
+  it('a comment line in the cells file: findings carried over, equal to a fresh analysis', () => {
+    const cells = CELLS.replace('Mpre dyn', '* precharge\nMpre dyn');
+    const moved = carryOver(before, readDeck(host(cells), '/t/top.sp'));
+    expect(moved).toBeDefined();
+    expect(JSON.parse(JSON.stringify(moved))).toEqual(JSON.parse(JSON.stringify(analyse(host(cells), '/t/top.sp').diagnostics)));
+  });
+  it('a width in the cells file: re-estimated from the previous analysis, equal to a fresh one', () => {
+    const cells = CELLS.replace('Mna dyn a n1 vss tn w=0.6u', 'Mna dyn a n1 vss tn w=0.9u');
+    const fast = reanalyse(before, host(cells), '/t/top.sp');
+    expect(fast).toBeDefined();
+    expect(report('/t/top.sp', fast!)).toEqual(report('/t/top.sp', analyse(host(cells), '/t/top.sp')));
+  });
+  it('a net renamed in the cells file: renamed in the previous analysis, equal to a fresh one', () => {
+    const cells = CELLS.replace(/\bn1\b/g, 'mid');
+    const fast = reanalyse(before, host(cells), '/t/top.sp');
+    expect(fast).toBeDefined();
+    const full = analyse(host(cells), '/t/top.sp');
+    expect(JSON.parse(JSON.stringify(fast!.diagnostics))).toEqual(JSON.parse(JSON.stringify(full.diagnostics)));
+    expect(report('/t/top.sp', fast!)).toEqual(report('/t/top.sp', full));
+  });
+  it('a reconnection in the cells file is not a quick edit', () => {
+    const cells = CELLS.replace('Mnb n1 b foot', 'Mnb n1 a foot');
+    expect(reanalyse(before, host(cells), '/t/top.sp')).toBeUndefined();
+  });
+});
