@@ -12,10 +12,31 @@ import { pathToFileURL } from 'node:url';
 import { createMessageConnection, StreamMessageReader, StreamMessageWriter } from 'vscode-jsonrpc/node';
 import { hierarchicalNetlist } from './netlists';
 
+type Edit = [string, (l: string) => boolean, (l: string) => string];
+
+const RECONNECTION: Edit = ['a reconnection (a block input moved to another net)', (l) => l.startsWith('Xb7 '), (l) => l.replace('Xb7 a7 ', 'Xb7 a9 ')];
+
 async function main(): Promise<void> {
+  const big = await measure(100_000, [
+    ['a rename (a block output renamed on its instance line)', (l) => l.startsWith('Xb7 '), (l) => l.replace(' y7 ', ' y7x ')],
+    ['a width in a leaf cell', (l) => l.startsWith('Mn1 y a n1'), (l) => l.replace('w=0.4u', 'w=0.42u')],
+    ['the keeper length in the domino cell', (l) => l.startsWith('Mkp dyn out'), (l) => l.replace('l=0.1u', 'l=0.12u')],
+    ['a comment line', (l) => l.startsWith('vdd '), (l) => `* supply\n${l}`],
+    // a real change of connectivity: no quick path applies, the full analysis runs
+    RECONNECTION,
+  ]);
+  // the full analysis on netlists of the size most cells and blocks have
+  const small = await measure(10_000, [RECONNECTION]);
+  console.log('edit latency, change notification to published diagnostics (comment, size and rename edits are answered from the previous analysis; others run the full analysis after a 40 ms debounce):');
+  for (const line of [...big, ...small]) console.log('  ' + line);
+}
+
+/** Opens a generated netlist of about `transistors` in the server, times each kind of edit. */
+async function measure(transistors: number, edits: Edit[]): Promise<string[]> {
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'tidemark-edit-'));
   const file = path.join(dir, 'datapath.sp');
-  let text = hierarchicalNetlist(100_000);
+  let text = hierarchicalNetlist(transistors);
+  const size = `${(Math.ceil(transistors / 48 / 20) * 20 * 48).toLocaleString('en-US')} transistors`;
   fs.writeFileSync(file, text);
   const uri = pathToFileURL(file).toString();
   const proc = spawn(process.execPath, ['--max-old-space-size=4096', path.join(__dirname, '..', 'dist', 'server.js'), '--stdio'], { stdio: ['pipe', 'pipe', 'inherit'] });
@@ -34,16 +55,8 @@ async function main(): Promise<void> {
   let next = published();
   conn.sendNotification('textDocument/didOpen', { textDocument: { uri, languageId: 'spice', version: 1, text } });
   let count = await next;
-  console.log(`open      ${(performance.now() - t).toFixed(0).padStart(6)} ms  ${count} diagnostics (first analysis, 100,800 transistors)`);
+  console.log(`open      ${(performance.now() - t).toFixed(0).padStart(6)} ms  ${count} diagnostics (first analysis, ${size})`);
   const lines = text.split('\n');
-  const edits: Array<[string, (l: string) => boolean, (l: string) => string]> = [
-    ['a rename (a block output renamed on its instance line)', (l) => l.startsWith('Xb7 '), (l) => l.replace(' y7 ', ' y7x ')],
-    ['a width in a leaf cell', (l) => l.startsWith('Mn1 y a n1'), (l) => l.replace('w=0.4u', 'w=0.42u')],
-    ['the keeper length in the domino cell', (l) => l.startsWith('Mkp dyn out'), (l) => l.replace('l=0.1u', 'l=0.12u')],
-    ['a comment line', (l) => l.startsWith('vdd '), (l) => `* supply\n${l}`],
-    // a real change of connectivity: no quick path applies, the full analysis runs
-    ['a reconnection (a block input moved to another net)', (l) => l.startsWith('Xb7 '), (l) => l.replace('Xb7 a7 ', 'Xb7 a9 ')],
-  ];
   let version = 2;
   const ROUNDS = 6;
   const summary: string[] = [];
@@ -68,16 +81,15 @@ async function main(): Promise<void> {
       conn.sendNotification('textDocument/didChange', { textDocument: { uri, version: version++ }, contentChanges: [{ text }] });
       await next;
       times.push(ms);
-      console.log(`edit      ${ms.toFixed(0).padStart(6)} ms to new diagnostics (${count}); outline ${outlineMs.toFixed(0)} ms (${symbols.length} symbols) | ${what}, round ${round + 1}`);
+      console.log(`edit      ${ms.toFixed(0).padStart(6)} ms to new diagnostics (${count}); outline ${outlineMs.toFixed(0)} ms (${symbols.length} symbols) | ${what}, round ${round + 1} (${size})`);
     }
     const sorted = [...times].sort((a, b) => a - b);
-    summary.push(`${what}: median ${sorted[sorted.length >> 1]!.toFixed(0)} ms, fastest ${sorted[0]!.toFixed(0)} ms, slowest ${sorted[sorted.length - 1]!.toFixed(0)} ms over ${ROUNDS} edits`);
+    summary.push(`${what}, ${size}: median ${sorted[sorted.length >> 1]!.toFixed(0)} ms, fastest ${sorted[0]!.toFixed(0)} ms, slowest ${sorted[sorted.length - 1]!.toFixed(0)} ms over ${ROUNDS} edits`);
   }
-  console.log('edit latency, change notification to published diagnostics (comment, size and rename edits are answered from the previous analysis; others run the full analysis after a 40 ms debounce):');
-  for (const line of summary) console.log('  ' + line);
   await conn.sendRequest('shutdown');
   conn.sendNotification('exit');
   fs.rmSync(dir, { recursive: true, force: true });
+  return summary;
 }
 
 void main();
