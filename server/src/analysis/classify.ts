@@ -214,12 +214,13 @@ function trace(net: SwitchNetwork, comp: Component, free: number[], values: Uint
 
 
 /** Classifies every node of a circuit in every phase of the plan. */
-export function classify(net: SwitchNetwork, plan: PhasePlan): Classification {
-  return runToEnd(classifySteps(net, plan));
+/** `twins: false` checks every group's witnesses itself (for the test that holds the two ways equal). */
+export function classify(net: SwitchNetwork, plan: PhasePlan, how: { twins?: boolean } = {}): Classification {
+  return runToEnd(classifySteps(net, plan, how));
 }
 
 /** `classify` in slices (see core/steps). */
-export function* classifySteps(net: SwitchNetwork, plan: PhasePlan): Steps<Classification> {
+export function* classifySteps(net: SwitchNetwork, plan: PhasePlan, how: { twins?: boolean } = {}): Steps<Classification> {
   const c = net.circuit;
   const storage = new Uint8Array(c.nets.length);
   for (let i = 0; i < c.nets.length; i++) if (net.drivesGate[i]) storage[i] = 1;
@@ -238,7 +239,7 @@ export function* classifySteps(net: SwitchNetwork, plan: PhasePlan): Steps<Class
   const result: Classification = { network: net, plan, perPhase: [], phaseValues: [], storage, wideComponents: 0, uncheckedComponents: 0 };
   const wide = new Set<number>();
   const unchecked = new Set<number>();
-  const buffers: Buffers = { gatePos: new Int32Array(c.nets.length).fill(-1), masks: new Uint8Array(1024), driverId: new Int32Array(64) };
+  const buffers: Buffers = { gatePos: new Int32Array(c.nets.length).fill(-1), masks: new Uint8Array(1024), driverId: new Int32Array(64), witnesses: new Map(), twins: how.twins !== false };
   for (const phase of plan.phases) {
     const values = propagateConstants(net, phase.clocks, scratch);
     result.phaseValues.push(values);
@@ -246,10 +247,11 @@ export function* classifySteps(net: SwitchNetwork, plan: PhasePlan): Steps<Class
     // `work` is the phase's values, changed by a witness check and restored after it
     const work = values.slice();
     const out = new Uint8Array(values.length);
+    const pass: PhasePass = { net, values, local, scratch, states, wide, unchecked, work, out, storage, buffers };
     for (let k = 0; k < net.components.length; k++) {
       const comp = net.components[k]!;
       for (let i = 0; i < comp.nodes.length; i++) local[comp.nodes[i]!] = i;
-      classifyComponent(net, comp, values, local, scratch, states, wide, unchecked, work, out, storage, buffers);
+      classifyComponent(pass, comp);
       if (k % ITEMS_PER_SLICE === ITEMS_PER_SLICE - 1) yield;
     }
     for (let i = 0; i < c.nets.length; i++) if (net.unreachable[i]) states.set(i, { state: 'undriven', exact: true });
@@ -264,20 +266,8 @@ function name(net: SwitchNetwork, n: number): string {
   return net.circuit.nets[n]!.name;
 }
 
-function classifyComponent(
-  net: SwitchNetwork,
-  comp: Component,
-  values: Uint8Array,
-  local: Int32Array,
-  scratch: Scratch,
-  states: Map<number, NodePhaseResult>,
-  wide: Set<number>,
-  unchecked: Set<number>,
-  work: Uint8Array,
-  out: Uint8Array,
-  storage: Uint8Array,
-  buffers: Buffers,
-): void {
+function classifyComponent(pass: PhasePass, comp: Component): void {
+  const { net, values, scratch, states, wide, out, buffers } = pass;
   const free = comp.gates.filter((g) => values[g] === X);
   const nodes = comp.nodes;
   if (free.length > MAX_FREE_GATES) {
@@ -290,10 +280,27 @@ function classifyComponent(
   const gatePos = buffers.gatePos;
   free.forEach((g, i) => (gatePos[g] = i));
   try {
-    classifyEnumerated(net, comp, values, local, scratch, states, unchecked, work, out, storage, free, buffers);
+    classifyEnumerated(pass, comp, free);
   } finally {
     for (const g of free) gatePos[g] = -1;
   }
+}
+
+/** What every group's check in one phase shares: the network, the phase's values, the results so far, the buffers. */
+interface PhasePass {
+  net: SwitchNetwork;
+  values: Uint8Array;
+  /** Net -> its index in the group being checked. */
+  local: Int32Array;
+  scratch: Scratch;
+  states: Map<number, NodePhaseResult>;
+  wide: Set<number>;
+  unchecked: Set<number>;
+  /** The phase's values, changed by a witness check and restored after it. */
+  work: Uint8Array;
+  out: Uint8Array;
+  storage: Uint8Array;
+  buffers: Buffers;
 }
 
 /** Buffers reused across components (grown on demand) so the inner loops allocate nothing. */
@@ -301,22 +308,101 @@ interface Buffers {
   gatePos: Int32Array;
   masks: Uint8Array;
   driverId: Int32Array;
+  /** Witness checks done in this pass, by the key of what they read (see witnessKey). */
+  witnesses: Map<string, WitnessMemo>;
+  twins: boolean;
 }
 
-function classifyEnumerated(
-  net: SwitchNetwork,
-  comp: Component,
-  values: Uint8Array,
-  local: Int32Array,
-  scratch: Scratch,
-  states: Map<number, NodePhaseResult>,
-  unchecked: Set<number>,
-  work: Uint8Array,
-  out: Uint8Array,
-  storage: Uint8Array,
-  free: number[],
-  buffers: Buffers,
-): void {
+interface WitnessMemo {
+  /** The first group's nets and MOSFETs in key order, and its results per node of the group. */
+  nets: number[];
+  mosfets: number[];
+  results: Array<NodePhaseResult | undefined>;
+}
+
+/**
+ * Everything a witness check reads, with nets numbered in the order met (the group's nodes
+ * first): the group's switches, the traced driving groups' switches, the leaves and their
+ * kinds, the feedback set, each net's value in the phase and role, and the group's storage
+ * flags. Two groups with equal keys get equal results up to that numbering.
+ */
+function witnessKey(net: SwitchNetwork, comp: Component, values: Uint8Array, storage: Uint8Array, free: number[], tr: Trace, unchecked: boolean): { key: string; nets: number[]; mosfets: number[] } {
+  const index = new Map<number, number>();
+  const nets: number[] = [];
+  const mosfets: number[] = [];
+  const code = (x: number): number => {
+    let i = index.get(x);
+    if (i === undefined) {
+      index.set(x, (i = nets.length));
+      nets.push(x);
+    }
+    return i;
+  };
+  for (const x of comp.nodes) code(x);
+  const parts: number[] = [unchecked ? 1 : 0, comp.nodes.length];
+  const switches = (c: Component) => {
+    parts.push(-1, c.nodes.length);
+    for (const x of c.nodes) parts.push(code(x));
+    for (const si of c.switches) {
+      const sw = net.switches[si]!;
+      if (c === comp) mosfets.push(sw.mosfet);
+      parts.push(sw.kind, code(sw.a), code(sw.b), sw.gate < 0 ? -2 : code(sw.gate), sw.mosfet < 0 ? 0 : 1);
+    }
+  };
+  switches(comp);
+  parts.push(-3);
+  for (const g of free) parts.push(code(g));
+  parts.push(-4);
+  tr.leaves.forEach((l, i) => parts.push(code(l), tr.leafKind[i] === 'input' ? 0 : tr.leafKind[i] === 'opaque' ? 1 : 2));
+  for (const t of tr.order) {
+    parts.push(-5, code(t.net));
+    switches(t.comp);
+  }
+  parts.push(-6);
+  for (const g of tr.dependsOnState) parts.push(code(g));
+  parts.push(-7);
+  for (let i = 0; i < nets.length; i++) {
+    const x = nets[i]!;
+    parts.push(values[x]!, net.role[x]!, net.componentOf[x] === comp.id ? 1 : 0, i < comp.nodes.length ? storage[x]! : 0);
+  }
+  return { key: parts.join(','), nets, mosfets };
+}
+
+/** A twin's results from the first group's, with the twin's nets, names and devices put in. */
+function carryWitness(net: SwitchNetwork, comp: Component, seen: WitnessMemo, twin: { nets: number[]; mosfets: number[] }, states: Map<number, NodePhaseResult>): void {
+  const netOf = new Map<number, number>();
+  seen.nets.forEach((x, i) => netOf.set(x, twin.nets[i]!));
+  const devOf = new Map<number, number>();
+  seen.mosfets.forEach((x, i) => devOf.set(x, twin.mosfets[i]!));
+  const names = net.circuit.netByName;
+  const nameOf = (s: string): string => {
+    const id = names.get(s);
+    const to = id === undefined ? undefined : netOf.get(id);
+    return to === undefined ? s : net.circuit.nets[to]!.name;
+  };
+  const record = (r: Record<string, 0 | 1>): Record<string, 0 | 1> => {
+    const o: Record<string, 0 | 1> = {};
+    for (const k in r) o[nameOf(k)] = r[k]!;
+    return o;
+  };
+  seen.results.forEach((r, i) => {
+    if (!r) return;
+    // field by field in the first result's order, so the two read the same
+    const c: Record<string, unknown> = {};
+    for (const k of Object.keys(r) as Array<keyof NodePhaseResult>) {
+      const v = r[k];
+      if (k === 'when' || k === 'contentionWhen') c[k] = record(v as Record<string, 0 | 1>);
+      else if (k === 'floatCover') c[k] = (v as Array<Record<string, 0 | 1>>).map(record);
+      else if (k === 'cutOff' || k === 'keepers') c[k] = (v as number[]).map((d) => devOf.get(d)!);
+      else if (k === 'gateAssignment') c[k] = (v as Array<[number, 0 | 1]>).map(([g, b]) => [netOf.get(g)!, b]);
+      else c[k] = v;
+    }
+    states.set(comp.nodes[i]!, c as unknown as NodePhaseResult);
+  });
+}
+
+function classifyEnumerated(pass: PhasePass, comp: Component, free: number[]): void {
+  const { net, values, local, states, unchecked, storage, buffers } = pass;
   const nodes = comp.nodes;
   const nn = nodes.length;
   const gatePos = buffers.gatePos;
@@ -360,10 +446,28 @@ function classifyEnumerated(
       break;
     }
   }
+  const wasUnchecked = !tr;
   if (!tr) {
     unchecked.add(comp.id);
     tr = { leaves: free, leafKind: free.map((g) => (net.componentOf[g] === comp.id ? 'state' : 'opaque')), order: [], dependsOnState: new Set(free.filter((g) => net.componentOf[g] === comp.id)) };
   }
+  // Repeated cells: a group wired like one already checked, with the same values around it and
+  // the same driving logic, has the same results with its own nets and devices put in.
+  const twin = witnessKey(net, comp, values, storage, free, tr, wasUnchecked);
+  const seen = buffers.twins ? buffers.witnesses.get(twin.key) : undefined;
+  if (seen) {
+    carryWitness(net, comp, seen, twin, states);
+    return;
+  }
+  witnessCheck(pass, comp, free, tr, masks, gatePos, driverId);
+  buffers.witnesses.set(twin.key, { nets: twin.nets, mosfets: twin.mosfets, results: comp.nodes.map((x) => states.get(x)) });
+}
+
+/** The witness check of a group whose candidate floats need it (the rest of classifyEnumerated). */
+function witnessCheck(pass: PhasePass, comp: Component, free: number[], tr: Trace, masks: Uint8Array, gatePos: Int32Array, driverId: Int32Array): void {
+  const { net, values, local, scratch, states, unchecked, work, out } = pass;
+  const nodes = comp.nodes;
+  const nn = nodes.length;
   const feedback = new Uint8Array(comp.switches.length);
   comp.switches.forEach((si, k) => {
     const g = net.switches[si]!.gate;
