@@ -262,6 +262,15 @@ export function* classifySteps(net: SwitchNetwork, plan: PhasePlan, how: { twins
   return result;
 }
 
+/**
+ * An input assignment keyed by net names. Made without a prototype: V8 keeps such objects as
+ * hash tables from the start, where a plain literal would get a hidden class per distinct set of
+ * names (one per instance of a cell), which made building them the slowest part of a pass.
+ */
+function newRecord(): Record<string, 0 | 1> {
+  return Object.create(null) as Record<string, 0 | 1>;
+}
+
 function name(net: SwitchNetwork, n: number): string {
   return net.circuit.nets[n]!.name;
 }
@@ -365,7 +374,11 @@ function witnessKey(net: SwitchNetwork, comp: Component, values: Uint8Array, sto
     const x = nets[i]!;
     parts.push(values[x]!, net.role[x]!, net.componentOf[x] === comp.id ? 1 : 0, i < comp.nodes.length ? storage[x]! : 0);
   }
-  return { key: parts.join(','), nets, mosfets };
+  // one character per part (all are small): much faster to build and hash than decimal text
+  let small = parts.length <= 8192;
+  for (const x of parts) if (x < -16 || x > 0xffef) small = false;
+  const key = small ? 'c' + String.fromCharCode(...parts.map((x) => x + 16)) : 'j' + parts.join(',');
+  return { key, nets, mosfets };
 }
 
 /** A twin's results from the first group's, with the twin's nets, names and devices put in. */
@@ -381,7 +394,7 @@ function carryWitness(net: SwitchNetwork, comp: Component, seen: WitnessMemo, tw
     return to === undefined ? s : net.circuit.nets[to]!.name;
   };
   const record = (r: Record<string, 0 | 1>): Record<string, 0 | 1> => {
-    const o: Record<string, 0 | 1> = {};
+    const o = newRecord();
     for (const k in r) o[nameOf(k)] = r[k]!;
     return o;
   };
@@ -537,7 +550,7 @@ function witnessCheck(pass: PhasePass, comp: Component, free: number[], tr: Trac
   for (const n of touched) work[n] = values[n]!;
   const inputNames = inputPositions.map((p) => name(net, leaves[p]!));
   const cube = (key: number, mask: number): Record<string, 0 | 1> => {
-    const r: Record<string, 0 | 1> = {};
+    const r = newRecord();
     inputNames.forEach((n, k) => {
       if ((mask >> k) & 1) r[n] = ((key >> k) & 1) as 0 | 1;
     });
@@ -599,7 +612,7 @@ function fromGateEnumeration(net: SwitchNetwork, comp: Component, free: number[]
   const assignments = 1 << free.length;
   const names = free.map((g) => name(net, g));
   const cube = (k: number, m: number) => {
-    const r: Record<string, 0 | 1> = {};
+    const r = newRecord();
     names.forEach((n, b) => {
       if ((m >> b) & 1) r[n] = ((k >> b) & 1) as 0 | 1;
     });
