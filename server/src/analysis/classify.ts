@@ -267,7 +267,7 @@ export function* classifySteps(net: SwitchNetwork, plan: PhasePlan, how: { twins
  * hash tables from the start, where a plain literal would get a hidden class per distinct set of
  * names (one per instance of a cell), which made building them the slowest part of a pass.
  */
-function newRecord(): Record<string, 0 | 1> {
+export function newRecord(): Record<string, 0 | 1> {
   return Object.create(null) as Record<string, 0 | 1>;
 }
 
@@ -751,7 +751,7 @@ export function renameStates(states: Map<number, NodePhaseResult>, names: Readon
     let changed = false;
     for (const k in r) if (names.has(k)) changed = true;
     if (!changed) return r;
-    const out: Record<string, 0 | 1> = {};
+    const out = newRecord();
     for (const k in r) out[names.get(k) ?? k] = r[k]!;
     return out;
   };

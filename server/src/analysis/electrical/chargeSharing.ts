@@ -13,6 +13,7 @@ import { evaluateComponent, newScratch, type Scratch } from '../constants';
 import type { ElectricalContext } from './context';
 import { islandCapacitance } from './capacitance';
 import { channelCurrent } from './leakage';
+import { newRecord } from '../classify';
 
 export interface ChargeSharingResult {
   droopV: number;
@@ -110,7 +111,7 @@ export function chargeSharing(ctx: ElectricalContext, node: number, phaseIndex: 
     if (joined.length === 0) continue;
     const sharedF = islandCapacitance(ctx, new Set(joined), storedLevel === 1 ? 0 : ctx.vddV).totalF;
     if (sharedF > best.sharedF) {
-      const when: Record<string, 0 | 1> = {};
+      const when = newRecord();
       free.forEach((g, i) => (when[ctx.circuit.nets[g]!.name] = ((a >> i) & 1) as 0 | 1));
       best = { droopV: 0, gates: new Map(free.map((g, i) => [g, ((a >> i) & 1) as 0 | 1])), when, joined, sharedF, exact: true };
     }

@@ -8,6 +8,7 @@ import type { NodeEstimate } from './estimate';
 import type { ElectricalContext } from './context';
 import type { KeeperSuggestion, HolderSuggestion } from './keeper';
 import type { CapacitanceBreakdown } from './capacitance';
+import { newRecord } from '../classify';
 
 /** Every net a node's estimate can name, in an order that identical nodes share. */
 export function netsAround(ctx: ElectricalContext, n: number, devices: readonly number[]): number[] {
@@ -151,7 +152,7 @@ export function carryToTwin(ctx: ElectricalContext, family: Family, n: number, d
   if (from.chargeSharing) {
     const cs = from.chargeSharing;
     const gates = new Map([...cs.gates].map(([g, v]) => [net(g), v] as const));
-    const when: Record<string, 0 | 1> = {};
+    const when = newRecord();
     for (const [g, v] of gates) when[c.nets[g]!.name] = v;
     est.chargeSharing = { ...cs, gates, when, joined: cs.joined.map(net) };
   }
