@@ -130,13 +130,12 @@ export function renameNets(previousDeck: Deck, previous: Design, deck: Deck, opt
     const allNets = touched(nets ?? c.nets);
     let netByName = c.netByName;
     if (nets) {
-      netByName = new Map(c.netByName);
+      const back = new Map<string, string>();
       for (const [from, to] of names) {
-        const id = c.netByName.get(from);
-        if (id === undefined || netByName.has(to)) return undefined;
-        netByName.delete(from);
-        netByName.set(to, id);
+        if (c.netByName.get(from) === undefined || c.netByName.has(to)) return undefined;
+        back.set(to, from);
       }
+      netByName = RenamedNetNames.over(c.netByName, names, back);
     }
     circuits.push({ ...c, nets: allNets, netByName, mosfets: touched(c.mosfets), capacitors: touched(c.capacitors), resistors: touched(c.resistors), inductors: touched(c.inductors), sources: touched(c.sources), diodes: touched(c.diodes), others: touched(c.others), instances: touched(c.instances) });
   }
@@ -240,4 +239,76 @@ function renamedNodes(x: Statement, y: Statement): Array<[string, string]> | und
     return undefined;
   }
   return out.length ? out : undefined;
+}
+
+/**
+ * The circuit's name -> net table after a rename, read through the old one (copying a table of
+ * 50,000 names was most of a rename's cost). Lookups are what every stage does with it; the
+ * rarely used whole-table views are built on demand. Read-only, like every stage's output.
+ */
+class RenamedNetNames extends Map<string, number> {
+  private whole: Map<string, number> | undefined;
+
+  private constructor(
+    private readonly base: Map<string, number>,
+    private readonly renamed: ReadonlyMap<string, string>,
+    private readonly back: ReadonlyMap<string, string>,
+    private readonly depth: number,
+  ) {
+    super();
+  }
+
+  static over(base: Map<string, number>, renamed: ReadonlyMap<string, string>, back: ReadonlyMap<string, string>): Map<string, number> {
+    const depth = base instanceof RenamedNetNames ? base.depth + 1 : 1;
+    const table = new RenamedNetNames(base, renamed, back, depth);
+    // a long chain of renames is folded into one plain table
+    return depth > 8 ? new Map(table.all()) : table;
+  }
+
+  override get(name: string): number | undefined {
+    const old = this.back.get(name);
+    if (old !== undefined) return this.base.get(old);
+    return this.renamed.has(name) ? undefined : this.base.get(name);
+  }
+
+  override has(name: string): boolean {
+    return this.get(name) !== undefined;
+  }
+
+  private all(): Map<string, number> {
+    if (!this.whole) {
+      const m = new Map<string, number>();
+      for (const [k, v] of this.base) m.set(this.renamed.get(k) ?? k, v);
+      this.whole = m;
+    }
+    return this.whole;
+  }
+
+  override get size(): number {
+    return this.all().size;
+  }
+  override forEach(fn: (value: number, key: string, map: Map<string, number>) => void, thisArg?: unknown): void {
+    this.all().forEach((v, k) => fn.call(thisArg, v, k, this));
+  }
+  override entries(): MapIterator<[string, number]> {
+    return this.all().entries();
+  }
+  override keys(): MapIterator<string> {
+    return this.all().keys();
+  }
+  override values(): MapIterator<number> {
+    return this.all().values();
+  }
+  override [Symbol.iterator](): MapIterator<[string, number]> {
+    return this.all()[Symbol.iterator]();
+  }
+  override set(): this {
+    throw new Error('the net table of an analysed circuit is read-only');
+  }
+  override delete(): boolean {
+    throw new Error('the net table of an analysed circuit is read-only');
+  }
+  override clear(): void {
+    throw new Error('the net table of an analysed circuit is read-only');
+  }
 }

@@ -21,11 +21,18 @@ interface Group {
   count: number;
 }
 
+/** The defining line of a net, as text; worked out once per origin (every instance shares it). */
+const originKeys = new WeakMap<object, string>();
+function originKey(o: Circuit['nets'][number]['origin']): string {
+  let k = originKeys.get(o);
+  if (k === undefined) originKeys.set(o, (k = `${o.file}|${o.range.start.line}|${o.range.start.character}|${o.subckt}|${o.local}`));
+  return k;
+}
+
 function groupByOrigin(c: Circuit, nodes: number[]): Map<string, Group> {
   const groups = new Map<string, Group>();
   for (const n of nodes) {
-    const o = c.nets[n]!.origin;
-    const key = `${o.file}|${o.range.start.line}|${o.range.start.character}|${o.subckt}|${o.local}`;
+    const key = originKey(c.nets[n]!.origin);
     const g = groups.get(key);
     if (g) g.count++;
     else groups.set(key, { first: n, count: 1 });
@@ -46,18 +53,18 @@ export function classificationFindings(c: Circuit, cl: Classification, options: 
   // floating storage nodes
   const floating: number[] = [];
   const contended: number[] = [];
-  for (let n = 0; n < c.nets.length; n++) {
-    if (net.role[n] !== 0 || net.unreachable[n]) continue;
-    let f = false;
-    let k = false;
-    for (const m of cl.perPhase) {
-      const r = m.get(n);
-      if (!r) continue;
-      if (floatsIn(r)) f = true;
-      if (r.state === 'contention') k = true;
+  // 1: floats in some phase, 2: contends in some phase (read from the results, in node order)
+  const seen = new Uint8Array(c.nets.length);
+  for (const m of cl.perPhase) {
+    for (const [n, r] of m) {
+      if (floatsIn(r)) seen[n]! |= 1;
+      if (r.state === 'contention') seen[n]! |= 2;
     }
-    if (f && cl.storage[n]) floating.push(n);
-    if (k && cl.storage[n]) contended.push(n);
+  }
+  for (let n = 0; n < c.nets.length; n++) {
+    if (!seen[n] || net.role[n] !== 0 || net.unreachable[n] || !cl.storage[n]) continue;
+    if (seen[n]! & 1) floating.push(n);
+    if (seen[n]! & 2) contended.push(n);
   }
   for (const g of groupByOrigin(c, floating).values()) {
     const n = g.first;
