@@ -149,6 +149,13 @@ vclk clk 0 PULSE(0 1 0 10p 10p 0.5n 1n)
     const next = client.diagnosticsFor(cellsUri, (p) => published(p).join('\n') === expected.join('\n'));
     await client.change(cellsUri, edited, 2);
     expect(published(await next)).toEqual(expected);
+    // closing the netlist hands the cells file back to its own analysis
+    const alone2 = analyse(memoryHost({ [cellsFile]: edited }), cellsFile)
+      .diagnostics.filter((d) => d.file === cellsFile)
+      .map((d) => `${d.range.start.line}:${d.range.start.character} ${d.rule} ${d.message}`);
+    const own = client.diagnosticsFor(cellsUri, (p) => p.diagnostics.length > 0 && published(p).join('\n') === alone2.join('\n'));
+    await client.conn.sendNotification('textDocument/didClose', { textDocument: { uri: topUri } });
+    expect(published(await own)).toEqual(alone2);
   }, 120_000);
 });
 

@@ -400,8 +400,18 @@ documents.onDidClose((e) => {
   sentFrom.delete(e.document.uri);
   for (const f of published.get(e.document.uri) ?? []) connection.sendDiagnostics({ uri: pathToFileURL(f).toString(), diagnostics: [] });
   published.delete(e.document.uri);
+  const closed = results.get(e.document.uri);
   results.delete(e.document.uri);
   decks.delete(e.document.uri);
+  // open files it included lost their findings with it: their own analysis, or another netlist
+  // that includes them, publishes them again
+  if (closed)
+    for (const d of documents.all()) {
+      if (d.uri === e.document.uri || !d.uri.startsWith('file:') || !closed.texts.has(fileURLToPath(d.uri))) continue;
+      const root = rootFor(d.uri);
+      sentFrom.delete(root);
+      schedule(root, 0);
+    }
 });
 connection.onDidChangeWatchedFiles((e) => {
   for (const ch of e.changes) if (ch.uri.startsWith('file:')) for (const dep of dependents(fileURLToPath(ch.uri))) schedule(dep);
