@@ -11,15 +11,13 @@ import type { Circuit, Design } from './circuit/circuit';
 import { findClocks } from './phases/clocks';
 import { buildPhases, type PhasePlan } from './phases/phases';
 import { buildSwitchNetwork } from './analysis/switchNetwork';
-import { classifySteps, type Classification } from './analysis/classify';
+import { classifySteps, renameStates, type Classification } from './analysis/classify';
 import { classificationFindings } from './findings/classificationFindings';
 import { applyAccepts } from './findings/accepts';
 import { buildContext, type ElectricalContext } from './analysis/electrical/context';
-import { estimateNodeSteps, nodesReading, updateEstimates, type NodeEstimate } from './analysis/electrical/estimate';
+import { estimateNodeSteps, nodesReading, renameEstimates, updateEstimates, type NodeEstimate } from './analysis/electrical/estimate';
 import { patchSizes } from './circuit/patch';
 import { renameNets, type NetRename } from './circuit/rename';
-import { renameStates } from './analysis/classify';
-import { renameEstimates } from './analysis/electrical/estimate';
 import { sameRange } from './syntax/compare';
 import type { Range } from './core/source';
 import { runToEnd, type Steps } from './core/steps';
@@ -115,11 +113,12 @@ export function* analyseSteps(host: FileHost, file: string, options: EngineOptio
 }
 
 /**
- * The analysis after an edit, from the previous one, when the edit only changed device sizes
- * written as plain numbers (see circuit/patch.ts): nets, connections, phases and the
- * classification stay; the estimates of the nodes that read a changed device are redone and
- * every other node keeps its figures. Equal to `analyse` on the new text (the tests hold it);
- * undefined when the edit is of another kind, and the caller analyses afresh.
+ * The analysis after an edit, from the previous one, when the edit only renamed nets (see
+ * circuit/rename.ts: everything stands with the new names) or only changed device sizes written
+ * as plain numbers (circuit/patch.ts: nets, connections, phases and the classification stay; the
+ * estimates of the nodes that read a changed device are redone and every other node keeps its
+ * figures). Equal to `analyse` on the new text (the tests hold it); undefined when the edit is
+ * of another kind, and the caller analyses afresh.
  */
 export function reanalyse(previous: AnalysisResult, host: FileHost, file: string, options: EngineOptions = {}): AnalysisResult | undefined {
   if (options.frontEndOnly === true || options.skipEstimates === true) return undefined;
