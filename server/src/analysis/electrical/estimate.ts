@@ -121,11 +121,13 @@ export function updateEstimates(ctx: ElectricalContext, previous: ReadonlyMap<nu
   const affectedSet = new Set(affected);
   // the family's first affected node is solved; the others copy it when they are internal nodes
   const solvedFor = new Map<number, { estimate: NodeEstimate; family?: Family }>();
+  const unchangedFamilies = new Set<number>();
   for (const n of affected) {
     // the classification did not change, so neither did which nodes have an estimate
     if (!previous.has(n)) continue;
     const family = before && before[n]! >= 0 ? before[n]! : undefined;
     const first = family !== undefined && affectedSet.has(family) ? solvedFor.get(family) : undefined;
+    if (first && unchangedFamilies.has(family!)) continue;
     if (first) {
       // an internal node's figures carry over as they are; a storage node's name its own nets
       const devices = canonicalDevices(ctx, n);
@@ -142,7 +144,11 @@ export function updateEstimates(ctx: ElectricalContext, previous: ReadonlyMap<nu
     if (e) {
       out.set(n, e);
       shareOf[n] = run.shareOf.get(n) ?? n;
-      if (family !== undefined && !solvedFor.has(family)) solvedFor.set(family, { estimate: e });
+      if (family !== undefined && !solvedFor.has(family)) {
+        solvedFor.set(family, { estimate: e });
+        // the edit did not reach this family's figures: its twins keep theirs as they are
+        if (family === n && sameValue(e, previous.get(n))) unchangedFamilies.add(family);
+      }
     } else {
       out.delete(n);
       shareOf[n] = -1;
@@ -150,6 +156,23 @@ export function updateEstimates(ctx: ElectricalContext, previous: ReadonlyMap<nu
   }
   sharedSolves.set(out, shareOf);
   return out;
+}
+
+/** Structural equality of two estimates (maps, arrays, records; numbers exactly). */
+function sameValue(a: unknown, b: unknown): boolean {
+  if (Object.is(a, b)) return true;
+  if (typeof a !== 'object' || typeof b !== 'object' || a === null || b === null) return false;
+  if (a instanceof Map) {
+    if (!(b instanceof Map) || a.size !== b.size) return false;
+    for (const [k, v] of a) if (!b.has(k) || !sameValue(v, b.get(k))) return false;
+    return true;
+  }
+  if (Array.isArray(a)) return Array.isArray(b) && a.length === b.length && a.every((x, i) => sameValue(x, b[i]));
+  const ka = Object.keys(a);
+  const kb = Object.keys(b);
+  if (ka.length !== kb.length) return false;
+  for (const k of ka) if (!sameValue((a as Record<string, unknown>)[k], (b as Record<string, unknown>)[k])) return false;
+  return true;
 }
 
 /** Estimates with net names replaced (a rename keeps the graph and every figure). */
@@ -258,7 +281,8 @@ class EstimateRun {
         : undefined;
       const e = estimateNode(ctx, n, devices, floating, values, this.constantEverywhere, this.cache, reuse);
       if (!prior) this.storageCache.set(key, { estimate: e, position: new Map(devices.map((d, k) => [d, k])) });
-      this.shareOf.set(n, prior ? prior.estimate.node : n);
+      // partly its own work (not wired like its twin): a family of its own for later edits
+      this.shareOf.set(n, n);
       return e;
     }
     const hit = this.internalCache.get(key);
