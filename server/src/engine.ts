@@ -38,7 +38,7 @@ export interface CircuitAnalysis {
   electrical?: ElectricalContext;
   estimates?: Map<number, NodeEstimate>;
   /** This circuit's findings by stage, kept so an edit can redo only the stages it reaches. */
-  findings: { phases: Diagnostic[]; classification: Diagnostic[]; electrical: Diagnostic[] };
+  findings: { phases: Diagnostic[]; classification: Diagnostic[]; electrical: Diagnostic[]; models: Diagnostic[] };
 }
 
 export const DEFAULT_TEMPS_C = [25, 110];
@@ -99,13 +99,14 @@ export function* analyseSteps(host: FileHost, file: string, options: EngineOptio
       const network = buildSwitchNetwork(circuit, clocks.clocks);
       yield;
       const classification = yield* classifySteps(network, plan);
-      const analysis: CircuitAnalysis = { circuit, plan, classification, findings: { phases: [...clocks.diagnostics, ...plan.diagnostics], classification: classificationFindings(circuit, classification, options), electrical: [] } };
+      const analysis: CircuitAnalysis = { circuit, plan, classification, findings: { phases: [...clocks.diagnostics, ...plan.diagnostics], classification: classificationFindings(circuit, classification, options), electrical: [], models: [] } };
       circuits.push(analysis);
       if (options.skipEstimates !== true) {
         const ctx = electricalContext(circuit, design, plan, classification, options);
         analysis.electrical = ctx;
         analysis.estimates = yield* estimateNodeSteps(ctx);
-        analysis.findings.electrical = [...electricalFindings(ctx, analysis.estimates), ...modelNotes(circuit)];
+        analysis.findings.electrical = electricalFindings(ctx, analysis.estimates);
+        analysis.findings.models = modelNotes(circuit);
       }
     }
   }
@@ -143,9 +144,16 @@ export function reanalyse(previous: AnalysisResult, host: FileHost, file: string
     const ctx: ElectricalContext = { ...a.electrical!, circuit, network, classification };
     const affected = nodesReading(ctx, changed);
     // keeper sizing reads the circuit's smallest devices: when those moved, every sized keeper is redone
-    if (!sameSizingBasis(a.circuit, circuit)) for (const [n, e] of a.estimates!) if (e.suggestedKeeper || e.suggestedHolder) affected.add(n);
+    if (!sameSizingBasis(a.circuit, circuit, changed)) for (const [n, e] of a.estimates!) if (e.suggestedKeeper || e.suggestedHolder) affected.add(n);
     const estimates = updateEstimates(ctx, a.estimates!, [...affected].sort((x, y) => x - y));
-    return { circuit, plan: a.plan, classification, electrical: ctx, estimates, findings: { phases: move(a.findings.phases), classification: move(a.findings.classification), electrical: [...electricalFindings(ctx, estimates), ...modelNotes(circuit)] } };
+    return { circuit, plan: a.plan, classification, electrical: ctx, estimates, findings: {
+        phases: move(a.findings.phases),
+        classification: move(a.findings.classification),
+        electrical: electricalFindings(ctx, estimates),
+        // the notes name cards Tidemark cannot evaluate: the same unless an edited device has or had one
+        models: changed.some((k) => a.circuit.mosfets[k]!.card?.family === 'unsupported' || circuit.mosfets[k]!.card?.family === 'unsupported') ? modelNotes(circuit) : move(a.findings.models),
+      },
+    };
   });
   return finish(deck, patch.design, circuits, previous.frontEnd, options);
 }
@@ -164,7 +172,7 @@ function afterRename(previous: AnalysisResult, deck: Deck, renamed: NetRename, o
     const classification: Classification = { ...a.classification, network, perPhase: a.classification.perPhase.map((m) => renameStates(m, names)) };
     const electrical = a.electrical && { ...a.electrical, circuit, network, classification };
     const estimates = a.estimates && renameEstimates(a.estimates, names);
-    const findings = { phases: moveEditedRanges(a.findings.phases, renamed.moved), classification: classificationFindings(circuit, classification, options), electrical: electrical && estimates ? [...electricalFindings(electrical, estimates), ...modelNotes(circuit)] : [] };
+    const findings = { phases: moveEditedRanges(a.findings.phases, renamed.moved), classification: classificationFindings(circuit, classification, options), electrical: electrical && estimates ? electricalFindings(electrical, estimates) : [], models: moveEditedRanges(a.findings.models, renamed.moved) };
     return { circuit, plan: a.plan, classification, ...(electrical ? { electrical } : {}), ...(estimates ? { estimates } : {}), findings };
   });
   return finish(deck, renamed.design, circuits, previous.frontEnd, options);
@@ -183,7 +191,7 @@ function moveEditedRanges(list: Diagnostic[], moved: Array<{ file: string; from:
 /** All findings in file order, once each, with the accept directives applied. */
 function finish(deck: Deck, design: Design, circuits: CircuitAnalysis[], frontEnd: Diagnostic[], options: EngineOptions): AnalysisResult {
   const all = [...frontEnd];
-  for (const a of circuits) all.push(...a.findings.phases, ...a.findings.classification, ...a.findings.electrical);
+  for (const a of circuits) all.push(...a.findings.phases, ...a.findings.classification, ...a.findings.electrical, ...a.findings.models);
   const byPlace = (a: Diagnostic, b: Diagnostic) => (a.file < b.file ? -1 : a.file > b.file ? 1 : a.range.start.line - b.range.start.line || a.range.start.character - b.range.start.character);
   all.sort(byPlace);
   // stale accepts are reported where they are written, in order with the rest

@@ -125,12 +125,17 @@ export function carryToTwin(ctx: ElectricalContext, family: Family, n: number, d
   if ([...from.capacitance.aggressors].some((a) => !nets.has(a.net) || (a.device !== undefined && !devs.has(a.device)))) return undefined;
   if (from.chargeSharing && (from.chargeSharing.joined.some((j) => !nets.has(j)) || [...from.chargeSharing.gates.keys()].some((g) => !nets.has(g)))) return undefined;
   if (from.keeper && [...from.keeper.devices, ...from.keeper.against].some((d) => !devs.has(d))) return undefined;
-  if (from.coupling.aggressors.some((a) => rename(a.net) === undefined)) return undefined;
+  // a net of the first node's surroundings, by name, as the twin's net's name
+  const netName = (s: string): string | undefined => {
+    const id = c.netByName.get(s);
+    return id !== undefined && nets.has(id) ? c.nets[nets.get(id)!]!.name : undefined;
+  };
+  if (from.coupling.aggressors.some((a) => netName(a.net) === undefined)) return undefined;
   const words = (s: string) => s.replace(/[^\s,+()]+/g, (w) => rename(w) ?? w);
   const suggestion = (k: KeeperSuggestion): KeeperSuggestion | undefined => {
     const out: KeeperSuggestion = { ...k, inverter: { ...k.inverter }, reasoning: k.reasoning.map(words) };
     if (k.inverter.existingOutput !== undefined) {
-      const o = rename(k.inverter.existingOutput);
+      const o = netName(k.inverter.existingOutput);
       if (o === undefined) return undefined;
       out.inverter.existingOutput = o;
     }
@@ -147,7 +152,7 @@ export function carryToTwin(ctx: ElectricalContext, family: Family, n: number, d
     devices,
     // records built by constructors: object literals that outlive a hot loop are far slower in V8
     capacitance: withAggressors(from.capacitance, from.capacitance.aggressors.map((a) => new CapacitanceAggressor(net(a.net), a.capacitanceF, a.via, a.device === undefined ? undefined : dev(a.device)))),
-    coupling: { droopV: from.coupling.droopV, aggressors: from.coupling.aggressors.map((a) => new CouplingAggressor(rename(a.net)!, a.capacitanceF, a.droopV, a.via)) },
+    coupling: { droopV: from.coupling.droopV, aggressors: from.coupling.aggressors.map((a) => new CouplingAggressor(netName(a.net)!, a.capacitanceF, a.droopV, a.via)) },
   };
   if (from.chargeSharing) {
     const cs = from.chargeSharing;

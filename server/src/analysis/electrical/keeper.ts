@@ -133,9 +133,26 @@ export function sizingBasis(c: Circuit): SizingBasis {
   return b;
 }
 
-/** True when two circuits give every keeper the same sizing basis (sizes, first devices and their cards). */
-export function sameSizingBasis(a: Circuit, b: Circuit): boolean {
+/**
+ * True when `b` (which is `a` with the devices `changed` re-sized) gives every keeper the same
+ * sizing basis. When no changed device was or becomes a smallest one, `b`'s basis is `a`'s and
+ * is recorded without scanning every device again.
+ */
+export function sameSizingBasis(a: Circuit, b: Circuit, changed?: readonly number[]): boolean {
   const x = sizingBasis(a);
+  if (changed && !bases.has(b)) {
+    const untouched = changed.every((k) => {
+      const before = a.mosfets[k]!;
+      const after = b.mosfets[k]!;
+      const base = x[before.polarity]!;
+      const strictlyAbove = (m: Mosfet) => m.wM / m.nf > base.wMin && m.lM > base.lMin;
+      return k !== base.first && strictlyAbove(before) && strictlyAbove(after);
+    });
+    if (untouched) {
+      bases.set(b, x);
+      return true;
+    }
+  }
   const y = sizingBasis(b);
   return (['n', 'p'] as const).every((pol) => {
     const s = x[pol];
