@@ -14,6 +14,7 @@ import { analyse } from '../server/src/engine';
 import { memoryHost } from '../server/src/core/host';
 import { locate } from '../server/src/service/locate';
 import { netHover } from '../server/src/service/hover';
+import { CELLS_INC, topIncludingCells } from './support/included';
 
 /** What the engine itself finds for a text, in the shape the server publishes (line, rule, message). */
 function engineFindings(file: string, text: string): string[] {
@@ -103,26 +104,8 @@ describe('incremental and responsive analysis over the real protocol', () => {
   }, 120_000);
 
   it('an edit in an open included file re-analyses the netlist that includes it, at once for a size edit', async () => {
-    const cells = `* Tern datapath cells (included)
-.subckt t_dom a b clk out vdd vss
-Mpre dyn clk vdd vdd tp w=0.5u l=0.05u
-Mna dyn a n1 vss tn w=0.6u l=0.05u
-Mnb n1 b foot vss tn w=0.6u l=0.05u
-Mft foot clk vss vss tn w=0.8u l=0.05u
-Mi out dyn vss vss tn w=0.3u l=0.05u
-Mj out dyn vdd vdd tp w=0.6u l=0.05u
-.ends
-`;
-    const top = `Tern datapath with included cells
-.model tn nmos level=1 vto=0.4 kp=200u
-.model tp pmos level=1 vto=-0.4 kp=80u
-.include cells.inc
-* tidemark: input a0 a1
-X0 a0 a1 clk y0 vdd 0 t_dom
-vdd vdd 0 1
-vclk clk 0 PULSE(0 1 0 10p 10p 0.5n 1n)
-.end
-`;
+    const cells = CELLS_INC;
+    const top = topIncludingCells(1);
     const topFile = path.join(dir, 'top.sp');
     const cellsFile = path.join(dir, 'cells.inc');
     fs.writeFileSync(topFile, top);

@@ -6,29 +6,10 @@ import { analyse, readDeck, reanalyse } from '../server/src/engine';
 import { memoryHost } from '../server/src/core/host';
 import { carryOver } from '../server/src/service/carryOver';
 import { report } from './support/edits';
+import { CELLS_INC, topIncludingCells } from './support/included';
 
-const CELLS = `* Tern datapath cells (included)
-.subckt t_dom a b clk out vdd vss
-Mpre dyn clk vdd vdd tp w=0.5u l=0.05u
-Mna dyn a n1 vss tn w=0.6u l=0.05u
-Mnb n1 b foot vss tn w=0.6u l=0.05u
-Mft foot clk vss vss tn w=0.8u l=0.05u
-Mi out dyn vss vss tn w=0.3u l=0.05u
-Mj out dyn vdd vdd tp w=0.6u l=0.05u
-.ends
-`;
-const TOP = `Tern datapath with included cells
-.model tn nmos level=1 vto=0.4 kp=200u
-.model tp pmos level=1 vto=-0.4 kp=80u
-.include cells.inc
-* tidemark: input a0 a1 a2
-X0 a0 a1 clk y0 vdd 0 t_dom
-X1 a1 a2 clk y1 vdd 0 t_dom
-X2 a2 a0 clk y2 vdd 0 t_dom
-vdd vdd 0 1
-vclk clk 0 PULSE(0 1 0 10p 10p 0.5n 1n)
-.end
-`;
+const CELLS = CELLS_INC;
+const TOP = topIncludingCells(3);
 
 const host = (cells: string) => memoryHost({ '/t/top.sp': TOP, '/t/cells.inc': cells });
 const before = analyse(host(CELLS), '/t/top.sp');
