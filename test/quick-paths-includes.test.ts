@@ -23,13 +23,13 @@ describe('quick paths for an edit in an included file', () => {
   });
   it('a width in the cells file: re-estimated from the previous analysis, equal to a fresh one', () => {
     const cells = CELLS.replace('Mna dyn a n1 vss tn w=0.6u', 'Mna dyn a n1 vss tn w=0.9u');
-    const fast = reanalyse(before, host(cells), '/t/top.sp');
+    const fast = reanalyse(before, readDeck(host(cells), '/t/top.sp'));
     expect(fast).toBeDefined();
     expect(report('/t/top.sp', fast!)).toEqual(report('/t/top.sp', analyse(host(cells), '/t/top.sp')));
   });
   it('a net renamed in the cells file: renamed in the previous analysis, equal to a fresh one', () => {
     const cells = CELLS.replace(/\bn1\b/g, 'mid');
-    const fast = reanalyse(before, host(cells), '/t/top.sp');
+    const fast = reanalyse(before, readDeck(host(cells), '/t/top.sp'));
     expect(fast).toBeDefined();
     const full = analyse(host(cells), '/t/top.sp');
     expect(JSON.parse(JSON.stringify(fast!.diagnostics))).toEqual(JSON.parse(JSON.stringify(full.diagnostics)));
@@ -37,6 +37,6 @@ describe('quick paths for an edit in an included file', () => {
   });
   it('a reconnection in the cells file is not a quick edit', () => {
     const cells = CELLS.replace('Mnb n1 b foot', 'Mnb n1 a foot');
-    expect(reanalyse(before, host(cells), '/t/top.sp')).toBeUndefined();
+    expect(reanalyse(before, readDeck(host(cells), '/t/top.sp'))).toBeUndefined();
   });
 });

@@ -8,7 +8,7 @@ import * as fs from 'node:fs';
 import * as path from 'node:path';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { analyse, reanalyse } from '../server/src/engine';
+import { analyse, readDeck, reanalyse } from '../server/src/engine';
 import { memoryHost, type FileHost } from '../server/src/core/host';
 import { overlay, report } from './support/edits';
 import { hierarchicalNetlist } from '../scripts/netlists';
@@ -76,7 +76,7 @@ function check(file: string, original: string, hostFor: (t: string) => FileHost,
       const text = rename(original, pick, whole);
       if (text === original) return;
       const host = hostFor(text);
-      const fast = reanalyse(before, host, file);
+      const fast = reanalyse(before, readDeck(host, file));
       if (!fast) return;
       taken++;
       const full = analyse(host, file);
@@ -103,7 +103,7 @@ describe('net renames reuse the previous analysis and equal a fresh one', () => 
     // the benchmark's edit: a block output renamed on its only line
     const edited = text.replace(/^(Xb3 .*) y3 /m, '$1 y3_tern ');
     expect(edited).not.toBe(text);
-    const fast = reanalyse(analyse(memoryHost({ [file]: text }), file), memoryHost({ [file]: edited }), file);
+    const fast = reanalyse(analyse(memoryHost({ [file]: text }), file), readDeck(memoryHost({ [file]: edited }), file));
     expect(fast, 'renaming a net on its only line is a rename').toBeDefined();
     expect(report(file, fast!)).toEqual(report(file, analyse(memoryHost({ [file]: edited }), file)));
     // most nets of the samples are rails, clocks or ports (never renamed this way); some are not

@@ -8,7 +8,7 @@ import * as fs from 'node:fs';
 import * as path from 'node:path';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { analyse, reanalyse } from '../server/src/engine';
+import { analyse, readDeck, reanalyse } from '../server/src/engine';
 import { memoryHost, type FileHost } from '../server/src/core/host';
 import { overlay, report } from './support/edits';
 import { hierarchicalNetlist } from '../scripts/netlists';
@@ -55,7 +55,7 @@ function check(file: string, original: string, hostFor: (t: string) => FileHost,
         const next = apply(text, edits);
         if (next.text === text) continue;
         const host = hostFor(next.text);
-        const fast = reanalyse(previous, host, file);
+        const fast = reanalyse(previous, readDeck(host, file));
         if (!next.sizesOnly) expect(fast, 'only size edits take the patch').toBeUndefined();
         const full = analyse(host, file);
         if (fast) {
@@ -84,7 +84,7 @@ describe('size edits reuse the previous analysis and equal a fresh one', () => {
       else {
         const edited = text.replace(/\.param\s+wn\s*=\s*([\d.]+)/i, (_m, v) => `.param wn=${Number(v) * 2}`);
         expect(edited).not.toBe(text);
-        expect(reanalyse(analyse(overlay(file, text), file), overlay(file, edited), file), 'a parameter edit is not a size edit').toBeUndefined();
+        expect(reanalyse(analyse(overlay(file, text), file), readDeck(overlay(file, edited), file)), 'a parameter edit is not a size edit').toBeUndefined();
       }
     });
   }

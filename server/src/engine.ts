@@ -119,21 +119,19 @@ export function* analyseSteps(host: FileHost, file: string, options: EngineOptio
  * as plain numbers (circuit/patch.ts: nets, connections, phases and the classification stay; the
  * estimates of the nodes that read a changed device are redone and every other node keeps its
  * figures). Equal to `analyse` on the new text (the tests hold it); undefined when the edit is
- * of another kind, and the caller analyses afresh.
+ * of another kind, and the caller analyses afresh. `deck` is the new text's (`readDeck`).
  */
-export function reanalyse(previous: AnalysisResult, host: FileHost, file: string, options: EngineOptions = {}): AnalysisResult | undefined {
+export function reanalyse(previous: AnalysisResult, deck: Deck, options: EngineOptions = {}): AnalysisResult | undefined {
   if (options.frontEndOnly === true || options.skipEstimates === true) return undefined;
   if (previous.circuits.length !== previous.design.circuits.length || previous.circuits.some((a) => !a.electrical || !a.estimates)) return undefined;
   // a receiver budget reads the first storage node's inverter sizes
   if (previous.design.directives.budget?.receiver || options.budget?.receiver) return undefined;
-  const deck = readDeck(host, file, options);
   const renamed = renameNets(previous.deck, previous.design, deck, options);
   if (renamed) return afterRename(previous, deck, renamed, options);
   const patch = patchSizes(previous.deck, previous.design, deck);
   if (!patch) return undefined;
   // a front-end finding on an edited line may change with it (a parameter, a bin, the scale)
-  const edited = (d: Diagnostic) => patch.moved.some((m) => m.file === d.file && d.range.start.line >= m.from.start.line && d.range.start.line <= m.from.end.line);
-  if (previous.frontEnd.some(edited)) return undefined;
+  if (previous.frontEnd.some((d) => onEditedLine(d, patch.moved))) return undefined;
   const move = (list: Diagnostic[]) => moveEditedRanges(list, patch.moved);
   const circuits = previous.circuits.map((a, i): CircuitAnalysis => {
     const changed = patch.changed[i]!;
@@ -163,8 +161,7 @@ export function reanalyse(previous: AnalysisResult, host: FileHost, file: string
  * stand with the new names put in; the findings are written again (they quote names).
  */
 function afterRename(previous: AnalysisResult, deck: Deck, renamed: NetRename, options: EngineOptions): AnalysisResult | undefined {
-  const edited = (d: Diagnostic) => renamed.moved.some((m) => m.file === d.file && d.range.start.line >= m.from.start.line && d.range.start.line <= m.from.end.line);
-  if (previous.frontEnd.some(edited)) return undefined;
+  if (previous.frontEnd.some((d) => onEditedLine(d, renamed.moved))) return undefined;
   const names = renamed.names;
   const circuits = previous.circuits.map((a, i): CircuitAnalysis => {
     const circuit = renamed.design.circuits[i]!;
@@ -176,6 +173,10 @@ function afterRename(previous: AnalysisResult, deck: Deck, renamed: NetRename, o
     return { circuit, plan: a.plan, classification, ...(electrical ? { electrical } : {}), ...(estimates ? { estimates } : {}), findings };
   });
   return finish(deck, renamed.design, circuits, previous.frontEnd, options);
+}
+
+function onEditedLine(d: Diagnostic, moved: ReadonlyArray<{ file: string; from: Range }>): boolean {
+  return moved.some((m) => m.file === d.file && d.range.start.line >= m.from.start.line && d.range.start.line <= m.from.end.line);
 }
 
 /** Findings kept across a size edit that point at an edited line take its new extent. */

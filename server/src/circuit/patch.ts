@@ -4,7 +4,7 @@
 // Anything else (a changed word, a parameter expression, a line moved, an edit that could change
 // the assumed geometry scale) answers `undefined`, and the caller elaborates afresh.
 
-import { Span, type Range } from '../core/source';
+import { startLineOf, type Range } from '../core/source';
 import type { Circuit, Design, Mosfet, Origin } from './circuit';
 import type { Deck } from './deck';
 import { selectModel } from './models';
@@ -46,11 +46,11 @@ export function patchSizes(previousDeck: Deck, previous: Design, deck: Deck): Si
   for (const line of edited) {
     const values = sizesOf(line, scale.value, scale.from === 'default' || scale.from === 'assumed');
     if (!values) return undefined;
-    const at = startLine(line.before.range);
+    const at = startLineOf(line.before.range);
     byLine.set(at, [...(byLine.get(at) ?? []), { values, origin: undefined, line, card: undefined }]);
   }
   const targetOf = (o: Origin): Target | undefined => {
-    const list = byLine.get(startLine(o.range));
+    const list = byLine.get(startLineOf(o.range));
     if (!list) return undefined;
     const ch = o.range.start.character;
     return list.find((t) => t.line.file === o.file && t.line.before.range.start.character === ch);
@@ -87,10 +87,6 @@ export function patchSizes(previousDeck: Deck, previous: Design, deck: Deck): Si
   }
   const moved = edited.map((l) => ({ file: l.file, from: l.before.range, to: l.after.range }));
   return { design: { ...previous, circuits }, changed, moved };
-}
-
-function startLine(r: Range): number {
-  return r instanceof Span ? r.startLine : r.start.line;
 }
 
 /**

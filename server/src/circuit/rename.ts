@@ -5,7 +5,7 @@
 // globals, ports, names in directives or settings, source nodes) are never taken this way.
 // Anything else answers `undefined`, and the caller elaborates afresh.
 
-import { Span, type Range } from '../core/source';
+import { startLineOf, type Range } from '../core/source';
 import { DEFAULT_CLOCK_PATTERN, DEFAULT_GROUND_PATTERN, DEFAULT_SUPPLY_PATTERN, type EngineOptions } from '../core/options';
 import type { Circuit, Design, Net, Origin } from './circuit';
 import type { Deck, SubcktDefinition } from './deck';
@@ -62,7 +62,7 @@ export function renameNets(previousDeck: Deck, previous: Design, deck: Deck, opt
       m.set(from, to);
     }
   }
-  if (!meaningless(renames, previousDeck, deck, previous, options)) return undefined;
+  if (!meaningless(renames, previousDeck, deck, options)) return undefined;
   // every use renamed, and the new names new in their scope: the same graph
   for (const [scope, m] of renames) {
     const before = namesIn(previousDeck, scope);
@@ -85,12 +85,12 @@ export function renameNets(previousDeck: Deck, previous: Design, deck: Deck, opt
     pairs(line.before.items, line.after.items);
     moved.push({ file: line.file, from: line.before.range, to: line.after.range });
   }
-  const editedStart = new Set(edited.map((l) => startLine(l.before.range)));
+  const editedStart = new Set(edited.map((l) => startLineOf(l.before.range)));
   // one moved origin per original, so every instance of a line still shares its origin
   const movedOrigins = new Map<Origin, Origin>();
   const moveOrigin = <T extends { origin: Origin }>(x: T): T => {
     const o = x.origin;
-    if (!editedStart.has(startLine(o.range))) return x;
+    if (!editedStart.has(startLineOf(o.range))) return x;
     let m = movedOrigins.get(o);
     if (!m) {
       const to = moves.get(rangeKey(o.file, o.range));
@@ -145,15 +145,11 @@ export function renameNets(previousDeck: Deck, previous: Design, deck: Deck, opt
 
 /** A range by value: a line and its first word start at the same place, so the end counts too. */
 function rangeKey(file: string, r: Range): string {
-  return `${file}|${startLine(r)}|${r.start.character}|${r.end.line}|${r.end.character}`;
-}
-
-function startLine(r: Range): number {
-  return r instanceof Span ? r.startLine : r.start.line;
+  return `${file}|${startLineOf(r)}|${r.start.character}|${r.end.line}|${r.end.character}`;
 }
 
 /** Names that decide roles, and names the user wrote elsewhere, are not renamed here. */
-function meaningless(renames: Map<string | null, Map<string, string>>, previousDeck: Deck, deck: Deck, design: Design, options: EngineOptions): boolean {
+function meaningless(renames: Map<string | null, Map<string, string>>, previousDeck: Deck, deck: Deck, options: EngineOptions): boolean {
   const supply = new RegExp(options.supplyNamePattern ?? DEFAULT_SUPPLY_PATTERN, 'i');
   const ground = new RegExp(options.groundNamePattern ?? DEFAULT_GROUND_PATTERN, 'i');
   const clock = new RegExp(options.clockNamePattern ?? DEFAULT_CLOCK_PATTERN, 'i');
@@ -172,7 +168,6 @@ function meaningless(renames: Map<string | null, Map<string, string>>, previousD
   for (const g of options.grounds ?? []) written.add(g.toLowerCase());
   for (const k of options.clocks ?? []) written.add(k.net.toLowerCase()), k.inverseOf && written.add(k.inverseOf.toLowerCase());
   for (const k of options.standby ?? []) written.add(k.net.toLowerCase());
-  void design;
   for (const [scope, m] of renames) {
     const ports = scope === null ? [] : [...(previousDeck.subckts.get(scope)?.ports ?? []), ...(deck.subckts.get(scope)?.ports ?? [])];
     for (const [from, to] of m) {

@@ -39,6 +39,11 @@ export class Span implements Range {
   }
 }
 
+/** A range's first line, read without building a position object when it is a `Span`. */
+export function startLineOf(r: Range): number {
+  return r instanceof Span ? r.startLine : r.start.line;
+}
+
 export function rangeOf(startLine: number, startChar: number, endLine: number, endChar: number): Range {
   return new Span(startLine, startChar, endLine, endChar);
 }

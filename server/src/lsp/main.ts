@@ -184,9 +184,9 @@ function analysisOf(uri: string): Promise<Cached | undefined> {
 async function runAnalysis(uri: string, gen: number): Promise<Cached | undefined> {
   const file = fileURLToPath(uri);
   // every text the run reads, as it read it (all reads happen in its first slice)
-  const { texts, recording } = recordingHost();
+  const { texts, noting } = notingHost();
   const lines = countLines(host.readFile(file) ?? '');
-  const steps = analyseSteps(recording, file, engineOptions(lines));
+  const steps = analyseSteps(noting, file, engineOptions(lines));
   let sliceStart = performance.now();
   for (;;) {
     const r = steps.next();
@@ -210,9 +210,9 @@ async function runAnalysis(uri: string, gen: number): Promise<Cached | undefined
 }
 
 /** The host, noting each text read, so a result knows the texts it came from. */
-function recordingHost(): { texts: Map<string, string | undefined>; recording: FileHost } {
+function notingHost(): { texts: Map<string, string | undefined>; noting: FileHost } {
   const texts = new Map<string, string | undefined>();
-  const recording: FileHost = {
+  const noting: FileHost = {
     ...host,
     readFile(p) {
       const t = host.readFile(p);
@@ -220,7 +220,7 @@ function recordingHost(): { texts: Map<string, string | undefined>; recording: F
       return t;
     },
   };
-  return { texts, recording };
+  return { texts, noting };
 }
 
 function countLines(text: string): number {
@@ -243,6 +243,9 @@ async function currentAnalysis(uri: string): Promise<Cached | undefined> {
   return undefined;
 }
 
+/** What was last sent per root, to skip sending the same diagnostics twice. */
+const sentFrom = new Map<string, Diagnostic[]>();
+
 function send(uri: string, diagnostics: Diagnostic[]): void {
   const file = fileURLToPath(uri);
   const byFile = new Map<string, LspDiagnostic[]>([[file, []]]);
@@ -255,6 +258,7 @@ function send(uri: string, diagnostics: Diagnostic[]): void {
   for (const f of before) if (!byFile.has(f)) connection.sendDiagnostics({ uri: pathToFileURL(f).toString(), diagnostics: [] });
   for (const [f, list] of byFile) connection.sendDiagnostics({ uri: pathToFileURL(f).toString(), diagnostics: list });
   published.set(uri, new Set(byFile.keys()));
+  sentFrom.set(uri, diagnostics);
   // a file this netlist includes that was open as a netlist of its own (opened first) is
   // covered from now on: what it published for other files is withdrawn
   for (const f of new Set([...byFile.keys(), ...(results.get(uri)?.texts.keys() ?? [])])) {
@@ -266,8 +270,6 @@ function send(uri: string, diagnostics: Diagnostic[]): void {
   }
 }
 
-/** What was last sent per root, to skip sending the same diagnostics twice. */
-const sentFrom = new Map<string, Diagnostic[]>();
 
 /**
  * The netlist whose analysis covers a document: another open netlist that includes it (its
@@ -289,7 +291,6 @@ async function publish(uri: string): Promise<void> {
   if (!c || genOf(uri) !== gen || rootFor(uri) !== uri) return;
   if (sentFrom.get(uri) === c.result.diagnostics) return;
   guard('publish', () => send(uri, c.result.diagnostics), undefined);
-  sentFrom.set(uri, c.result.diagnostics);
 }
 
 /**
@@ -328,20 +329,17 @@ function quickAnswer(uri: string): void {
   const file = fileURLToPath(uri);
   const lines = countLines(host.readFile(file) ?? '');
   if (lines > settings.maxAnalysisLines || last.result.circuits.length !== last.result.design.circuits.length) return;
-  const deck = deckFor(uri);
-  if (!deck) return;
+  // the parse of the new text serves both quick answers
+  const { texts, deck } = parsed(uri);
   const moved = carryOver(last.result, deck);
   if (moved) {
     send(uri, moved);
-    sentFrom.set(uri, moved);
     return;
   }
-  const { texts, recording } = recordingHost();
-  const result = reanalyse(last.result, recording, file, engineOptions(lines));
+  const result = reanalyse(last.result, deck, engineOptions(lines));
   if (!result) return;
   results.set(uri, { texts, result });
   send(uri, result.diagnostics);
-  sentFrom.set(uri, result.diagnostics);
 }
 
 /** Roots whose analysis read `file`: they are re-analysed when it changes. */
@@ -421,7 +419,7 @@ function syntaxOf(c: Cached, file: string) {
   return c.result.deck.files.find((f) => f.file === file);
 }
 
-const decks = new Map<string, { texts: Map<string, string>; deck: Deck }>();
+const decks = new Map<string, { texts: Map<string, string | undefined>; deck: Deck }>();
 
 /**
  * The parsed netlist alone, for requests that need no analysis (outline, folding, definitions,
@@ -432,13 +430,17 @@ function deckFor(uri: string): Deck | undefined {
   if (!uri.startsWith('file:')) return undefined;
   const full = results.get(uri);
   if (full && fresh(full)) return full.result.deck;
+  return parsed(uri).deck;
+}
+
+/** The parsed netlist of the current texts, with the texts it read (cached until one changes). */
+function parsed(uri: string): { texts: Map<string, string | undefined>; deck: Deck } {
   const hit = decks.get(uri);
-  if (hit && [...hit.texts].every(([f, t]) => host.readFile(f) === t)) return hit.deck;
-  const deck = readDeck(host, fileURLToPath(uri), engineOptions(0));
-  const texts = new Map<string, string>();
-  for (const f of deck.files) texts.set(f.file, host.readFile(f.file) ?? '');
-  decks.set(uri, { texts, deck });
-  return deck;
+  if (hit && [...hit.texts].every(([f, t]) => host.readFile(f) === t)) return hit;
+  const { texts, noting } = notingHost();
+  const entry = { texts, deck: readDeck(noting, fileURLToPath(uri), engineOptions(0)) };
+  decks.set(uri, entry);
+  return entry;
 }
 
 function fileOf(deck: Deck | undefined, file: string) {

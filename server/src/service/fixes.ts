@@ -10,6 +10,7 @@ import type { SyntaxFile, Statement, WordItem } from '../syntax/tree';
 import { interpretElement } from '../circuit/elements';
 import { formatEng } from '../circuit/numbers';
 import type { Circuit } from '../circuit/circuit';
+import { sizingBasis } from '../analysis/electrical/keeper';
 
 export interface TextEdit {
   file: string;
@@ -28,6 +29,14 @@ export interface QuickFix {
 // nor charge-sharing: the charge is lost at once; precharging the internal node answers it
 export const KEEPER_FIX_RULES: RuleCode[] = ['floating-node', 'retention-short', 'combined-droop'];
 export const ACCEPTABLE_RULES: RuleCode[] = ['floating-node', 'retention-short', 'charge-sharing', 'coupling-noise', 'combined-droop', 'contention', 'keeper-weak', 'keeper-strong', 'undriven-net'];
+
+/** The circuits holding the finding's node, with the node's net id, in order. */
+function* circuitsWithNode(result: AnalysisResult, d: Diagnostic): Generator<{ a: AnalysisResult['circuits'][number]; c: Circuit; id: number }> {
+  for (const a of result.circuits) {
+    const id = a.circuit.netByName.get(d.node!);
+    if (id !== undefined) yield { a, c: a.circuit, id };
+  }
+}
 
 function at(line: number): Range {
   return { start: { line, character: 0 }, end: { line, character: 0 } };
@@ -140,10 +149,7 @@ function placement(result: AnalysisResult, c: Circuit, file: SyntaxFile, id: num
  * inverter, the weak feedback inverter alone. Either holds both levels, unlike a keeper.
  */
 function holderFix(result: AnalysisResult, d: Diagnostic, file: SyntaxFile): QuickFix | undefined {
-  for (const a of result.circuits) {
-    const c = a.circuit;
-    const id = c.netByName.get(d.node!);
-    if (id === undefined) continue;
+  for (const { a, c, id } of circuitsWithNode(result, d)) {
     const h = a.estimates?.get(id)?.suggestedHolder;
     if (!h) continue;
     const { local, safe, dim, insertLine, lc } = placement(result, c, file, id);
@@ -181,10 +187,7 @@ function holderFix(result: AnalysisResult, d: Diagnostic, file: SyntaxFile): Qui
  * joined capacitance already sits at the stored level and takes no charge from the node.
  */
 function prechargeFix(result: AnalysisResult, d: Diagnostic, file: SyntaxFile): QuickFix | undefined {
-  for (const a of result.circuits) {
-    const c = a.circuit;
-    const id = c.netByName.get(d.node!);
-    if (id === undefined) continue;
+  for (const { a, c, id } of circuitsWithNode(result, d)) {
     const cs = a.estimates?.get(id)?.chargeSharing;
     if (!cs || cs.droopV <= 0 || cs.joined.length === 0) return undefined;
     const { dim, insertLine, local } = placement(result, c, file, id);
@@ -200,7 +203,7 @@ function prechargeFix(result: AnalysisResult, d: Diagnostic, file: SyntaxFile): 
     if (!written || written.words.length < 4 || !model) return undefined;
     const [drainWord, gateWord, sourceWord, bulkWord] = written.words as [WordItem, WordItem, WordItem, WordItem];
     const railWord = pm.d === id ? sourceWord : drainWord;
-    const wMin = Math.min(...c.mosfets.filter((m) => m.polarity === pm.polarity).map((m) => m.wM / m.nf));
+    const wMin = sizingBasis(c)[pm.polarity]!.wMin;
     const lines = [`* tidemark precharge for the internal nodes of ${local}: they joined ${formatEng(cs.sharedF, 'F')} to it and drooped it by ${formatEng(cs.droopV, 'V')}`];
     const names: string[] = [];
     for (const j of cs.joined) {
@@ -221,10 +224,7 @@ function prechargeFix(result: AnalysisResult, d: Diagnostic, file: SyntaxFile): 
 }
 
 function keeperFix(result: AnalysisResult, d: Diagnostic, file: SyntaxFile): QuickFix | undefined {
-  for (const a of result.circuits) {
-    const c = a.circuit;
-    const id = c.netByName.get(d.node!);
-    if (id === undefined) continue;
+  for (const { a, c, id } of circuitsWithNode(result, d)) {
     const e = a.estimates?.get(id);
     const s = e?.suggestedKeeper;
     if (!s) continue;
