@@ -100,6 +100,8 @@ export interface OtherElement {
 export interface Instance {
   name: string;
   subckt: string;
+  /** The flat nets its ports are bound to, in port order. */
+  ports: number[];
   origin: Origin;
 }
 

@@ -26,6 +26,88 @@ const DEFAULT_DEVICE_RULES: { re: RegExp; kind: DeviceKind }[] = [
   { re: /diode/, kind: 'diode' },
 ];
 
+/**
+ * The flat name of a global net a node word names ('0' for the ground aliases), or undefined for
+ * a name local to its definition. A definition's own ports are looked up before this.
+ */
+export function globalNameOf(word: string, globals: ReadonlySet<string>): string | undefined {
+  const name = GROUND_ALIASES.has(word) ? '0' : word;
+  return globals.has(name) || name.endsWith('!') ? name : undefined;
+}
+
+/** The global net names of a deck: node 0 and its `.global` names. */
+export function deckGlobals(deck: Deck): Set<string> {
+  return new Set(['0', ...deck.globals.map((g) => g.item.text.toLowerCase())]);
+}
+
+/**
+ * The node words of an element line as the elaborator reads them, or why it skips the line:
+ * not an element name, not readable, too few nodes (or a MOSFET without a model), an instance
+ * without a subcircuit name.
+ */
+export function elementNodeWords(item: Statement): { skipped?: undefined; syntax: ElementSyntax; nodes: WordItem[] } | { skipped: 'name' | 'unreadable' | 'nodes' | 'subckt'; syntax?: ElementSyntax; need?: number } {
+  if (!/[a-z]/.test(item.head.text[0]!.toLowerCase())) return { skipped: 'name' };
+  const syntax = interpretElement(item);
+  if (!syntax) return { skipped: 'unreadable' };
+  const nodes = 'nodes' in syntax ? syntax.nodes : [];
+  const need = syntax.kind === 'mos' ? 4 : syntax.kind === 'passive' || syntax.kind === 'source' || syntax.kind === 'diode' ? 2 : 0;
+  if (nodes.length < need || (syntax.kind === 'mos' && !syntax.model)) return { skipped: 'nodes', syntax, need };
+  if (syntax.kind === 'instance' && !syntax.subckt) return { skipped: 'subckt', syntax };
+  return { syntax, nodes };
+}
+
+/**
+ * A definition's net slots as its template numbers them: ports first (each its own slot, even
+ * when named like a global, so binding stays positional), then the other names in the order
+ * the element lines first use them; globals apart, in the order first used. The flat circuit's
+ * net order follows from these lists, so an edit that keeps them keeps every net's number.
+ */
+export class NetSlots {
+  readonly localNames: string[] = [];
+  readonly localOrigins: Origin[] = [];
+  readonly globalNames: string[] = [];
+  private readonly index = new Map<string, number>();
+  private readonly globalIndex = new Map<string, number>();
+
+  constructor(
+    private readonly subckt: string | null,
+    private readonly globals: ReadonlySet<string>,
+  ) {}
+
+  /** False when the port's name was listed already (it still gets its slot). */
+  addPort(p: WordItem, file: string): boolean {
+    const name = p.text.toLowerCase();
+    const fresh = !this.index.has(name);
+    const i = this.localNames.length;
+    this.localNames.push(name);
+    this.localOrigins.push({ file, range: p.range, subckt: this.subckt, local: name });
+    if (fresh) this.index.set(name, i);
+    return fresh;
+  }
+
+  /** A node word's slot: >= 0 a local net, < 0 -(k+1) for globalNames[k]. */
+  ref(w: WordItem, file: string): number {
+    const name = w.text.toLowerCase();
+    const known = this.index.get(name);
+    if (known !== undefined) return known;
+    const global = globalNameOf(name, this.globals);
+    if (global !== undefined) {
+      let g = this.globalIndex.get(global);
+      if (g === undefined) {
+        g = this.globalNames.length;
+        this.globalNames.push(global);
+        this.globalIndex.set(global, g);
+      }
+      return -(g + 1);
+    }
+    const i = this.localNames.length;
+    this.localNames.push(name);
+    this.localOrigins.push({ file, range: w.range, subckt: this.subckt, local: name });
+    this.index.set(name, i);
+    return i;
+  }
+}
+
 function globToRegExp(glob: string): RegExp {
   return new RegExp('^' + glob.replace(/[.+^${}()|[\]\\]/g, '\\$&').replace(/\*/g, '.*').replace(/\?/g, '.') + '$', 'i');
 }
@@ -122,7 +204,7 @@ class Elaborator {
     for (const r of this.options.deviceRules ?? []) this.deviceRules.push({ re: globToRegExp(r.pattern), kind: r.kind });
     this.deviceRules.push(...DEFAULT_DEVICE_RULES);
 
-    for (const g of deck.globals) this.globals.add(g.item.text.toLowerCase());
+    for (const g of deckGlobals(deck)) this.globals.add(g);
 
     // Top-level cards: parameters, options, temperature, models (models anywhere are global).
     for (const { file, item } of deck.top) this.topCard(file, item);
@@ -345,48 +427,12 @@ class Elaborator {
   private template(def: SubcktDefinition | undefined): Template {
     let t = this.templates.get(def);
     if (t) return t;
-    const localNames: string[] = [];
-    const localOrigins: Origin[] = [];
-    const index = new Map<string, number>();
-    const globalNames: string[] = [];
-    const globalIndex = new Map<string, number>();
     const subckt = def ? def.name : null;
-    const netRef = (w: WordItem, file: string): number => {
-      let name = w.text.toLowerCase();
-      const port = index.get(name);
-      if (port !== undefined) return port;
-      if (GROUND_ALIASES.has(name)) name = '0';
-      if (this.globals.has(name) || name.endsWith('!')) {
-        let g = globalIndex.get(name);
-        if (g === undefined) {
-          g = globalNames.length;
-          globalNames.push(name);
-          globalIndex.set(name, g);
-        }
-        return -(g + 1);
-      }
-      let i = index.get(name);
-      if (i === undefined) {
-        i = localNames.length;
-        localNames.push(name);
-        localOrigins.push({ file, range: w.range, subckt, local: name });
-        index.set(name, i);
-      }
-      return i;
-    };
+    const slots = new NetSlots(subckt, this.globals);
     if (def) {
-      const seenPorts = new Set<string>();
-      def.portItems.forEach((p) => {
-        const name = p.text.toLowerCase();
-        if (seenPorts.has(name)) this.report(diag('syntax', def.file, p.range, `port '${p.text}' is listed twice`));
-        seenPorts.add(name);
-        // Ports always get local slots, even when named like a global, so binding stays positional.
-        const i = localNames.length;
-        localNames.push(name);
-        localOrigins.push({ file: def.file, range: p.range, subckt, local: name });
-        if (!index.has(name)) index.set(name, i);
-      });
+      for (const p of def.portItems) if (!slots.addPort(p, def.file)) this.report(diag('syntax', def.file, p.range, `port '${p.text}' is listed twice`));
     }
+    const netRef = (w: WordItem, file: string) => slots.ref(w, file);
     const elements: TemplateElement[] = [];
     const params: Located<Statement>[] = [];
     const body = def ? def.body : this.deck.top;
@@ -400,29 +446,28 @@ class Elaborator {
         continue;
       }
       const letter = head[0]!;
-      if (!/[a-z]/.test(letter)) {
+      const read = elementNodeWords(item);
+      if (read.skipped === 'name') {
         this.report(diag('syntax', file, item.head.range, `'${item.head.text}' is not an element name: elements start with a letter`));
         continue;
       }
-      const syntax = interpretElement(item);
-      if (!syntax) continue;
+      if (read.skipped === 'unreadable') continue;
+      const syntax = read.syntax!;
       if (!MODELLED_LETTERS.has(letter)) {
         this.report(diag('unknown-element', file, item.head.range, `${item.head.text}: '${letter.toUpperCase()}' elements are not modelled; kept as connectivity only`));
       }
-      const nodeItems = 'nodes' in syntax ? syntax.nodes : [];
-      const need = syntax.kind === 'mos' ? 4 : syntax.kind === 'passive' || syntax.kind === 'source' || syntax.kind === 'diode' ? 2 : 0;
-      if (nodeItems.length < need || (syntax.kind === 'mos' && !syntax.model)) {
-        this.report(diag('syntax', file, item.range, `${item.head.text} needs ${need} nodes${syntax.kind === 'mos' ? ' (drain gate source bulk) and a model' : ''}`));
+      if (read.skipped === 'nodes') {
+        this.report(diag('syntax', file, item.range, `${item.head.text} needs ${read.need} nodes${syntax.kind === 'mos' ? ' (drain gate source bulk) and a model' : ''}`));
         continue;
       }
-      if (syntax.kind === 'instance' && !syntax.subckt) {
+      if (read.skipped !== undefined) {
         this.report(diag('syntax', file, item.range, `${item.head.text} needs nodes and a subcircuit name`));
         continue;
       }
-      const nodes = nodeItems.map((w) => netRef(w, file));
+      const nodes = read.nodes.map((w) => netRef(w, file));
       elements.push({ syntax, nodes, origin: { file, range: item.range, subckt, local: item.head.text.toLowerCase() }, file });
     }
-    t = { def, localNames, localOrigins, globalNames, elements, params, valueCache: new Map() };
+    t = { def, localNames: slots.localNames, localOrigins: slots.localOrigins, globalNames: slots.globalNames, elements, params, valueCache: new Map() };
     this.templates.set(def, t);
     return t;
   }
@@ -705,9 +750,9 @@ class Elaborator {
           if (s.kind === 'source') c.sources.push({ name, letter: s.letter, p: net(el.nodes[0]!), n: net(el.nodes[1]!), waveform: v.waveform, origin: el.origin });
           break;
         case 'instance': {
-          c.instances.push({ name, subckt: v.target.name, origin: el.origin });
           const child = this.template(v.target);
           const childMap = el.nodes.map(net);
+          c.instances.push({ name, subckt: v.target.name, ports: childMap.slice(), origin: el.origin });
           this.instantiate(c, child, childMap, name + '.', v.scope, v.key, [...defStack, v.target]);
           break;
         }
