@@ -1,5 +1,6 @@
-// The quick paths when the edit is in an included file: a comment, a size and a rename in the
-// cells file a top netlist includes, each equal to a fresh analysis of the edited pair of files.
+// The quick paths when the edit is in an included file: a comment, a size, a rename and a
+// reconnection in the cells file a top netlist includes, each equal to a fresh analysis of the
+// edited pair of files.
 
 import { describe, expect, it } from 'vitest';
 import { analyse, readDeck, reanalyse } from '../server/src/engine';
@@ -35,8 +36,17 @@ describe('quick paths for an edit in an included file', () => {
     expect(JSON.parse(JSON.stringify(fast!.diagnostics))).toEqual(JSON.parse(JSON.stringify(full.diagnostics)));
     expect(report('/t/top.sp', fast!)).toEqual(report('/t/top.sp', full));
   });
-  it('a reconnection in the cells file is not a quick edit', () => {
+  it('a reconnection in the cells file: rewired from the previous analysis, equal to a fresh one', () => {
     const cells = CELLS.replace('Mnb n1 b foot', 'Mnb n1 a foot');
+    const fast = reanalyse(before, readDeck(host(cells), '/t/top.sp'));
+    expect(fast).toBeDefined();
+    const full = analyse(host(cells), '/t/top.sp');
+    expect(JSON.parse(JSON.stringify(fast!.diagnostics))).toEqual(JSON.parse(JSON.stringify(full.diagnostics)));
+    expect(report('/t/top.sp', fast!)).toEqual(report('/t/top.sp', full));
+  });
+  it('a device added in the cells file is not a quick edit', () => {
+    const cells = CELLS.replace('Mnb n1 b foot', 'Mextra n1 b vss vss tn w=0.2u l=0.05u\nMnb n1 b foot');
+    expect(cells).not.toBe(CELLS);
     expect(reanalyse(before, readDeck(host(cells), '/t/top.sp'))).toBeUndefined();
   });
 });

@@ -10,14 +10,15 @@ import { elaborate } from './circuit/elaborate';
 import type { Circuit, Design } from './circuit/circuit';
 import { findClocks } from './phases/clocks';
 import { buildPhases, type PhasePlan } from './phases/phases';
-import { buildSwitchNetwork } from './analysis/switchNetwork';
-import { classifySteps, renameStates, type Classification } from './analysis/classify';
+import { buildSwitchNetwork, patchSwitchNetwork } from './analysis/switchNetwork';
+import { classifySteps, reclassify, renameStates, type Classification } from './analysis/classify';
 import { classificationFindings } from './findings/classificationFindings';
 import { applyAccepts } from './findings/accepts';
-import { buildContext, type ElectricalContext } from './analysis/electrical/context';
-import { estimateNodeSteps, nodesReading, renameEstimates, updateEstimates, type NodeEstimate } from './analysis/electrical/estimate';
+import { buildContext, rewiredContext, type ElectricalContext } from './analysis/electrical/context';
+import { estimateNodeSteps, nodesAround, nodesReading, reestimate, renameEstimates, updateEstimates, type NodeEstimate } from './analysis/electrical/estimate';
 import { patchSizes } from './circuit/patch';
 import { renameNets, type NetRename } from './circuit/rename';
+import { rewireNets, type Rewiring } from './circuit/rewire';
 import { sameRange } from './syntax/compare';
 import type { Range } from './core/source';
 import { runToEnd, type Steps } from './core/steps';
@@ -129,7 +130,10 @@ export function reanalyse(previous: AnalysisResult, deck: Deck, options: EngineO
   const renamed = renameNets(previous.deck, previous.design, deck, options);
   if (renamed) return afterRename(previous, deck, renamed, options);
   const patch = patchSizes(previous.deck, previous.design, deck);
-  if (!patch) return undefined;
+  if (!patch) {
+    const rewired = rewireNets(previous.deck, previous.design, deck, (i) => rewireLimit(previous.circuits[i]!.classification.network.components.length));
+    return rewired && afterRewire(previous, deck, rewired, options);
+  }
   // a front-end finding on an edited line may change with it (a parameter, a bin, the scale)
   if (previous.frontEnd.some((d) => onEditedLine(d, patch.moved))) return undefined;
   const move = (list: Diagnostic[]) => moveEditedRanges(list, patch.moved);
@@ -173,6 +177,57 @@ function afterRename(previous: AnalysisResult, deck: Deck, renamed: NetRename, o
     return { circuit, plan: a.plan, classification, ...(electrical ? { electrical } : {}), ...(estimates ? { estimates } : {}), findings };
   });
   return finish(deck, renamed.design, circuits, previous.frontEnd, options);
+}
+
+/**
+ * Groups a reconnection may rebuild (and copies of the edited lines it may rewire) before a
+ * fresh analysis is the faster way: a fiftieth of the circuit's groups, at least 256 (measured
+ * on the benchmark's 100k netlist: an edit in a leaf cell used 2,100 times is slower patched).
+ */
+function rewireLimit(groups: number): number {
+  return Math.max(256, groups / 50);
+}
+
+/**
+ * After a reconnection (circuit/rewire.ts): the same nets, some devices on other ones. The
+ * network is rebuilt around the moved devices, the values and the classification around the
+ * groups that changed, and the estimates of the nodes near anything that changed; the findings
+ * are written again. Undefined when a stage cannot be patched (the caller analyses afresh).
+ */
+function afterRewire(previous: AnalysisResult, deck: Deck, rewired: Rewiring, options: EngineOptions): AnalysisResult | undefined {
+  if (previous.frontEnd.some((d) => onEditedLine(d, rewired.moved))) return undefined;
+  const move = (list: Diagnostic[]) => moveEditedRanges(list, rewired.moved);
+  const circuits: CircuitAnalysis[] = [];
+  for (let i = 0; i < previous.circuits.length; i++) {
+    const a = previous.circuits[i]!;
+    const circuit = rewired.design.circuits[i]!;
+    const changed = rewired.changed[i]!;
+    const nm = circuit.mosfets.length;
+    const switches = [...changed.mosfets, ...changed.resistors.map((k) => nm + k), ...changed.inductors.map((k) => nm + circuit.resistors.length + k)];
+    if (circuit === a.circuit) {
+      // the edited definition is not used in this circuit: its findings stand where they are
+      circuits.push({ ...a, findings: { phases: move(a.findings.phases), classification: move(a.findings.classification), electrical: move(a.findings.electrical), models: move(a.findings.models) } });
+      continue;
+    }
+    const { network, rebuilt, previousId } = patchSwitchNetwork(a.classification.network, circuit, switches);
+    // an edit in a cell used everywhere touches most of the circuit: a fresh analysis is faster
+    if (rebuilt.length > rewireLimit(network.components.length)) return undefined;
+    const reclassified = reclassify(a.classification, network, rebuilt, previousId);
+    if (!reclassified) return undefined;
+    const { classification } = reclassified;
+    // keeper sizing reads device sizes only, which a reconnection keeps
+    sameSizingBasis(a.circuit, circuit, []);
+    const ctx = rewiredContext(a.electrical!, circuit, network, classification, changed);
+    // what the estimates read that changed: the rebuilt groups, the gate loads and capacitors
+    // that moved, and every net whose value, storage flag or results changed
+    const seeds = new Set<number>(reclassified.changedNets);
+    for (const id of rebuilt) for (const x of network.components[id]!.nodes) seeds.add(x);
+    for (const k of changed.mosfets) seeds.add(a.circuit.mosfets[k]!.g).add(circuit.mosfets[k]!.g);
+    for (const k of changed.capacitors) for (const c of [a.circuit, circuit]) seeds.add(c.capacitors[k]!.a).add(c.capacitors[k]!.b);
+    const estimates = reestimate(ctx, a.estimates!, nodesAround(ctx, seeds));
+    circuits.push({ circuit, plan: a.plan, classification, electrical: ctx, estimates, findings: { phases: move(a.findings.phases), classification: classificationFindings(circuit, classification, options), electrical: electricalFindings(ctx, estimates), models: move(a.findings.models) } });
+  }
+  return finish(deck, rewired.design, circuits, previous.frontEnd, options);
 }
 
 function onEditedLine(d: Diagnostic, moved: ReadonlyArray<{ file: string; from: Range }>): boolean {

@@ -7,7 +7,7 @@
 
 import type { PhasePlan, Phase } from '../phases/phases';
 import { floatWindow } from '../phases/phases';
-import { evaluateComponent, newScratch, propagateConstants, X, type Scratch } from './constants';
+import { evaluateComponent, newScratch, propagateConstants, repropagateConstants, X, type Scratch } from './constants';
 import { NetRole, SwitchKind, type Component, type SwitchNetwork } from './switchNetwork';
 import { ITEMS_PER_SLICE, runToEnd, type Steps } from '../core/steps';
 
@@ -45,7 +45,12 @@ export interface Classification {
   /** Components too wide to enumerate, and components whose witnesses could not be checked. */
   wideComponents: number;
   uncheckedComponents: number;
+  /** Per phase, by component id: WIDE and UNCHECKED bits (what the two counts are made of). */
+  componentFlags: Uint8Array[];
 }
+
+const WIDE = 1;
+const UNCHECKED = 2;
 
 /** Enumeration limits: free gate variables of one component, and leaves of a witness check. */
 export const MAX_FREE_GATES = 16;
@@ -222,32 +227,20 @@ export function classify(net: SwitchNetwork, plan: PhasePlan, how: { twins?: boo
 /** `classify` in slices (see core/steps). */
 export function* classifySteps(net: SwitchNetwork, plan: PhasePlan, how: { twins?: boolean } = {}): Steps<Classification> {
   const c = net.circuit;
-  const storage = new Uint8Array(c.nets.length);
-  for (let i = 0; i < c.nets.length; i++) if (net.drivesGate[i]) storage[i] = 1;
-  for (const o of c.outputs) storage[o] = 1;
-  // A node with a deliberate storage capacitor (DRAM-style) stores charge even if it drives no gate;
-  // the threshold keeps an extracted netlist's small parasitics from making every node storage.
-  const explicitF = new Float64Array(c.nets.length);
-  for (const cap of c.capacitors) {
-    if (cap.capacitanceF === undefined || cap.a === cap.b) continue;
-    explicitF[cap.a] += cap.capacitanceF;
-    explicitF[cap.b] += cap.capacitanceF;
-  }
-  for (let i = 0; i < c.nets.length; i++) if (explicitF[i]! >= STORAGE_CAPACITOR_F) storage[i] = 1;
+  const storage = storageNodes(net);
   const scratch = newScratch(c.nets.length);
   const local = new Int32Array(c.nets.length).fill(-1);
-  const result: Classification = { network: net, plan, perPhase: [], phaseValues: [], storage, wideComponents: 0, uncheckedComponents: 0 };
-  const wide = new Set<number>();
-  const unchecked = new Set<number>();
-  const buffers: Buffers = { gatePos: new Int32Array(c.nets.length).fill(-1), masks: new Uint8Array(1024), driverId: new Int32Array(64), witnesses: new Map(), twins: how.twins !== false };
+  const result: Classification = { network: net, plan, perPhase: [], phaseValues: [], storage, wideComponents: 0, uncheckedComponents: 0, componentFlags: [] };
+  const buffers = newBuffers(c.nets.length, how.twins !== false);
   for (const phase of plan.phases) {
     const values = propagateConstants(net, phase.clocks, scratch);
     result.phaseValues.push(values);
     const states = new Map<number, NodePhaseResult>();
+    const flags = new Uint8Array(net.components.length);
     // `work` is the phase's values, changed by a witness check and restored after it
     const work = values.slice();
     const out = new Uint8Array(values.length);
-    const pass: PhasePass = { net, values, local, scratch, states, wide, unchecked, work, out, storage, buffers };
+    const pass: PhasePass = { net, values, local, scratch, states, flags, work, out, storage, buffers };
     for (let k = 0; k < net.components.length; k++) {
       const comp = net.components[k]!;
       for (let i = 0; i < comp.nodes.length; i++) local[comp.nodes[i]!] = i;
@@ -256,10 +249,164 @@ export function* classifySteps(net: SwitchNetwork, plan: PhasePlan, how: { twins
     }
     for (let i = 0; i < c.nets.length; i++) if (net.unreachable[i]) states.set(i, { state: 'undriven', exact: true });
     result.perPhase.push(states);
+    result.componentFlags.push(flags);
   }
-  result.wideComponents = wide.size;
-  result.uncheckedComponents = unchecked.size;
+  countFlags(result);
+  witnessMemos.set(result, buffers.witnesses);
   return result;
+}
+
+/**
+ * The witness checks a classification did, by key (see witnessKey): valid for any circuit with
+ * the same net names and numbers, so a reclassification after a reconnection starts from them.
+ */
+const witnessMemos = new WeakMap<Classification, Map<string, WitnessMemo>>();
+
+function newBuffers(netCount: number, twins: boolean): Buffers {
+  return { gatePos: new Int32Array(netCount).fill(-1), masks: new Uint8Array(1024), driverId: new Int32Array(64), witnesses: new Map(), twins };
+}
+
+/** The two counts: components wide, or unchecked, in at least one phase. */
+function countFlags(cl: Classification): void {
+  const n = cl.network.components.length;
+  let wide = 0;
+  let unchecked = 0;
+  for (let k = 0; k < n; k++) {
+    let f = 0;
+    for (const flags of cl.componentFlags) f |= flags[k]!;
+    if (f & WIDE) wide++;
+    if (f & UNCHECKED) unchecked++;
+  }
+  cl.wideComponents = wide;
+  cl.uncheckedComponents = unchecked;
+}
+
+/**
+ * Storage nodes: those that drive a gate or are declared outputs, and those with a deliberate
+ * storage capacitor (DRAM-style) even if they drive no gate; the threshold keeps an extracted
+ * netlist's small parasitics from making every node storage.
+ */
+export function storageNodes(net: SwitchNetwork): Uint8Array {
+  const c = net.circuit;
+  const storage = new Uint8Array(c.nets.length);
+  for (let i = 0; i < c.nets.length; i++) if (net.drivesGate[i]) storage[i] = 1;
+  for (const o of c.outputs) storage[o] = 1;
+  const explicitF = new Float64Array(c.nets.length);
+  for (const cap of c.capacitors) {
+    if (cap.capacitanceF === undefined || cap.a === cap.b) continue;
+    explicitF[cap.a] += cap.capacitanceF;
+    explicitF[cap.b] += cap.capacitanceF;
+  }
+  for (let i = 0; i < c.nets.length; i++) if (explicitF[i]! >= STORAGE_CAPACITOR_F) storage[i] = 1;
+  return storage;
+}
+
+/** How far a group's check reads back through the gates that drive it (trace depth, plus the leaves' groups). */
+const READ_DEPTH = MAX_TRACE_DEPTH + 1;
+
+/**
+ * The classification after an edit that rebuilt some groups of the network (see
+ * patchSwitchNetwork), from the one before it: per phase, the values are propagated again from
+ * the rebuilt groups, and only the groups whose check can read something that changed (a
+ * rebuilt group, a net whose value or storage flag changed, within READ_DEPTH gate levels back)
+ * are checked again; every other group keeps its results, which name the same nets and devices.
+ * Equal to `classify` on the new network (the tests hold it); undefined when a phase's values
+ * cannot be found that way. `changedNets`: the nets whose storage flag, value in some phase or
+ * results in some phase differ from before, for the stages after this one.
+ */
+export function reclassify(previous: Classification, net: SwitchNetwork, rebuilt: readonly number[], previousId: Int32Array): { classification: Classification; changedNets: number[] } | undefined {
+  const c = net.circuit;
+  const storage = storageNodes(net);
+  const scratch = newScratch(c.nets.length);
+  const local = new Int32Array(c.nets.length).fill(-1);
+  const plan = previous.plan;
+  const result: Classification = { network: net, plan, perPhase: [], phaseValues: [], storage, wideComponents: 0, uncheckedComponents: 0, componentFlags: [] };
+  const buffers = newBuffers(c.nets.length, true);
+  buffers.witnesses = witnessMemos.get(previous) ?? buffers.witnesses;
+  const seeds = new Set<number>(rebuilt);
+  // nets whose storage flag, value or results may differ (for the stages after this one)
+  const changed = new Uint8Array(c.nets.length);
+  for (let x = 0; x < c.nets.length; x++) {
+    if (storage[x] === previous.storage[x]) continue;
+    changed[x] = 1;
+    if (net.componentOf[x]! >= 0) seeds.add(net.componentOf[x]!);
+  }
+  for (let p = 0; p < plan.phases.length; p++) {
+    const before = previous.phaseValues[p]!;
+    const values = repropagateConstants(net, before, rebuilt, scratch);
+    if (!values) return undefined;
+    const dirty = new Uint8Array(net.components.length);
+    const queue: number[] = [];
+    const mark = (id: number) => {
+      if (id >= 0 && !dirty[id]) (dirty[id] = 1), queue.push(id);
+    };
+    for (const id of seeds) mark(id);
+    for (let x = 0; x < values.length; x++) if (values[x] !== before[x]) (changed[x] = 1), mark(net.componentOf[x]!);
+    // groups reading a dirty one through their gates, READ_DEPTH levels on; a check reads no
+    // further through a gate that is a constant in the phase (the same one as before)
+    for (let level = 0, start = 0; level < READ_DEPTH; level++) {
+      const end = queue.length;
+      for (let q = start; q < end; q++) {
+        for (const x of net.components[queue[q]!]!.nodes) {
+          if (values[x] !== X && values[x] === before[x]) continue;
+          for (const g of net.gatedComponents[x]!) mark(g);
+        }
+      }
+      start = end;
+    }
+    queue.sort((x, y) => x - y);
+    const old = previous.perPhase[p]!;
+    const states = new Map(old);
+    for (const id of queue) for (const x of net.components[id]!.nodes) states.delete(x);
+    const flags = new Uint8Array(net.components.length);
+    const oldFlags = previous.componentFlags[p]!;
+    for (let id = 0; id < flags.length; id++) if (!dirty[id]) flags[id] = oldFlags[previousId[id]!]!;
+    const work = values.slice();
+    const out = new Uint8Array(values.length);
+    const pass: PhasePass = { net, values, local, scratch, states, flags, work, out, storage, buffers };
+    for (const id of queue) {
+      const comp = net.components[id]!;
+      for (let i = 0; i < comp.nodes.length; i++) local[comp.nodes[i]!] = i;
+      classifyComponent(pass, comp);
+      for (const x of comp.nodes) {
+        if (net.unreachable[x]) states.set(x, { state: 'undriven', exact: true });
+        if (!changed[x] && !sameResult(old.get(x), states.get(x))) changed[x] = 1;
+      }
+    }
+    result.phaseValues.push(values);
+    result.perPhase.push(states);
+    result.componentFlags.push(flags);
+  }
+  countFlags(result);
+  witnessMemos.set(result, buffers.witnesses);
+  const changedNets: number[] = [];
+  for (let x = 0; x < changed.length; x++) if (changed[x]) changedNets.push(x);
+  return { classification: result, changedNets };
+}
+
+/** Two results of a node read the same (field by field, in the same order, as the findings and estimates read them). */
+function sameResult(a: NodePhaseResult | undefined, b: NodePhaseResult | undefined): boolean {
+  if (a === b) return true;
+  if (!a || !b) return false;
+  return samePlain(a, b);
+}
+
+function samePlain(a: unknown, b: unknown): boolean {
+  if (a === b) return true;
+  if (typeof a !== 'object' || typeof b !== 'object' || a === null || b === null) return false;
+  if (Array.isArray(a)) {
+    if (!Array.isArray(b) || a.length !== b.length) return false;
+    for (let i = 0; i < a.length; i++) if (!samePlain(a[i], b[i])) return false;
+    return true;
+  }
+  const ka = Object.keys(a);
+  const kb = Object.keys(b);
+  if (ka.length !== kb.length) return false;
+  for (let i = 0; i < ka.length; i++) {
+    const k = ka[i]!;
+    if (k !== kb[i] || !samePlain((a as Record<string, unknown>)[k], (b as Record<string, unknown>)[k])) return false;
+  }
+  return true;
 }
 
 /**
@@ -276,12 +423,12 @@ function name(net: SwitchNetwork, n: number): string {
 }
 
 function classifyComponent(pass: PhasePass, comp: Component): void {
-  const { net, values, scratch, states, wide, out, buffers } = pass;
+  const { net, values, scratch, states, flags, out, buffers } = pass;
   const free = comp.gates.filter((g) => values[g] === X);
   const nodes = comp.nodes;
   if (free.length > MAX_FREE_GATES) {
     // Too wide to enumerate: only what is certain without the free gates is reported as driven.
-    wide.add(comp.id);
+    flags[comp.id]! |= WIDE;
     evaluateComponent(net, comp, values, out, scratch);
     for (const node of nodes) if (out[node] === X) states.set(node, { state: 'conditional', exact: false });
     return;
@@ -303,8 +450,8 @@ interface PhasePass {
   local: Int32Array;
   scratch: Scratch;
   states: Map<number, NodePhaseResult>;
-  wide: Set<number>;
-  unchecked: Set<number>;
+  /** By component id: WIDE, UNCHECKED in this phase. */
+  flags: Uint8Array;
   /** The phase's values, changed by a witness check and restored after it. */
   work: Uint8Array;
   out: Uint8Array;
@@ -415,7 +562,7 @@ function carryWitness(net: SwitchNetwork, comp: Component, seen: WitnessMemo, tw
 }
 
 function classifyEnumerated(pass: PhasePass, comp: Component, free: number[]): void {
-  const { net, values, local, states, unchecked, storage, buffers } = pass;
+  const { net, values, local, states, flags, storage, buffers } = pass;
   const nodes = comp.nodes;
   const nn = nodes.length;
   const gatePos = buffers.gatePos;
@@ -461,7 +608,7 @@ function classifyEnumerated(pass: PhasePass, comp: Component, free: number[]): v
   }
   const wasUnchecked = !tr;
   if (!tr) {
-    unchecked.add(comp.id);
+    flags[comp.id]! |= UNCHECKED;
     tr = { leaves: free, leafKind: free.map((g) => (net.componentOf[g] === comp.id ? 'state' : 'opaque')), order: [], dependsOnState: new Set(free.filter((g) => net.componentOf[g] === comp.id)) };
   }
   // Repeated cells: a group wired like one already checked, with the same values around it and
@@ -478,7 +625,7 @@ function classifyEnumerated(pass: PhasePass, comp: Component, free: number[]): v
 
 /** The witness check of a group whose candidate floats need it (the rest of classifyEnumerated). */
 function witnessCheck(pass: PhasePass, comp: Component, free: number[], tr: Trace, masks: Uint8Array, gatePos: Int32Array, driverId: Int32Array): void {
-  const { net, values, local, scratch, states, unchecked, work, out } = pass;
+  const { net, values, local, scratch, states, work, out } = pass;
   const nodes = comp.nodes;
   const nn = nodes.length;
   const feedback = new Uint8Array(comp.switches.length);
@@ -556,7 +703,8 @@ function witnessCheck(pass: PhasePass, comp: Component, free: number[], tr: Trac
     });
     return r;
   };
-  const exact = !unchecked.has(comp.id);
+  // whether this phase's check was done (each phase is judged on its own)
+  const exact = !(pass.flags[comp.id]! & UNCHECKED);
   for (let i = 0; i < nn; i++) {
     const node = nodes[i]!;
     const fl = flags.subarray(i * keyCount, (i + 1) * keyCount);

@@ -85,6 +85,9 @@ export function evaluateComponent(net: SwitchNetwork, comp: Component, values: U
   }
 }
 
+/** Results of a propagation that ran out of budget before its fixpoint (not a base for another). */
+const unsettled = new WeakSet<Uint8Array>();
+
 /** Net values in a phase after propagating the phase's constants to a fixpoint. */
 export function propagateConstants(net: SwitchNetwork, clocks: Map<number, 0 | 1>, scratch: Scratch = newScratch(net.role.length)): Uint8Array {
   const values = sourceValues(net, clocks);
@@ -111,6 +114,52 @@ export function propagateConstants(net: SwitchNetwork, clocks: Map<number, 0 | 1
         if (!queued[g]) {
           queued[g] = 1;
           queue.push(g);
+        }
+      }
+    }
+  }
+  if (budget < 0) unsettled.add(values);
+  return values;
+}
+
+/**
+ * A phase's values after an edit rebuilt some groups (`rebuilt`, ids in `net`), from the values
+ * before it: only nets a rebuilt group can reach through gates may change, so those start
+ * again from unknown and the rest keep their values; the fixpoint is the one a full
+ * `propagateConstants` reaches (the least one: values only ever go from X to 0 or 1).
+ * Undefined when the work budget runs out (oscillating feedback), where the caller starts afresh.
+ */
+export function repropagateConstants(net: SwitchNetwork, previous: Uint8Array, rebuilt: readonly number[], scratch: Scratch = newScratch(net.role.length)): Uint8Array | undefined {
+  if (unsettled.has(previous)) return undefined;
+  const values = previous.slice();
+  const reached = new Uint8Array(net.components.length);
+  const queue: number[] = [];
+  for (const id of rebuilt) if (!reached[id]) (reached[id] = 1), queue.push(id);
+  for (let head = 0; head < queue.length; head++) {
+    for (const x of net.components[queue[head]!]!.nodes) {
+      values[x] = X;
+      for (const g of net.gatedComponents[x]!) if (!reached[g]) (reached[g] = 1), queue.push(g);
+    }
+  }
+  const out = new Uint8Array(values.length);
+  const queued = new Uint8Array(net.components.length);
+  const work = queue.slice();
+  for (const id of work) queued[id] = 1;
+  let budget = work.length * 8 + 100;
+  for (let head = 0; head < work.length; head++) {
+    if (budget-- <= 0) return undefined;
+    const id = work[head]!;
+    queued[id] = 0;
+    const comp = net.components[id]!;
+    evaluateComponent(net, comp, values, out, scratch);
+    for (const node of comp.nodes) {
+      const v = out[node]!;
+      if (values[node] === v) continue;
+      values[node] = v;
+      for (const g of net.gatedComponents[node]!) {
+        if (!queued[g]) {
+          queued[g] = 1;
+          work.push(g);
         }
       }
     }

@@ -140,3 +140,140 @@ export function buildSwitchNetwork(c: Circuit, clocks: Clock[]): SwitchNetwork {
 
   return { circuit: c, role, switches, componentOf, components, gatedComponents, drivesGate, unreachable };
 }
+
+/** A network after some switches took other terminals, and how its groups relate to the old ones. */
+export interface NetworkPatch {
+  network: SwitchNetwork;
+  /** Groups (ids, ascending) rebuilt because they hold or held a moved switch, and those emptied. */
+  rebuilt: number[];
+  /** Group id -> the old id of the same group (its own id), or -1 for a rebuilt or emptied one. */
+  previousId: Int32Array;
+}
+
+/**
+ * The switch network of `c`, which is the previous network's circuit with the switches `moved`
+ * (indices into `switches`: MOSFETs first, then resistors, then inductors) on other terminals
+ * and every net's role the same. Only the groups those switches touch, before and after, are
+ * rebuilt. The result is `buildSwitchNetwork(c, clocks)` up to the groups' ids (a fresh build
+ * numbers them by first net; here the rebuilt ones reuse the ids they had, and a group an edit
+ * merged away stays as an empty one): the same groups, switches, gates, order of gated groups
+ * and reachability (the tests hold it). No later stage's results depend on the ids.
+ */
+export function patchSwitchNetwork(prev: SwitchNetwork, c: Circuit, moved: readonly number[]): NetworkPatch {
+  const n = c.nets.length;
+  const role = prev.role;
+  const internal = (x: number) => role[x] === NetRole.Internal;
+  const switches = prev.switches.slice();
+  const nm = c.mosfets.length;
+  const nr = c.resistors.length;
+  for (const si of moved) {
+    const old = prev.switches[si]!;
+    if (si < nm) {
+      const m = c.mosfets[si]!;
+      switches[si] = { a: m.d, b: m.s, gate: m.g, kind: old.kind, mosfet: si, other: -1 };
+    } else {
+      const e = si < nm + nr ? c.resistors[si - nm]! : c.inductors[si - nm - nr]!;
+      switches[si] = { a: e.a, b: e.b, gate: -1, kind: SwitchKind.On, mosfet: -1, other: old.other };
+    }
+  }
+  const drivesGate = new Uint8Array(n);
+  for (const m of c.mosfets) drivesGate[m.g] = 1;
+
+  // the old groups a moved switch touched, before or after: their nets are regrouped
+  const touched = new Set<number>();
+  const oldGates = new Set<number>();
+  for (const si of moved) {
+    for (const s of [prev.switches[si]!, switches[si]!]) {
+      for (const x of [s.a, s.b]) if (internal(x)) touched.add(prev.componentOf[x]!);
+      if (s.gate >= 0) oldGates.add(s.gate);
+    }
+  }
+  const regionNets: number[] = [];
+  const regionSwitches = new Set<number>(moved);
+  for (const id of touched) {
+    const comp = prev.components[id]!;
+    for (const x of comp.nodes) regionNets.push(x);
+    for (const si of comp.switches) regionSwitches.add(si);
+  }
+  regionNets.sort((x, y) => x - y);
+  const parent = new Map<number, number>();
+  for (const x of regionNets) parent.set(x, x);
+  const find = (x: number): number => {
+    let r = x;
+    while (parent.get(r) !== r) r = parent.get(r)!;
+    while (parent.get(x) !== r) {
+      const next = parent.get(x)!;
+      parent.set(x, r);
+      x = next;
+    }
+    return r;
+  };
+  const sortedSwitches = [...regionSwitches].sort((x, y) => x - y);
+  for (const si of sortedSwitches) {
+    const s = switches[si]!;
+    if (s.a !== s.b && internal(s.a) && internal(s.b)) parent.set(find(s.a), find(s.b));
+  }
+  // the rebuilt groups, each by its first net, as a fresh build meets them
+  const groupOfRoot = new Map<number, Component>();
+  const rebuiltGroups: Component[] = [];
+  for (const x of regionNets) {
+    const r = find(x);
+    let g = groupOfRoot.get(r);
+    if (!g) {
+      groupOfRoot.set(r, (g = { id: -1, nodes: [], switches: [], gates: [] }));
+      rebuiltGroups.push(g);
+    }
+    g.nodes.push(x);
+  }
+  const groupOfNet = (x: number) => groupOfRoot.get(find(x))!;
+  for (const si of sortedSwitches) {
+    const s = switches[si]!;
+    const owner = internal(s.a) ? groupOfNet(s.a) : internal(s.b) ? groupOfNet(s.b) : undefined;
+    if (!owner) continue;
+    owner.switches.push(si);
+    if (s.gate >= 0 && !owner.gates.includes(s.gate)) owner.gates.push(s.gate);
+  }
+
+  // the rebuilt groups take the old groups' ids (extra ones are added at the end, ids left over
+  // stay as empty groups): every other group keeps its id, so nothing else is renumbered
+  const components = prev.components.slice();
+  const componentOf = prev.componentOf.slice();
+  const freed = [...touched].sort((x, y) => x - y);
+  const rebuilt: number[] = [];
+  rebuiltGroups.forEach((g, k) => {
+    g.id = k < freed.length ? freed[k]! : components.length;
+    components[g.id] = g;
+    for (const x of g.nodes) componentOf[x] = g.id;
+    rebuilt.push(g.id);
+  });
+  for (let k = rebuiltGroups.length; k < freed.length; k++) {
+    components[freed[k]!] = { id: freed[k]!, nodes: [], switches: [], gates: [] };
+    rebuilt.push(freed[k]!);
+  }
+  rebuilt.sort((x, y) => x - y);
+  const previousId = new Int32Array(components.length);
+  for (let id = 0; id < previousId.length; id++) previousId[id] = id < prev.components.length && !touched.has(id) ? id : -1;
+
+  // each net's gated groups, in the order a fresh build lists them (by the first switch it gates)
+  const gatesToRedo = new Set<number>(oldGates);
+  for (const g of rebuiltGroups) for (const x of g.gates) gatesToRedo.add(x);
+  const gatedComponents = prev.gatedComponents.slice();
+  const firstGated = (comp: Component, g: number) => {
+    for (const si of comp.switches) if (switches[si]!.gate === g) return si;
+    return Infinity;
+  };
+  for (const g of gatesToRedo) {
+    const owners = prev.gatedComponents[g]!.filter((id) => !touched.has(id));
+    for (const comp of rebuiltGroups) if (comp.gates.includes(g)) owners.push(comp.id);
+    gatedComponents[g] = owners.map((id) => [firstGated(components[id]!, g), id] as const).sort((x, y) => x[0] - y[0]).map((x) => x[1]);
+  }
+
+  // a group is reachable when one of its switches touches a strong net
+  const unreachable = prev.unreachable.slice();
+  for (const comp of rebuiltGroups) {
+    const strong = comp.switches.some((si) => !internal(switches[si]!.a) || !internal(switches[si]!.b));
+    for (const x of comp.nodes) unreachable[x] = strong ? 0 : 1;
+  }
+  const network: SwitchNetwork = { circuit: c, role, switches, componentOf, components, gatedComponents, drivesGate, unreachable };
+  return { network, rebuilt, previousId };
+}

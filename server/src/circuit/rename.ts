@@ -5,7 +5,8 @@
 // globals, ports, names in directives or settings, source nodes) are never taken this way.
 // Anything else answers `undefined`, and the caller elaborates afresh.
 
-import { startLineOf, type Range } from '../core/source';
+import type { Range } from '../core/source';
+import { movedLines } from './movedLines';
 import { DEFAULT_CLOCK_PATTERN, DEFAULT_GROUND_PATTERN, DEFAULT_SUPPLY_PATTERN, type EngineOptions } from '../core/options';
 import type { Circuit, Design, Net, Origin } from './circuit';
 import type { Deck, SubcktDefinition } from './deck';
@@ -75,30 +76,7 @@ export function renameNets(previousDeck: Deck, previous: Design, deck: Deck, opt
     }
   }
   // positions on the edited lines: old start -> new range (items after a renamed word move along)
-  const moves = new Map<string, Range>();
-  const moved: NetRename['moved'] = [];
-  for (const line of edited) {
-    const key = (r: Range) => rangeKey(line.file, r);
-    moves.set(key(line.before.range), line.after.range);
-    const pairs = (x: Item[], y: Item[]) => x.forEach((it, k) => moves.set(key(it.range), y[k]!.range));
-    pairs([line.before.head], [line.after.head]);
-    pairs(line.before.items, line.after.items);
-    moved.push({ file: line.file, from: line.before.range, to: line.after.range });
-  }
-  const editedStart = new Set(edited.map((l) => startLineOf(l.before.range)));
-  // one moved origin per original, so every instance of a line still shares its origin
-  const movedOrigins = new Map<Origin, Origin>();
-  const moveOrigin = <T extends { origin: Origin }>(x: T): T => {
-    const o = x.origin;
-    if (!editedStart.has(startLineOf(o.range))) return x;
-    let m = movedOrigins.get(o);
-    if (!m) {
-      const to = moves.get(rangeKey(o.file, o.range));
-      if (!to) return x;
-      movedOrigins.set(o, (m = { ...o, range: to }));
-    }
-    return { ...x, origin: m };
-  };
+  const lines = movedLines(edited);
   const names = new Map<string, string>();
   const renamedOrigins = new Map<Origin, Origin>();
   const circuits: Circuit[] = [];
@@ -116,17 +94,7 @@ export function renameNets(previousDeck: Deck, previous: Design, deck: Deck, opt
       nets[i] = { ...n, name, origin };
       names.set(n.name, name);
     }
-    const touched = <T extends { origin: Origin }>(list: T[]): T[] => {
-      let out: T[] | undefined;
-      for (let i = 0; i < list.length; i++) {
-        const x = list[i]!;
-        const y = moveOrigin(x);
-        if (y === x) continue;
-        out ??= list.slice();
-        out[i] = y;
-      }
-      return out ?? list;
-    };
+    const touched = lines.moveAll;
     const allNets = touched(nets ?? c.nets);
     let netByName = c.netByName;
     if (nets) {
@@ -140,12 +108,7 @@ export function renameNets(previousDeck: Deck, previous: Design, deck: Deck, opt
     circuits.push({ ...c, nets: allNets, netByName, mosfets: touched(c.mosfets), capacitors: touched(c.capacitors), resistors: touched(c.resistors), inductors: touched(c.inductors), sources: touched(c.sources), diodes: touched(c.diodes), others: touched(c.others), instances: touched(c.instances) });
   }
   if (names.size === 0) return undefined;
-  return { design: { ...previous, circuits }, names, moved };
-}
-
-/** A range by value: a line and its first word start at the same place, so the end counts too. */
-function rangeKey(file: string, r: Range): string {
-  return `${file}|${startLineOf(r)}|${r.start.character}|${r.end.line}|${r.end.character}`;
+  return { design: { ...previous, circuits }, names, moved: lines.moved };
 }
 
 /** Names that decide roles, and names the user wrote elsewhere, are not renamed here. */
@@ -206,7 +169,7 @@ function namesIn(deck: Deck, scope: string | null): { nodes: Set<string>; other:
 }
 
 /** The node words of an element line that changed, when nothing else on it did. */
-function renamedNodes(x: Statement, y: Statement): Array<[string, string]> | undefined {
+export function renamedNodes(x: Statement, y: Statement): Array<[string, string]> | undefined {
   if (x.head.text[0] === '.' || !sameItem(x.head, y.head, 0) || x.items.length !== y.items.length) return undefined;
   if (x.range.start.line !== y.range.start.line || x.range.end.line !== y.range.end.line) return undefined;
   const sx = interpretElement(x);

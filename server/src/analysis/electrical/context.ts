@@ -85,3 +85,29 @@ export function diffusionGeometry(m: Mosfet, terminal: 'd' | 's'): { areaM2: num
   const ldiff = 2.5 * m.lM;
   return { areaM2: m.wM * ldiff * m.m, perimeterM: (m.wM + 2 * ldiff) * m.m, estimated: true };
 }
+
+/**
+ * The context after an edit moved the terminals of some devices (`mosfets`, `capacitors`:
+ * indices, the same in both circuits): only the per-net lists of the nets they left or joined
+ * are rebuilt, each in index order as buildContext lists them.
+ */
+export function rewiredContext(ctx: ElectricalContext, circuit: Circuit, network: SwitchNetwork, classification: Classification, moved: { mosfets: readonly number[]; capacitors: readonly number[] }): ElectricalContext {
+  const before = ctx.circuit;
+  const redo = (lists: number[][], indices: readonly number[], netsOf: (i: number, c: Circuit) => number[]): number[][] => {
+    if (indices.length === 0) return lists;
+    const out = lists.slice();
+    const movedSet = new Set(indices);
+    const nets = new Set<number>();
+    for (const i of indices) for (const c of [before, circuit]) for (const x of netsOf(i, c)) nets.add(x);
+    for (const x of nets) {
+      const kept = lists[x]!.filter((i) => !movedSet.has(i));
+      for (const i of indices) if (netsOf(i, circuit).includes(x)) kept.push(i);
+      out[x] = kept.sort((a, b) => a - b);
+    }
+    return out;
+  };
+  const channelOf = redo(ctx.channelOf, moved.mosfets, (i, c) => [c.mosfets[i]!.d, c.mosfets[i]!.s]);
+  const gateOf = redo(ctx.gateOf, moved.mosfets, (i, c) => [c.mosfets[i]!.g]);
+  const capsOf = redo(ctx.capsOf, moved.capacitors, (i, c) => [c.capacitors[i]!.a, c.capacitors[i]!.b]);
+  return { ...ctx, circuit, network, classification, channelOf, gateOf, capsOf };
+}

@@ -228,9 +228,18 @@ export function nodesReading(ctx: ElectricalContext, mosfets: Iterable<number>):
   return out;
 }
 
-/** An internal node's estimate from another node of identical structure: its own node and devices. */
-function copyEstimate(from: NodeEstimate, n: number, devices: number[]): NodeEstimate {
-  return { ...from, node: n, devices };
+/**
+ * An internal node's estimate from another node of identical structure: its own node and
+ * devices, and its own keeper devices found by position (undefined if one is not among them).
+ */
+function copyEstimate(from: NodeEstimate, n: number, devices: number[]): NodeEstimate | undefined {
+  const k = from.keeper;
+  if (!k) return { ...from, node: n, devices };
+  const own = (d: number) => devices[from.devices.indexOf(d)];
+  const keeperDevices = k.devices.map(own);
+  const against = k.against.map(own);
+  if (keeperDevices.some((d) => d === undefined) || against.some((d) => d === undefined)) return undefined;
+  return { ...from, node: n, devices, keeper: { ...k, devices: keeperDevices as number[], against: against as number[] } };
 }
 
 /** One pass of estimates over a circuit, with the caches that let repeated cells share solves. */
@@ -286,12 +295,13 @@ class EstimateRun {
       return e;
     }
     const hit = this.internalCache.get(key);
-    if (hit) {
-      this.shareOf.set(n, hit.estimate.node);
-      return copyEstimate(hit.estimate, n, devices);
+    const copy = hit && copyEstimate(hit.estimate, n, devices);
+    if (copy) {
+      this.shareOf.set(n, hit!.estimate.node);
+      return copy;
     }
     const e = estimateNode(ctx, n, devices, floating, values, this.constantEverywhere, this.cache);
-    this.internalCache.set(key, { estimate: e, position: new Map(devices.map((d, k) => [d, k])) });
+    if (!hit) this.internalCache.set(key, { estimate: e, position: new Map(devices.map((d, k) => [d, k])) });
     this.shareOf.set(n, n);
     return e;
   }
@@ -583,4 +593,90 @@ function inputVariants(ctx: ElectricalContext, node: number, phaseValues: Uint8A
     variants.push(consistent(inputs));
   }
   return variants;
+}
+
+/**
+ * The nodes whose estimates can read one of the `seeds` nets: those of a seed's group and of the
+ * groups joined to it by a gate or a capacitor. A node's estimate reads its own group, the groups
+ * driving its gates (evaluated from their inputs' values, which are seeds when they change), the
+ * devices its nodes gate, and the nets coupled to it.
+ */
+export function nodesAround(ctx: ElectricalContext, seeds: Iterable<number>): number[] {
+  const net = ctx.network;
+  const reached = new Uint8Array(net.components.length);
+  let frontier: number[] = [];
+  const add = (x: number, into: number[]) => {
+    const id = net.componentOf[x]!;
+    if (id >= 0 && !reached[id]) (reached[id] = 1), into.push(id);
+  };
+  for (const x of seeds) add(x, frontier);
+  for (let step = 0; step < 1; step++) {
+    const next: number[] = [];
+    for (const id of frontier) {
+      const comp = net.components[id]!;
+      for (const g of comp.gates) add(g, next);
+      for (const x of comp.nodes) {
+        for (const k of net.gatedComponents[x]!) if (!reached[k]) (reached[k] = 1), next.push(k);
+        for (const ci of ctx.capsOf[x]!) {
+          const cap = ctx.circuit.capacitors[ci]!;
+          add(cap.a === x ? cap.b : cap.a, next);
+        }
+      }
+    }
+    frontier = next;
+  }
+  const out: number[] = [];
+  for (let x = 0; x < net.componentOf.length; x++) if (net.componentOf[x]! >= 0 && reached[net.componentOf[x]!]) out.push(x);
+  return out;
+}
+
+/**
+ * The estimates after an edit that changed connections: the `affected` nodes (node order) are
+ * estimated afresh, each on its own (instances of a cell may now be wired differently), and
+ * every other node keeps its estimate; the map stays in node order, as a full pass builds it.
+ * A family whose first node was re-estimated is led by its first kept node from now on.
+ */
+export function reestimate(ctx: ElectricalContext, previous: ReadonlyMap<number, NodeEstimate>, affected: readonly number[]): Map<number, NodeEstimate> {
+  const run = new EstimateRun(ctx);
+  const netCount = ctx.circuit.nets.length;
+  const redone = new Uint8Array(netCount);
+  const fresh: Array<NodeEstimate | undefined> = [];
+  let added = false;
+  for (const n of affected) {
+    redone[n] = 1;
+    const e = run.estimate(n);
+    fresh.push(e);
+    if (e && !previous.has(n)) added = true;
+  }
+  let out: Map<number, NodeEstimate>;
+  if (!added) {
+    // replacing and deleting keep every other node where it was: still in node order
+    out = new Map(previous);
+    affected.forEach((n, k) => (fresh[k] ? out.set(n, fresh[k]!) : out.delete(n)));
+  } else {
+    out = new Map();
+    let k = 0;
+    for (const [n, e] of previous) {
+      for (; k < affected.length && affected[k]! < n; k++) if (fresh[k]) out.set(affected[k]!, fresh[k]!);
+      if (!redone[n]) out.set(n, e);
+    }
+    for (; k < affected.length; k++) if (fresh[k]) out.set(affected[k]!, fresh[k]!);
+  }
+  const before = sharedSolves.get(previous);
+  const shareOf = before ? before.slice() : new Int32Array(netCount).fill(-1);
+  // a kept node that copied a re-estimated one follows the first kept node of its family
+  const leader = new Map<number, number>();
+  for (let n = 0; n < netCount; n++) {
+    if (redone[n]) {
+      shareOf[n] = out.has(n) ? (run.shareOf.get(n) ?? n) : -1;
+      continue;
+    }
+    const head = shareOf[n]!;
+    if (head < 0 || !redone[head]) continue;
+    let l = leader.get(head);
+    if (l === undefined) leader.set(head, (l = n));
+    shareOf[n] = l;
+  }
+  sharedSolves.set(out, shareOf);
+  return out;
 }

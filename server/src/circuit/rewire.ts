@@ -1,0 +1,282 @@
+// The elaboration stage's answer to a reconnection: when the new deck differs from the old one
+// only in node names on element lines of one definition (or of the top level), and that
+// definition's net slots come out the same (the same local names first used in the same order,
+// the same globals), every flat net keeps its number and name, and only the terminals of the
+// elements written on those lines (and, for an instance line, of the devices below it that
+// reached a moved port) take other nets. Sources, diodes and connectivity-only elements, nested
+// definitions, and cells whose port directions are inferred from their wiring are left to a
+// fresh elaboration: `undefined`.
+
+import { startLineOf } from '../core/source';
+import type { Capacitor, Circuit, Design, Instance, Mosfet, Net, Origin, Resistor, TwoTerminal } from './circuit';
+import type { Deck, SubcktDefinition } from './deck';
+import { deckGlobals, elementNodeWords, NetSlots } from './elaborate';
+import { movedLines, type EditedLine, type MovedLines } from './movedLines';
+import { renamedNodes } from './rename';
+import { editedStatements, sameRange } from '../syntax/compare';
+import type { Statement } from '../syntax/tree';
+
+/** What moved in one circuit: indices into its element lists whose terminals changed. */
+export interface RewiredElements {
+  mosfets: number[];
+  resistors: number[];
+  inductors: number[];
+  capacitors: number[];
+}
+
+export interface Rewiring {
+  design: Design;
+  /** Per circuit of the design. */
+  changed: RewiredElements[];
+  moved: MovedLines['moved'];
+}
+
+/** `limit`: per circuit, how many copies of the edited lines the patch takes on (more: undefined). */
+export function rewireNets(previousDeck: Deck, previous: Design, deck: Deck, limit: (circuit: number) => number = () => Infinity): Rewiring | undefined {
+  const edited = editedStatements(previousDeck.files, deck.files, (file, before, after): EditedLine | undefined => (renamedNodes(before, after) ? { file, before, after } : undefined));
+  if (!edited || edited.length === 0) return undefined;
+  const scope = scopeOfLines(deck, edited);
+  if (scope === undefined) return undefined;
+  const globals = deckGlobals(deck);
+  const oldGlobals = deckGlobals(previousDeck);
+  if (globals.size !== oldGlobals.size || [...globals].some((g) => !oldGlobals.has(g))) return undefined;
+  const before = slotsOf(previousDeck, scope, globals);
+  const after = slotsOf(deck, scope, globals);
+  if (!before || !after || !sameList(before.slots.localNames, after.slots.localNames) || !sameList(before.slots.globalNames, after.slots.globalNames)) return undefined;
+  const portCount = scope === null ? 0 : deck.subckts.get(scope)!.ports.length;
+  // an internal net first written on an edited line may now be first written elsewhere
+  const netOrigins = new Map<string, Origin>();
+  after.slots.localOrigins.forEach((o, i) => {
+    const was = before.slots.localOrigins[i]!;
+    if (i >= portCount && (o.file !== was.file || !sameRange(o.range, was.range, 0))) netOrigins.set(o.local, o);
+  });
+  // the edited lines by where each started (devices keep the origin of the parse they came from)
+  const lineAt = new Map<string, { refs: number[]; local: string }>();
+  const startLines = new Set<number>();
+  for (const l of edited) {
+    const refs = after.refs.get(l.after);
+    if (!refs || before.refs.get(l.before)?.length !== refs.length) return undefined;
+    lineAt.set(`${l.file}|${startLineOf(l.before.range)}|${l.before.range.start.character}`, { refs, local: l.before.head.text.toLowerCase() });
+    startLines.add(startLineOf(l.before.range));
+  }
+  // one lookup per origin object (every instance of a line shares it), a cheap test first
+  const seen = new Map<Origin, { refs: number[]; local: string } | undefined>();
+  const lineOf = (o: Origin) => {
+    if (!startLines.has(startLineOf(o.range))) return undefined;
+    if (!seen.has(o)) seen.set(o, lineAt.get(`${o.file}|${startLineOf(o.range)}|${o.range.start.character}`));
+    return seen.get(o);
+  };
+  const lines = movedLines(edited);
+  const circuits: Circuit[] = [];
+  const changed: RewiredElements[] = [];
+  for (let i = 0; i < previous.circuits.length; i++) {
+    const c = previous.circuits[i]!;
+    const result = rewireCircuit(c, scope, portCount, after.slots, lineOf, netOrigins, lines, limit(i) / edited.length);
+    if (!result) return undefined;
+    circuits.push(result.circuit);
+    changed.push(result.changed);
+  }
+  if (changed.every((x) => x.mosfets.length + x.resistors.length + x.inductors.length + x.capacitors.length === 0)) return undefined;
+  return { design: { ...previous, circuits }, changed, moved: lines.moved };
+}
+
+/** The one definition (lower case) or top level (null) holding every edited line, else undefined. */
+function scopeOfLines(deck: Deck, edited: readonly EditedLine[]): string | null | undefined {
+  const scopeOf = new Map<Statement, string | null>();
+  let nested = false;
+  const walk = (defs: Map<string, SubcktDefinition>) => {
+    for (const d of defs.values()) {
+      if (d.local.size) nested = true;
+      for (const s of d.body) scopeOf.set(s.item, d.name);
+      walk(d.local);
+    }
+  };
+  walk(deck.subckts);
+  for (const s of deck.top) scopeOf.set(s.item, null);
+  if (nested) return undefined;
+  const scopes = new Set(edited.map((l) => scopeOf.get(l.after)));
+  if (scopes.size !== 1) return undefined;
+  const [scope] = scopes;
+  return scope;
+}
+
+/** A definition's net slots and each element line's node slots, as its template reads them. */
+function slotsOf(deck: Deck, scope: string | null, globals: ReadonlySet<string>): { slots: NetSlots; refs: Map<Statement, number[]> } | undefined {
+  const def = scope === null ? undefined : deck.subckts.get(scope);
+  if (scope !== null && !def) return undefined;
+  const slots = new NetSlots(scope, globals);
+  if (def) for (const p of def.portItems) slots.addPort(p, def.file);
+  const refs = new Map<Statement, number[]>();
+  for (const { file, item } of def ? def.body : deck.top) {
+    if (item.head.text.startsWith('.')) continue;
+    const read = elementNodeWords(item);
+    if (read.skipped !== undefined) continue;
+    refs.set(item, read.nodes.map((w) => slots.ref(w, file)));
+  }
+  return { slots, refs };
+}
+
+function sameList(a: readonly string[], b: readonly string[]): boolean {
+  return a.length === b.length && a.every((x, i) => x === b[i]);
+}
+
+/**
+ * One circuit with the edited lines' elements wired anew in every instance of the edited
+ * definition, or undefined when a case the patch does not take turns up.
+ */
+function rewireCircuit(
+  c: Circuit,
+  scope: string | null,
+  portCount: number,
+  slots: NetSlots,
+  lineOf: (o: Origin) => { refs: number[]; local: string } | undefined,
+  netOrigins: ReadonlyMap<string, Origin>,
+  lines: MovedLines,
+  maxContexts: number,
+): { circuit: Circuit; changed: RewiredElements } | undefined {
+  // where the edited definition sits in this circuit: prefix -> the nets its ports are bound to
+  const contexts = new Map<string, readonly number[] | null>();
+  if (scope === null && !c.standalone) contexts.set('', null);
+  if (scope !== null && c.standalone && c.name === scope) contexts.set('', null);
+  for (const inst of c.instances) if (inst.subckt === scope) contexts.set(inst.name + '.', inst.ports);
+  const none: RewiredElements = { mosfets: [], resistors: [], inductors: [], capacitors: [] };
+  if (contexts.size === 0) return { circuit: c, changed: none };
+  if (contexts.size > maxContexts) return undefined;
+  // a cell's inferred port directions read its wiring
+  if (c.standalone && c.ports.some((p) => p.from === 'inferred')) return undefined;
+  const flatNet = (prefix: string, ports: readonly number[] | null, slot: number): number | undefined => {
+    if (slot < 0) return c.netByName.get(slots.globalNames[-slot - 1]!);
+    if (ports && slot < portCount) return ports[slot];
+    return c.netByName.get(prefix + slots.localNames[slot]!);
+  };
+  /** The new nets of an element written on an edited line, or null when it is not on one. */
+  const newNets = (x: { name: string; origin: Origin }): number[] | null | undefined => {
+    const line = lineOf(x.origin);
+    if (!line || !x.name.endsWith(line.local)) return null;
+    const prefix = x.name.slice(0, x.name.length - line.local.length);
+    const ports = contexts.get(prefix);
+    if (ports === undefined) return undefined;
+    const out: number[] = [];
+    for (const s of line.refs) {
+      const id = flatNet(prefix, ports, s);
+      if (id === undefined) return undefined;
+      out.push(id);
+    }
+    return out;
+  };
+
+  // instance lines first: their subtrees' devices follow the moved ports
+  const below = new Map<string, Map<number, number>>();
+  const flagged = new Uint8Array(c.nets.length);
+  let instances: Instance[] | undefined;
+  for (let i = 0; i < c.instances.length; i++) {
+    const inst = c.instances[i]!;
+    const nets = newNets(inst);
+    if (nets === undefined) return undefined;
+    if (nets === null) continue;
+    if (nets.length !== inst.ports.length) return undefined;
+    const remap = new Map<number, number>();
+    const q = inst.name + '.';
+    for (let k = 0; k < nets.length; k++) {
+      const from = inst.ports[k]!;
+      const to = nets[k]!;
+      if (from === to) continue;
+      // the subtree reaches the old net through this port alone, or the remap would be ambiguous
+      if (inst.ports.indexOf(from) !== k || inst.ports.lastIndexOf(from) !== k || c.nets[from]!.global || c.nets[from]!.name.startsWith(q)) return undefined;
+      remap.set(from, to);
+      flagged[from] = 1;
+    }
+    instances ??= c.instances.slice();
+    instances[i] = lines.move({ ...inst, ports: nets });
+    if (remap.size) below.set(q, remap);
+  }
+  /** The remap of the edited instance whose subtree holds `name`, if any. */
+  const subtreeRemap = (name: string): Map<number, number> | undefined => {
+    for (let p = name.indexOf('.'); p >= 0; p = name.indexOf('.', p + 1)) {
+      const r = below.get(name.slice(0, p + 1));
+      if (r) return r;
+    }
+    return undefined;
+  };
+  const through = (r: Map<number, number>, n: number) => r.get(n) ?? n;
+  if (below.size && instances) {
+    for (let i = 0; i < instances.length; i++) {
+      const inst = instances[i]!;
+      if (!inst.ports.some((n) => flagged[n])) continue;
+      const r = subtreeRemap(inst.name);
+      if (r) instances[i] = { ...inst, ports: inst.ports.map((n) => through(r, n)) };
+    }
+  }
+
+  const changed: RewiredElements = { mosfets: [], resistors: [], inductors: [], capacitors: [] };
+  let mosfets: Mosfet[] | undefined;
+  for (let i = 0; i < c.mosfets.length; i++) {
+    const m = c.mosfets[i]!;
+    let d = m.d, g = m.g, s = m.s, b = m.b;
+    const nets = newNets(m);
+    if (nets === undefined) return undefined;
+    if (nets) {
+      if (nets.length < 4) return undefined;
+      [d, g, s, b] = nets as [number, number, number, number];
+    } else if (below.size && (flagged[d] || flagged[g] || flagged[s] || flagged[b])) {
+      const r = subtreeRemap(m.name);
+      if (r) [d, g, s, b] = [through(r, d), through(r, g), through(r, s), through(r, b)];
+    }
+    const same = d === m.d && g === m.g && s === m.s && b === m.b;
+    // a device written on an edited line takes its line's new place
+    if (same && !nets) continue;
+    mosfets ??= c.mosfets.slice();
+    mosfets[i] = lines.move({ ...m, d, g, s, b });
+    if (!same) changed.mosfets.push(i);
+  }
+  const twoTerminals = <T extends TwoTerminal>(list: T[], into: number[]): T[] | undefined => {
+    let out: T[] | undefined;
+    for (let i = 0; i < list.length; i++) {
+      const x = list[i]!;
+      let a = x.a, b = x.b;
+      const nets = newNets(x);
+      if (nets === undefined) return undefined;
+      if (nets) [a, b] = [nets[0]!, nets[1] ?? nets[0]!];
+      else if (below.size && (flagged[a] || flagged[b])) {
+        const r = subtreeRemap(x.name);
+        if (r) [a, b] = [through(r, a), through(r, b)];
+      }
+      const same = a === x.a && b === x.b;
+      if (same && !nets) continue;
+      out ??= list.slice();
+      out[i] = lines.move({ ...x, a, b });
+      if (!same) into.push(i);
+    }
+    return out ?? list;
+  };
+  const resistors = twoTerminals<Resistor>(c.resistors, changed.resistors);
+  const inductors = twoTerminals<TwoTerminal>(c.inductors, changed.inductors);
+  const capacitors = twoTerminals<Capacitor>(c.capacitors, changed.capacitors);
+  if (!resistors || !inductors || !capacitors) return undefined;
+  // sources decide rails, clocks and inputs; diodes and connectivity-only elements are not patched
+  const still = (x: { name: string; origin: Origin }, terminals: number[]) => newNets(x) === null && !(below.size && terminals.some((n) => flagged[n]) && subtreeRemap(x.name));
+  if (!c.sources.every((x) => still(x, [x.p, x.n])) || !c.diodes.every((x) => still(x, [x.a, x.b])) || !c.others.every((x) => still(x, x.nets))) return undefined;
+
+  let nets: Net[] = c.nets;
+  if (netOrigins.size) {
+    const renewed = new Map<Origin, Origin>();
+    nets = c.nets.map((n) => {
+      const to = n.origin.subckt === scope ? netOrigins.get(n.origin.local) : undefined;
+      if (!to) return n;
+      let o = renewed.get(n.origin);
+      if (!o) renewed.set(n.origin, (o = to));
+      return { ...n, origin: o };
+    });
+  }
+  const circuit: Circuit = {
+    ...c,
+    nets,
+    // the elements on edited lines were moved above; sources and the rest are not on them
+    mosfets: mosfets ?? c.mosfets,
+    resistors,
+    inductors,
+    capacitors,
+    instances: instances ?? c.instances,
+  };
+  return { circuit, changed };
+}

@@ -1,0 +1,88 @@
+// The reconnection path (circuit/rewire.ts, switchNetwork `patchSwitchNetwork`, classify
+// `reclassify`, estimate `reestimate`, engine `reanalyse`): after a node word of an element
+// line is changed to another net of its scope, the analysis built from the previous one must
+// equal a fresh analysis of the new text, finding for finding and figure for figure, and the
+// patched switch network must equal a fresh build. Random reconnections over every sample and
+// a generated hierarchical datapath, one and two in a row.
+
+import * as fs from 'node:fs';
+import * as path from 'node:path';
+import fc from 'fast-check';
+import { describe, expect, it } from 'vitest';
+import { analyse, readDeck, reanalyse, type AnalysisResult } from '../server/src/engine';
+import { memoryHost, type FileHost } from '../server/src/core/host';
+import { buildSwitchNetwork, type SwitchNetwork } from '../server/src/analysis/switchNetwork';
+import { overlay, report } from './support/edits';
+import { reconnect } from './support/reconnect';
+import { hierarchicalNetlist } from '../scripts/netlists';
+
+const SAMPLES = path.join(__dirname, '..', 'samples');
+
+function same(file: string, fast: AnalysisResult, full: AnalysisResult): void {
+  expect(JSON.parse(JSON.stringify(fast.diagnostics))).toEqual(JSON.parse(JSON.stringify(full.diagnostics)));
+  expect(report(file, fast)).toEqual(report(file, full));
+  // the patched network field for field against a fresh build (as text: much faster to compare)
+  const text = (x: unknown) => JSON.stringify(x, (_, v) => (ArrayBuffer.isView(v) ? Array.from(v as Uint8Array) : v));
+  fast.circuits.forEach((a, i) => {
+    const fresh = buildSwitchNetwork(a.circuit, a.plan.clocks);
+    const net = a.classification.network;
+    for (const k of ['switches', 'unreachable', 'drivesGate', 'role'] as const) expect(text(net[k]), k).toBe(text(fresh[k]));
+    // groups named by their first net (the patch keeps ids where a fresh build renumbers)
+    const byFirstNet = (x: SwitchNetwork) => {
+      const first = (id: number) => x.components[id]!.nodes[0]!;
+      const groups = x.components.filter((g) => g.nodes.length).sort((p, q) => p.nodes[0]! - q.nodes[0]!).map((g) => [g.nodes, g.switches, g.gates]);
+      return { groups, componentOf: Array.from(x.componentOf, (id) => (id < 0 ? -1 : first(id))), gated: x.gatedComponents.map((l) => l.map(first)) };
+    };
+    expect(text(byFirstNet(net))).toBe(text(byFirstNet(fresh)));
+    const counts = (c: AnalysisResult['circuits'][number]) => [c.classification.wideComponents, c.classification.uncheckedComponents];
+    expect(counts(a)).toEqual(counts(full.circuits[i]!));
+    expect(text(a.classification.phaseValues)).toBe(text(full.circuits[i]!.classification.phaseValues));
+  });
+}
+
+function check(file: string, original: string, hostFor: (t: string) => FileHost, runs: number): number {
+  const before = analyse(hostFor(original), file);
+  let taken = 0;
+  fc.assert(
+    fc.property(fc.nat(5000), fc.nat(500), fc.nat(5000), fc.nat(500), (p1, t1, p2, t2) => {
+      const first = reconnect(original, p1, t1);
+      if (first === original) return;
+      const host = hostFor(first);
+      const fast = reanalyse(before, readDeck(host, file));
+      if (!fast) return;
+      taken++;
+      same(file, fast, analyse(host, file));
+      // a second reconnection from the first one's quick answer
+      const second = reconnect(first, p2, t2);
+      if (second === first) return;
+      const host2 = hostFor(second);
+      const fast2 = reanalyse(fast, readDeck(host2, file));
+      if (fast2) same(file, fast2, analyse(host2, file));
+    }),
+    { numRuns: runs, seed: 11 },
+  );
+  return taken;
+}
+
+describe('reconnections reuse the previous analysis and equal a fresh one', () => {
+  let total = 0;
+  for (const name of fs.readdirSync(SAMPLES).filter((f) => f.endsWith('.sp'))) {
+    it(`${name}: random reconnections`, () => {
+      const file = path.join(SAMPLES, name);
+      total += check(file, fs.readFileSync(file, 'utf8'), (t) => overlay(file, t), 40);
+    });
+  }
+  it('a generated hierarchical datapath (2k transistors): reconnections in its cells and at the top', () => {
+    const file = '/datapath.sp';
+    const text = hierarchicalNetlist(2_000);
+    const taken = check(file, text, (t) => memoryHost({ [file]: t }), 6);
+    // the benchmark's edit: a block input moved to another net
+    const edited = text.replace(/^Xb1 a1 /m, 'Xb1 a3 ');
+    expect(edited).not.toBe(text);
+    const fast = reanalyse(analyse(memoryHost({ [file]: text }), file), readDeck(memoryHost({ [file]: edited }), file));
+    expect(fast, 'moving an instance input to another existing net is a reconnection').toBeDefined();
+    same(file, fast!, analyse(memoryHost({ [file]: edited }), file));
+    expect(taken).toBeGreaterThan(2);
+    expect(total).toBeGreaterThan(20);
+  }, 120_000);
+});

@@ -1,0 +1,54 @@
+// Random reconnections for the tests of the reconnection path: one node word of an element line
+// moved to another name already used as a node in its scope.
+
+/** Node words of element lines: [line, word index] for M, R, C (their nodes) and X (all but the last word) lines. */
+function nodeWords(lines: string[]): Array<[number, number]> {
+  const out: Array<[number, number]> = [];
+  lines.forEach((l, i) => {
+    const w = l.trim().split(/\s+/);
+    const c = w[0]?.[0]?.toLowerCase();
+    const nodes = c === 'm' ? 4 : c === 'r' || c === 'c' ? 2 : c === 'x' ? w.findIndex((x, k) => k > 0 && x.includes('=')) - 2 : 0;
+    const count = c === 'x' && nodes < 0 ? w.length - 2 : nodes;
+    for (let k = 1; k <= count && k < w.length; k++) out.push([i, k]);
+  });
+  return out;
+}
+
+/** Lines of the same scope as line i (the subcircuit body holding it, or the top level). */
+function scopeLines(lines: string[], i: number): number[] {
+  let open = -1;
+  for (let k = 0; k <= i; k++) {
+    if (/^\.subckt\b/i.test(lines[k]!)) open = k;
+    if (/^\.ends\b/i.test(lines[k]!)) open = -1;
+  }
+  if (open >= 0) {
+    const end = lines.findIndex((l, j) => j > open && /^\.ends\b/i.test(l));
+    return lines.map((_, k) => k).filter((k) => k > open && k < end);
+  }
+  const inside = new Set<number>();
+  let at = -1;
+  lines.forEach((l, k) => {
+    if (/^\.subckt\b/i.test(l)) at = k;
+    if (at >= 0) inside.add(k);
+    if (/^\.ends\b/i.test(l)) at = -1;
+  });
+  return lines.map((_, k) => k).filter((k) => !inside.has(k));
+}
+
+/** One node word moved to another name already used as a node in its scope. */
+export function reconnect(text: string, pick: number, to: number): string {
+  const lines = text.split('\n');
+  const words = nodeWords(lines);
+  if (!words.length) return text;
+  const [line, k] = words[pick % words.length]!;
+  const names = new Set<string>();
+  const scope = new Set(scopeLines(lines, line));
+  for (const [j, m] of words) if (scope.has(j)) names.add(lines[j]!.trim().split(/\s+/)[m]!);
+  const header = lines.slice(0, line).reverse().find((l) => /^\.(subckt|ends)\b/i.test(l));
+  if (header && /^\.subckt\b/i.test(header)) for (const p of header.trim().split(/\s+/).slice(2)) if (!p.includes('=')) names.add(p);
+  const choices = [...names].sort();
+  const target = choices[to % choices.length]!;
+  lines[line] = lines[line]!.split(/(\s+)/).map((x, j) => (j === 2 * k ? target : x)).join('');
+  return lines.join('\n');
+}
+
