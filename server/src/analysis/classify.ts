@@ -10,6 +10,7 @@ import { floatWindow } from '../phases/phases';
 import { evaluateComponent, newScratch, propagateConstants, repropagateConstants, X, type Scratch } from './constants';
 import { NetRole, SwitchKind, type Component, type SwitchNetwork } from './switchNetwork';
 import { ITEMS_PER_SLICE, runToEnd, type Steps } from '../core/steps';
+import { OverlayMap } from '../core/overlay';
 
 export type NodeStateName = 'driven' | 'conditional' | 'floating' | 'kept' | 'contention' | 'undriven';
 
@@ -356,8 +357,8 @@ export function reclassify(previous: Classification, net: SwitchNetwork, rebuilt
     }
     queue.sort((x, y) => x - y);
     const old = previous.perPhase[p]!;
-    const states = new Map(old);
-    for (const id of queue) for (const x of net.components[id]!.nodes) states.delete(x);
+    // the dirty groups' results, checked into a map of their own and laid over the old ones
+    const states = new Map<number, NodePhaseResult>();
     const flags = new Uint8Array(net.components.length);
     const oldFlags = previous.componentFlags[p]!;
     for (let id = 0; id < flags.length; id++) if (!dirty[id]) flags[id] = oldFlags[previousId[id]!]!;
@@ -373,8 +374,23 @@ export function reclassify(previous: Classification, net: SwitchNetwork, rebuilt
         if (!changed[x] && !sameResult(old.get(x), states.get(x))) changed[x] = 1;
       }
     }
+    const replaced = new Map<number, NodePhaseResult | undefined>();
+    let added = false;
+    for (const id of queue) {
+      for (const x of net.components[id]!.nodes) {
+        const r = states.get(x);
+        if (old.has(x)) replaced.set(x, r);
+        else if (r) added = true;
+      }
+    }
     result.phaseValues.push(values);
-    result.perPhase.push(states);
+    if (!added) result.perPhase.push(OverlayMap.over(old, replaced));
+    else {
+      const all = new Map(old);
+      for (const [x, r] of replaced) if (!r) all.delete(x);
+      for (const [x, r] of states) all.set(x, r);
+      result.perPhase.push(all);
+    }
     result.componentFlags.push(flags);
   }
   countFlags(result);

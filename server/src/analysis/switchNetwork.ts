@@ -176,8 +176,22 @@ export function patchSwitchNetwork(prev: SwitchNetwork, c: Circuit, moved: reado
       switches[si] = { a: e.a, b: e.b, gate: -1, kind: SwitchKind.On, mosfet: -1, other: old.other };
     }
   }
-  const drivesGate = new Uint8Array(n);
-  for (const m of c.mosfets) drivesGate[m.g] = 1;
+  // how many gates each net drives, carried from network to network
+  let counts = gateCounts.get(prev);
+  if (!counts) {
+    counts = new Int32Array(n);
+    for (const m of prev.circuit.mosfets) counts[m.g]!++;
+    gateCounts.set(prev, counts);
+  }
+  counts = counts.slice();
+  const drivesGate = prev.drivesGate.slice();
+  for (const si of moved) {
+    if (si >= nm) continue;
+    const before = prev.switches[si]!.gate;
+    const after = switches[si]!.gate;
+    if (--counts[before]! === 0) drivesGate[before] = 0;
+    if (counts[after]!++ === 0) drivesGate[after] = 1;
+  }
 
   // the old groups a moved switch touched, before or after: their nets are regrouped
   const touched = new Set<number>();
@@ -263,9 +277,22 @@ export function patchSwitchNetwork(prev: SwitchNetwork, c: Circuit, moved: reado
     return Infinity;
   };
   for (const g of gatesToRedo) {
+    // the kept groups stay in their order; each rebuilt one goes in at its place (a clock's
+    // list holds thousands of groups: found by bisection)
     const owners = prev.gatedComponents[g]!.filter((id) => !touched.has(id));
-    for (const comp of rebuiltGroups) if (comp.gates.includes(g)) owners.push(comp.id);
-    gatedComponents[g] = owners.map((id) => [firstGated(components[id]!, g), id] as const).sort((x, y) => x[0] - y[0]).map((x) => x[1]);
+    for (const comp of rebuiltGroups) {
+      if (!comp.gates.includes(g)) continue;
+      const key = firstGated(comp, g);
+      let lo = 0;
+      let hi = owners.length;
+      while (lo < hi) {
+        const mid = (lo + hi) >> 1;
+        if (firstGated(components[owners[mid]!]!, g) < key) lo = mid + 1;
+        else hi = mid;
+      }
+      owners.splice(lo, 0, comp.id);
+    }
+    gatedComponents[g] = owners;
   }
 
   // a group is reachable when one of its switches touches a strong net
@@ -275,5 +302,10 @@ export function patchSwitchNetwork(prev: SwitchNetwork, c: Circuit, moved: reado
     for (const x of comp.nodes) unreachable[x] = strong ? 0 : 1;
   }
   const network: SwitchNetwork = { circuit: c, role, switches, componentOf, components, gatedComponents, drivesGate, unreachable };
+  gateCounts.set(network, counts);
   return { network, rebuilt, previousId };
 }
+
+/** Gates driven by each net (the counts behind `drivesGate`), for the next patch. */
+const gateCounts = new WeakMap<SwitchNetwork, Int32Array>();
+

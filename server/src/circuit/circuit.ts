@@ -102,6 +102,8 @@ export interface Instance {
   subckt: string;
   /** The flat nets its ports are bound to, in port order. */
   ports: number[];
+  /** Where the elements below it sit in the circuit's lists: [first, end) of each (depth first, so contiguous). */
+  below: { mosfets: [number, number]; instances: [number, number] };
   origin: Origin;
 }
 

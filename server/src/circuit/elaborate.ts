@@ -9,7 +9,7 @@ import { diag } from '../core/diagnostics';
 import type { Range } from '../core/source';
 import { DEFAULT_GROUND_PATTERN, DEFAULT_SUPPLY_PATTERN, type EngineOptions } from '../core/options';
 import type { AssignItem, Statement, ValueItem, WordItem } from '../syntax/tree';
-import type { Circuit, Design, Mosfet, Net, NetKind, Origin, Polarity, Port, PortDirection, Waveform } from './circuit';
+import type { Circuit, Design, Instance, Mosfet, Net, NetKind, Origin, Polarity, Port, PortDirection, Waveform } from './circuit';
 import type { Deck, Located, SubcktDefinition } from './deck';
 import { emptyDirectives, readDirectives, type DeviceKind, type DirectiveSet } from './directives';
 import { interpretElement, MODELLED_LETTERS, splitItems, type ElementSyntax } from './elements';
@@ -752,8 +752,11 @@ class Elaborator {
         case 'instance': {
           const child = this.template(v.target);
           const childMap = el.nodes.map(net);
-          c.instances.push({ name, subckt: v.target.name, ports: childMap.slice(), origin: el.origin });
+          const inst: Instance = { name, subckt: v.target.name, ports: childMap.slice(), below: { mosfets: [c.mosfets.length, 0], instances: [c.instances.length + 1, 0] }, origin: el.origin };
+          c.instances.push(inst);
           this.instantiate(c, child, childMap, name + '.', v.scope, v.key, [...defStack, v.target]);
+          inst.below.mosfets[1] = c.mosfets.length;
+          inst.below.instances[1] = c.instances.length;
           break;
         }
         case 'none':

@@ -167,9 +167,11 @@ function rewireCircuit(
 
   // instance lines first: their subtrees' devices follow the moved ports
   const below = new Map<string, Map<number, number>>();
+  const spans: Array<Instance['below']> = [];
   const flagged = new Uint8Array(c.nets.length);
   let instances: Instance[] | undefined;
-  for (let i = 0; i < c.instances.length; i++) {
+  const instanceIndex = originIndex(c.instances);
+  for (const i of onEditedLines(instanceIndex, lineOf)) {
     const inst = c.instances[i]!;
     const nets = newNets(inst);
     if (nets === undefined) return undefined;
@@ -188,7 +190,10 @@ function rewireCircuit(
     }
     instances ??= c.instances.slice();
     instances[i] = lines.move({ ...inst, ports: nets });
-    if (remap.size) below.set(q, remap);
+    if (remap.size) {
+      below.set(q, remap);
+      spans.push(inst.below);
+    }
   }
   /** The remap of the edited instance whose subtree holds `name`, if any. */
   const subtreeRemap = (name: string): Map<number, number> | undefined => {
@@ -199,18 +204,34 @@ function rewireCircuit(
     return undefined;
   };
   const through = (r: Map<number, number>, n: number) => r.get(n) ?? n;
+  // the instances and devices below an edited instance (contiguous in their lists)
   if (below.size && instances) {
-    for (let i = 0; i < instances.length; i++) {
-      const inst = instances[i]!;
-      if (!inst.ports.some((n) => flagged[n])) continue;
-      const r = subtreeRemap(inst.name);
-      if (r) instances[i] = { ...inst, ports: inst.ports.map((n) => through(r, n)) };
+    for (const span of spans) {
+      for (let i = span.instances[0]; i < span.instances[1]; i++) {
+        const inst = instances[i]!;
+        if (!inst.ports.some((n) => flagged[n])) continue;
+        const r = subtreeRemap(inst.name);
+        if (r) instances[i] = { ...inst, ports: inst.ports.map((n) => through(r, n)) };
+      }
     }
   }
 
   const changed: RewiredElements = { mosfets: [], resistors: [], inductors: [], capacitors: [] };
   let mosfets: Mosfet[] | undefined;
-  for (let i = 0; i < c.mosfets.length; i++) {
+  const mosfetIndex = originIndex(c.mosfets);
+  // the devices of the edited lines, then (for an edited instance) those on a moved port's net
+  const candidates = onEditedLines(mosfetIndex, lineOf);
+  if (below.size) {
+    const listed = new Set(candidates);
+    for (const span of spans) {
+      for (let i = span.mosfets[0]; i < span.mosfets[1]; i++) {
+        const m = c.mosfets[i]!;
+        if ((flagged[m.d] || flagged[m.g] || flagged[m.s] || flagged[m.b]) && !listed.has(i)) candidates.push(i);
+      }
+    }
+  }
+  candidates.sort((x, y) => x - y);
+  for (const i of candidates) {
     const m = c.mosfets[i]!;
     let d = m.d, g = m.g, s = m.s, b = m.b;
     const nets = newNets(m);
@@ -268,6 +289,8 @@ function rewireCircuit(
       return { ...n, origin: o };
     });
   }
+  if (mosfets) originIndex.carry(mosfetIndex, mosfets, lineOf);
+  if (instances) originIndex.carry(instanceIndex, instances, lineOf);
   const circuit: Circuit = {
     ...c,
     nets,
@@ -279,4 +302,51 @@ function rewireCircuit(
     instances: instances ?? c.instances,
   };
   return { circuit, changed };
+}
+
+type OriginIndex = Map<Origin, number[]>;
+
+/**
+ * The positions of a list's elements by origin (every instance of a line shares one), built once
+ * per list and carried to the list an edit makes from it, so an edit finds the elements of its
+ * lines without reading every element.
+ */
+const originIndexes = new WeakMap<readonly object[], OriginIndex>();
+
+function originIndex(list: ReadonlyArray<{ origin: Origin }>): OriginIndex {
+  let index = originIndexes.get(list);
+  if (!index) {
+    index = new Map();
+    for (let i = 0; i < list.length; i++) {
+      const o = list[i]!.origin;
+      const at = index.get(o);
+      if (at) at.push(i);
+      else index.set(o, [i]);
+    }
+    originIndexes.set(list, index);
+  }
+  return index;
+}
+
+/** The index of `next` (`list` with the elements of the edited lines on moved origins). */
+originIndex.carry = (index: OriginIndex, next: ReadonlyArray<{ origin: Origin }>, onEdited: (o: Origin) => unknown): void => {
+  const out = new Map(index);
+  for (const [o, at] of index) {
+    if (!onEdited(o)) continue;
+    out.delete(o);
+    for (const i of at) {
+      const moved = next[i]!.origin;
+      const list = out.get(moved);
+      if (list) list.push(i);
+      else out.set(moved, [i]);
+    }
+  }
+  originIndexes.set(next, out);
+};
+
+/** Positions of the elements written on an edited line, ascending. */
+function onEditedLines(index: OriginIndex, lineOf: (o: Origin) => unknown): number[] {
+  const out: number[] = [];
+  for (const [o, at] of index) if (lineOf(o)) out.push(...at);
+  return out.sort((x, y) => x - y);
 }

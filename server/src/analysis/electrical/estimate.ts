@@ -7,6 +7,7 @@ import { evaluateComponent, newScratch, type Scratch } from '../constants';
 import { NetRole } from '../switchNetwork';
 import { carryToTwin, familyOf, type Family } from './family';
 import { ITEMS_PER_SLICE, runToEnd, type Steps } from '../../core/steps';
+import { OverlayMap } from '../../core/overlay';
 import type { ElectricalContext } from './context';
 import { capacitanceSignature, islandCapacitance, type CapacitanceBreakdown } from './capacitance';
 import { buildLeakageNetwork, leakageAt, leakageSignature, type LeakageContributor } from './leakage';
@@ -651,8 +652,9 @@ export function reestimate(ctx: ElectricalContext, previous: ReadonlyMap<number,
   let out: Map<number, NodeEstimate>;
   if (!added) {
     // replacing and deleting keep every other node where it was: still in node order
-    out = new Map(previous);
-    affected.forEach((n, k) => (fresh[k] ? out.set(n, fresh[k]!) : out.delete(n)));
+    const changes = new Map<number, NodeEstimate | undefined>();
+    affected.forEach((n, k) => previous.has(n) && changes.set(n, fresh[k]));
+    out = OverlayMap.over(previous, changes);
   } else {
     out = new Map();
     let k = 0;

@@ -1,0 +1,81 @@
+// A read-only map made of an earlier map and the few entries an edit replaced or removed, so a
+// stage's result after a small edit costs what the edit changed instead of a copy of every
+// entry. Entries keep the earlier map's order (a replaced entry stays in its place); keys the
+// earlier map did not have are not taken (the caller builds a fresh map then). Chains of
+// overlays are folded into a plain map after a few edits, so lookups stay short.
+
+const MAX_DEPTH = 8;
+
+export class OverlayMap<K, V> extends Map<K, V> {
+  private constructor(
+    private readonly base: ReadonlyMap<K, V>,
+    private readonly changes: ReadonlyMap<K, V | undefined>,
+    private readonly depth: number,
+    private readonly count: number,
+  ) {
+    super();
+  }
+
+  /**
+   * `base` with each key of `changes` replaced by its value, or removed for `undefined`. Every
+   * key of `changes` must be a key of `base`.
+   */
+  static over<K, V>(base: ReadonlyMap<K, V>, changes: ReadonlyMap<K, V | undefined>): Map<K, V> {
+    let removed = 0;
+    for (const [k, v] of changes) {
+      if (!base.has(k)) throw new Error('an overlay replaces or removes entries; it does not add them');
+      if (v === undefined) removed++;
+    }
+    const depth = base instanceof OverlayMap ? base.depth + 1 : 1;
+    const map = new OverlayMap(base, changes, depth, base.size - removed);
+    return depth > MAX_DEPTH ? new Map(map.entries()) : map;
+  }
+
+  override get(key: K): V | undefined {
+    return this.changes.has(key) ? this.changes.get(key) : this.base.get(key);
+  }
+
+  override has(key: K): boolean {
+    return this.changes.has(key) ? this.changes.get(key) !== undefined : this.base.has(key);
+  }
+
+  override get size(): number {
+    return this.count;
+  }
+
+  override *entries(): MapIterator<[K, V]> {
+    for (const [k, v] of this.base) {
+      if (!this.changes.has(k)) yield [k, v];
+      else {
+        const w = this.changes.get(k);
+        if (w !== undefined) yield [k, w];
+      }
+    }
+  }
+
+  override *keys(): MapIterator<K> {
+    for (const [k] of this.entries()) yield k;
+  }
+
+  override *values(): MapIterator<V> {
+    for (const [, v] of this.entries()) yield v;
+  }
+
+  override [Symbol.iterator](): MapIterator<[K, V]> {
+    return this.entries();
+  }
+
+  override forEach(fn: (value: V, key: K, map: Map<K, V>) => void, thisArg?: unknown): void {
+    for (const [k, v] of this.entries()) fn.call(thisArg, v, k, this);
+  }
+
+  override set(): this {
+    throw new Error('an analysis result is read-only');
+  }
+  override delete(): boolean {
+    throw new Error('an analysis result is read-only');
+  }
+  override clear(): void {
+    throw new Error('an analysis result is read-only');
+  }
+}
