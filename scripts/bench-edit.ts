@@ -22,12 +22,14 @@ async function main(): Promise<void> {
     ['a width in a leaf cell', (l) => l.startsWith('Mn1 y a n1'), (l) => l.replace('w=0.4u', 'w=0.42u')],
     ['the keeper length in the domino cell', (l) => l.startsWith('Mkp dyn out'), (l) => l.replace('l=0.1u', 'l=0.12u')],
     ['a comment line', (l) => l.startsWith('vdd '), (l) => `* supply\n${l}`],
-    // a real change of connectivity: no quick path applies, the full analysis runs
+    // a change of connectivity, rewired in the previous analysis
     RECONNECTION,
+    // a new device: no quick path applies, the full analysis runs
+    ['a device added to the domino cell (full analysis)', (l) => l.startsWith('Mkp dyn out'), (l) => `${l}\nMx dyn clk vdd vdd bp w=0.1u l=0.1u`],
   ]);
-  // the full analysis on netlists of the size most cells and blocks have
+  // the same on a netlist of the size most blocks have
   const small = await measure(10_000, [RECONNECTION]);
-  console.log('edit latency, change notification to published diagnostics (comment, size and rename edits are answered from the previous analysis; others run the full analysis after a 40 ms debounce):');
+  console.log('edit latency, change notification to published diagnostics (comment, size, rename and reconnection edits are answered from the previous analysis; others run the full analysis after a 40 ms debounce):');
   for (const line of [...big, ...small]) console.log('  ' + line);
 }
 

@@ -103,6 +103,26 @@ describe('incremental and responsive analysis over the real protocol', () => {
     expect(client.proc.exitCode).toBeNull();
   }, 120_000);
 
+  it('a reconnection is answered from the previous analysis: the findings and the hover a fresh analysis gives', async () => {
+    const before = text.split('\n');
+    const target = before.findIndex((l) => l.startsWith('Xb1 a1 '));
+    const lines = [...before];
+    // the keeper length the burst left, then a block input moved to another net
+    lines[lines.findIndex((l) => l.startsWith('Mkp dyn out'))] = 'Mkp dyn out vdd vdd bp w=0.15u l=0.4u';
+    lines[target] = lines[target]!.replace('Xb1 a1 ', 'Xb1 a3 ');
+    const edited = lines.join('\n');
+    const settled = client.diagnosticsFor(uri, (p) => published(p).join('\n') === engineFindings(file, edited).join('\n'));
+    await client.change(uri, edited, 40);
+    expect(published(await settled)).toEqual(engineFindings(file, edited));
+    const position = { line: target, character: 5 };
+    const hover = (await client.conn.sendRequest('textDocument/hover', { textDocument: { uri }, position })) as { contents: { value: string } } | null;
+    const fresh = analyse(memoryHost({ [file]: edited }), file);
+    const spot = locate(fresh.deck.files.find((x) => x.file === file)!, position);
+    expect(spot?.kind).toBe('net');
+    expect(hover?.contents.value).toBe(netHover(fresh, file, spot as Extract<NonNullable<typeof spot>, { kind: 'net' }>));
+    expect(client.proc.exitCode).toBeNull();
+  }, 120_000);
+
   it('an edit in an open included file re-analyses the netlist that includes it, at once for a size edit', async () => {
     const cells = CELLS_INC;
     const top = topIncludingCells(1);
