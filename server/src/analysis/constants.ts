@@ -91,17 +91,22 @@ const unsettled = new WeakSet<Uint8Array>();
 /** Net values in a phase after propagating the phase's constants to a fixpoint. */
 export function propagateConstants(net: SwitchNetwork, clocks: Map<number, 0 | 1>, scratch: Scratch = newScratch(net.role.length)): Uint8Array {
   const values = sourceValues(net, clocks);
+  const queue = net.components.map((comp) => comp.id);
+  if (!settle(net, values, queue, scratch)) unsettled.add(values);
+  return values;
+}
+
+/**
+ * Evaluates the queued components, and again each one whose gate changed, until nothing
+ * changes. False when the budget runs out first (pathological feedback, an oscillating ring).
+ */
+function settle(net: SwitchNetwork, values: Uint8Array, queue: number[], scratch: Scratch): boolean {
   const out = new Uint8Array(values.length);
   const queued = new Uint8Array(net.components.length);
-  const queue: number[] = [];
-  for (const comp of net.components) {
-    queue.push(comp.id);
-    queued[comp.id] = 1;
-  }
-  // Each component re-evaluates only when a gate it depends on changes; the budget keeps
-  // pathological feedback (an oscillating ring) from looping.
-  let budget = net.components.length * 8 + 100;
-  for (let head = 0; head < queue.length && budget-- > 0; head++) {
+  for (const id of queue) queued[id] = 1;
+  let budget = queue.length * 8 + 100;
+  for (let head = 0; head < queue.length; head++) {
+    if (budget-- <= 0) return false;
     const id = queue[head]!;
     queued[id] = 0;
     const comp = net.components[id]!;
@@ -118,8 +123,7 @@ export function propagateConstants(net: SwitchNetwork, clocks: Map<number, 0 | 1
       }
     }
   }
-  if (budget < 0) unsettled.add(values);
-  return values;
+  return true;
 }
 
 /**
@@ -141,28 +145,5 @@ export function repropagateConstants(net: SwitchNetwork, previous: Uint8Array, r
       for (const g of net.gatedComponents[x]!) if (!reached[g]) (reached[g] = 1), queue.push(g);
     }
   }
-  const out = new Uint8Array(values.length);
-  const queued = new Uint8Array(net.components.length);
-  const work = queue.slice();
-  for (const id of work) queued[id] = 1;
-  let budget = work.length * 8 + 100;
-  for (let head = 0; head < work.length; head++) {
-    if (budget-- <= 0) return undefined;
-    const id = work[head]!;
-    queued[id] = 0;
-    const comp = net.components[id]!;
-    evaluateComponent(net, comp, values, out, scratch);
-    for (const node of comp.nodes) {
-      const v = out[node]!;
-      if (values[node] === v) continue;
-      values[node] = v;
-      for (const g of net.gatedComponents[node]!) {
-        if (!queued[g]) {
-          queued[g] = 1;
-          work.push(g);
-        }
-      }
-    }
-  }
-  return values;
+  return settle(net, values, queue, scratch) ? values : undefined;
 }

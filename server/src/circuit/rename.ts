@@ -38,19 +38,8 @@ export function renameNets(previousDeck: Deck, previous: Design, deck: Deck, opt
     return renames ? { file, before, after, renames } : undefined;
   });
   if (!edited || edited.length === 0) return undefined;
-  // which subcircuit (or the top level, null) holds each edited line
-  const scopeOf = new Map<Statement, string | null>();
-  let nested = false;
-  const walk = (defs: Map<string, SubcktDefinition>) => {
-    for (const d of defs.values()) {
-      if (d.local.size) nested = true;
-      for (const s of d.body) scopeOf.set(s.item, d.name);
-      walk(d.local);
-    }
-  };
-  walk(deck.subckts);
-  for (const s of deck.top) scopeOf.set(s.item, null);
-  if (nested) return undefined;
+  const scopeOf = scopesOfStatements(deck);
+  if (!scopeOf) return undefined;
   const renames = new Map<string | null, Map<string, string>>();
   for (const line of edited) {
     const scope = scopeOf.get(line.after);
@@ -269,4 +258,23 @@ class RenamedNetNames extends Map<string, number> {
   override clear(): void {
     throw new Error('the net table of an analysed circuit is read-only');
   }
+}
+
+/**
+ * Which subcircuit (lower case) or the top level (null) holds each statement of a deck, or
+ * undefined when a definition holds local definitions (the quick patches leave those alone).
+ */
+export function scopesOfStatements(deck: Deck): Map<Statement, string | null> | undefined {
+  const scopeOf = new Map<Statement, string | null>();
+  let nested = false;
+  const walk = (defs: Map<string, SubcktDefinition>) => {
+    for (const d of defs.values()) {
+      if (d.local.size) nested = true;
+      for (const s of d.body) scopeOf.set(s.item, d.name);
+      walk(d.local);
+    }
+  };
+  walk(deck.subckts);
+  for (const s of deck.top) scopeOf.set(s.item, null);
+  return nested ? undefined : scopeOf;
 }

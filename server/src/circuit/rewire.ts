@@ -9,10 +9,10 @@
 
 import { startLineOf } from '../core/source';
 import type { Capacitor, Circuit, Design, Instance, Mosfet, Net, Origin, Resistor, TwoTerminal } from './circuit';
-import type { Deck, SubcktDefinition } from './deck';
+import type { Deck } from './deck';
 import { deckGlobals, elementNodeWords, NetSlots } from './elaborate';
 import { movedLines, type EditedLine, type MovedLines } from './movedLines';
-import { renamedNodes } from './rename';
+import { renamedNodes, scopesOfStatements } from './rename';
 import { editedStatements, sameRange } from '../syntax/compare';
 import type { Statement } from '../syntax/tree';
 
@@ -82,18 +82,8 @@ export function rewireNets(previousDeck: Deck, previous: Design, deck: Deck, lim
 
 /** The one definition (lower case) or top level (null) holding every edited line, else undefined. */
 function scopeOfLines(deck: Deck, edited: readonly EditedLine[]): string | null | undefined {
-  const scopeOf = new Map<Statement, string | null>();
-  let nested = false;
-  const walk = (defs: Map<string, SubcktDefinition>) => {
-    for (const d of defs.values()) {
-      if (d.local.size) nested = true;
-      for (const s of d.body) scopeOf.set(s.item, d.name);
-      walk(d.local);
-    }
-  };
-  walk(deck.subckts);
-  for (const s of deck.top) scopeOf.set(s.item, null);
-  if (nested) return undefined;
+  const scopeOf = scopesOfStatements(deck);
+  if (!scopeOf) return undefined;
   const scopes = new Set(edited.map((l) => scopeOf.get(l.after)));
   if (scopes.size !== 1) return undefined;
   const [scope] = scopes;
