@@ -72,6 +72,18 @@ describe('reconnections reuse the previous analysis and equal a fresh one', () =
       total += check(file, fs.readFileSync(file, 'utf8'), (t) => overlay(file, t), 40);
     });
   }
+  // the classification and electrical fixtures: keepers, latches, buses, stacks, memory cells
+  for (const kind of ['classify', 'electrical']) {
+    const dir = path.join(__dirname, 'fixtures', kind);
+    it(`the ${kind} fixtures: random reconnections`, () => {
+      let taken = 0;
+      for (const name of fs.readdirSync(dir).filter((f) => f.endsWith('.sp'))) {
+        const file = path.join(dir, name);
+        taken += check(file, fs.readFileSync(file, 'utf8'), (t) => overlay(file, t), 12);
+      }
+      expect(taken).toBeGreaterThan(10);
+    }, 120_000);
+  }
   it('a generated hierarchical datapath (2k transistors): reconnections in its cells and at the top', () => {
     const file = '/datapath.sp';
     const text = hierarchicalNetlist(2_000);

@@ -25,7 +25,8 @@ export function capacitanceSignature(ctx: ElectricalContext, island: ReadonlySet
   for (const n of island) {
     for (const i of ctx.gateOf[n]!) {
       const m = c.mosfets[i]!;
-      parts.push(`g${m.card?.name ?? m.model}:${m.wM}:${m.lM}:${m.m}`);
+      // the gate's capacitance follows the channel's state, which reads the rails at its drain and source
+      parts.push(`g${m.card?.name ?? m.model}:${m.polarity}:${m.wM}:${m.lM}:${m.m}:${ctx.railVolts[m.d]}:${ctx.railVolts[m.s]}`);
     }
     for (const i of ctx.channelOf[n]!) {
       const m = c.mosfets[i]!;

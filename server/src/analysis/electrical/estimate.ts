@@ -476,12 +476,18 @@ function structureKey(ctx: ElectricalContext, n: number, floating: Array<{ s: No
   const comp = net.components[net.componentOf[n]!]!;
   const local = new Map<number, number>(comp.nodes.map((x, k) => [x, k]));
   const assignments = floating.map((f) => new Map<number, 0 | 1>(f.s.gateAssignment ?? []));
+  // nets outside the group are numbered in the order met, with their role and their value in
+  // each floating phase: two nodes match only if their surroundings are wired alike
+  const outside = new Map<number, number>();
   const code = (x: number): string => {
     const l = local.get(x);
     if (l !== undefined) return x === n ? 'N' : 'L' + l;
     const rail = ctx.railVolts[x]!;
     if (Number.isFinite(rail)) return 'R' + rail;
-    let s = 'S';
+    const k = outside.get(x);
+    if (k !== undefined) return '#' + k;
+    outside.set(x, outside.size);
+    let s = `#${outside.size - 1}r${net.role[x]}v`;
     for (let f = 0; f < floating.length; f++) s += String(assignments[f]!.get(x) ?? values[floating[f]!.i]![x]!);
     return s;
   };
@@ -504,6 +510,27 @@ function structureKey(ctx: ElectricalContext, n: number, floating: Array<{ s: No
     for (const k of ctx.capsOf[x]!) {
       const cap = c.capacitors[k]!;
       parts.push(`C${cap.capacitanceF}:${code(cap.a)}${code(cap.b)}`);
+    }
+  }
+  // what the input variants read (inputVariants): the inputs each float needs, and the groups
+  // driving the gates that come from logic, wired as they are
+  for (const f of floating) {
+    const needed: string[] = [];
+    for (const [name, v] of Object.entries(f.s.when ?? {})) {
+      const id = c.netByName.get(name);
+      if (id !== undefined && outside.has(id)) needed.push(`${outside.get(id)}=${v}`);
+    }
+    parts.push('W' + needed.sort().join(','));
+  }
+  const drivers = new Set<number>();
+  for (const si of comp.switches) {
+    const g = net.switches[si]!.gate;
+    if (g >= 0 && net.role[g] === NetRole.Internal && net.componentOf[g] !== comp.id) drivers.add(net.componentOf[g]!);
+  }
+  for (const id of drivers) {
+    for (const si of net.components[id]!.switches) {
+      const sw = net.switches[si]!;
+      parts.push(`D${sw.kind}${sw.gate < 0 ? '-' : code(sw.gate)}${code(sw.a)}${code(sw.b)}`);
     }
   }
   return { key: parts.join(';'), devices };
