@@ -28,7 +28,7 @@ export class OverlayMap<K, V> extends Map<K, V> {
     }
     const depth = base instanceof OverlayMap ? base.depth + 1 : 1;
     const map = new OverlayMap(base, changes, depth, base.size - removed);
-    return depth > MAX_DEPTH ? new Map(map.entries()) : map;
+    return depth > MAX_DEPTH ? new Map(map.all()) : map;
   }
 
   override get(key: K): V | undefined {
@@ -43,22 +43,35 @@ export class OverlayMap<K, V> extends Map<K, V> {
     return this.count;
   }
 
-  override *entries(): MapIterator<[K, V]> {
-    for (const [k, v] of this.base) {
-      if (!this.changes.has(k)) yield [k, v];
-      else {
-        const w = this.changes.get(k);
-        if (w !== undefined) yield [k, w];
-      }
+  /** The whole map, made once when first walked (walking a plain map is much faster than a generator). */
+  private whole: Map<K, V> | undefined;
+
+  private all(): Map<K, V> {
+    if (!this.whole) {
+      const m = new Map<K, V>();
+      const changes = this.changes;
+      this.base.forEach((v, k) => {
+        if (!changes.has(k)) m.set(k, v);
+        else {
+          const w = changes.get(k);
+          if (w !== undefined) m.set(k, w);
+        }
+      });
+      this.whole = m;
     }
+    return this.whole;
   }
 
-  override *keys(): MapIterator<K> {
-    for (const [k] of this.entries()) yield k;
+  override entries(): MapIterator<[K, V]> {
+    return this.all().entries();
   }
 
-  override *values(): MapIterator<V> {
-    for (const [, v] of this.entries()) yield v;
+  override keys(): MapIterator<K> {
+    return this.all().keys();
+  }
+
+  override values(): MapIterator<V> {
+    return this.all().values();
   }
 
   override [Symbol.iterator](): MapIterator<[K, V]> {
@@ -66,7 +79,7 @@ export class OverlayMap<K, V> extends Map<K, V> {
   }
 
   override forEach(fn: (value: V, key: K, map: Map<K, V>) => void, thisArg?: unknown): void {
-    for (const [k, v] of this.entries()) fn.call(thisArg, v, k, this);
+    this.all().forEach((v, k) => fn.call(thisArg, v, k, this));
   }
 
   override set(): this {
