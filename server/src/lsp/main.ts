@@ -294,9 +294,9 @@ async function publish(uri: string): Promise<void> {
 }
 
 /**
- * An edit. Two kinds are answered at once, from the last analysis: one that changed no meaning
- * (comments, blank lines) moves the findings to their new lines, and one that changed only
- * device sizes re-estimates just the nodes those devices reach (engine `reanalyse`, exact).
+ * An edit. Some kinds are answered at once, from the last analysis: one that changed no meaning
+ * (comments, blank lines) moves the findings to their new lines, and a size edit, a rename or a
+ * reconnection redoes only what it reaches (engine `reanalyse`, exact).
  * Otherwise, or to refresh hovers after a moved-lines edit, a full analysis runs after the
  * debounce, in slices, and the next edit cancels it.
  */
