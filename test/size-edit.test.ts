@@ -1,8 +1,8 @@
 // The size-edit path (circuit/patch.ts, engine `reanalyse`): after an edit of plain-number sizes
 // on MOSFET lines, the analysis built from the previous one must equal a fresh analysis of the
 // new text, finding for finding and figure for figure (the whole JSON report, every node).
-// Random edits over every sample and a generated hierarchical datapath; edits of other kinds
-// must be declined.
+// Random edits over every sample and a generated hierarchical datapath, with model swaps between
+// flavours of one polarity where the cards exist; edits of other kinds must be declined.
 
 import * as fs from 'node:fs';
 import * as path from 'node:path';
@@ -17,11 +17,15 @@ const SAMPLES = path.join(__dirname, '..', 'samples');
 
 
 
-type Edit = { line: number; param: number; factor: number; kind: 'size' | 'other' };
+type Edit = { line: number; param: number; factor: number; kind: 'size' | 'other' | 'flavour' };
 const FACTORS = [0.5, 0.8, 1.25, 2, 3];
 
-/** Scales one size of one MOSFET line (a 'size' edit), or changes a node name ('other'). */
-function apply(text: string, edits: Edit[]): { text: string; sizesOnly: boolean } {
+/**
+ * Scales one size of one MOSFET line (a 'size' edit), changes a node name ('other'), or swaps
+ * its model for the flavour named with an 'l' more or less ('flavour': a quick edit only where
+ * that card exists, as `flavours` says).
+ */
+function apply(text: string, edits: Edit[], flavours = false): { text: string; sizesOnly: boolean } {
   const lines = text.split('\n');
   const mos = lines.map((l, i) => (/^m\S*\s/i.test(l) && /\b(w|l|ad|pd|m)=\d/i.test(l) ? i : -1)).filter((i) => i >= 0);
   let sizesOnly = true;
@@ -33,26 +37,34 @@ function apply(text: string, edits: Edit[]): { text: string; sizesOnly: boolean 
       sizesOnly = false;
       continue;
     }
+    if (e.kind === 'flavour') {
+      lines[i] = lines[i]!.replace(/^((?:\S+\s+){5})(\S+)/, (_m, head: string, model: string) => head + (model.endsWith('l') ? model.slice(0, -1) : model + 'l'));
+      continue;
+    }
     const sizes = [...lines[i]!.matchAll(/\b(w|l|ad|as|pd|ps)=(\d+(?:\.\d+)?)(u|n|p)?\b/gi)];
     if (!sizes.length) continue;
     const s = sizes[e.param % sizes.length]!;
     const v = Number(s[2]) * FACTORS[e.factor % FACTORS.length]!;
     lines[i] = lines[i]!.slice(0, s.index!) + `${s[1]}=${Number(v.toPrecision(4))}${s[3] ?? ''}` + lines[i]!.slice(s.index! + s[0].length);
   }
+  // a swap to a model that has no card is not a size edit (two swaps of one line cancel)
+  const modelOf = (l: string) => (/^m/i.test(l) ? l.trim().split(/\s+/)[5] : undefined);
+  const before = text.split('\n');
+  if (!flavours && lines.some((l, k) => modelOf(l) !== modelOf(before[k]!))) sizesOnly = false;
   return { text: lines.join('\n'), sizesOnly };
 }
 
-function check(file: string, original: string, hostFor: (t: string) => FileHost, runs: number): number {
+function check(file: string, original: string, hostFor: (t: string) => FileHost, runs: number, flavours = false): number {
   const before = analyse(hostFor(original), file);
   let patched = 0;
-  const edit = fc.array(fc.record({ line: fc.nat(500), param: fc.nat(5), factor: fc.nat(4), kind: fc.constantFrom<Edit['kind']>('size', 'size', 'size', 'other') }), { minLength: 1, maxLength: 3 });
+  const edit = fc.array(fc.record({ line: fc.nat(500), param: fc.nat(5), factor: fc.nat(4), kind: fc.constantFrom<Edit['kind']>('size', 'size', 'size', 'other', 'flavour') }), { minLength: 1, maxLength: 3 });
   // two edits in a row: the second starts from the first's result, patched or fresh
   fc.assert(
     fc.property(edit, edit, (first, second) => {
       let previous = before;
       let text = original;
       for (const edits of [first, second]) {
-        const next = apply(text, edits);
+        const next = apply(text, edits, flavours);
         if (next.text === text) continue;
         const host = hostFor(next.text);
         const fast = reanalyse(previous, readDeck(host, file));
@@ -92,5 +104,20 @@ describe('size edits reuse the previous analysis and equal a fresh one', () => {
     const file = '/datapath.sp';
     const patched = check(file, hierarchicalNetlist(5_000), (t) => memoryHost({ [file]: t }), 6);
     expect(patched).toBeGreaterThan(0);
+  });
+  it('the datapath with a second flavour of each device: model swaps are size edits', () => {
+    const file = '/datapath.sp';
+    // invented low-threshold flavours of the benchmark's two cards
+    const text = hierarchicalNetlist(2_000).replace('.model bn nmos', '.model bnl nmos level=1 vto=0.3 kp=220u\n.model bn nmos').replace('.model bp pmos', '.model bpl pmos level=1 vto=-0.3 kp=90u\n.model bp pmos');
+    const patched = check(file, text, (t) => memoryHost({ [file]: t }), 8, true);
+    expect(patched).toBeGreaterThan(0);
+    // a card of the other polarity would change the switch network: not a size edit
+    const swapped = text.replace('Mkp dyn out vdd vdd bp', 'Mkp dyn out vdd vdd bn');
+    expect(reanalyse(analyse(memoryHost({ [file]: text }), file), readDeck(memoryHost({ [file]: swapped }), file))).toBeUndefined();
+    // the flavour swap the benchmark makes, equal to a fresh analysis
+    const flavour = text.replace('Mkp dyn out vdd vdd bp', 'Mkp dyn out vdd vdd bpl');
+    const fast = reanalyse(analyse(memoryHost({ [file]: text }), file), readDeck(memoryHost({ [file]: flavour }), file));
+    expect(fast).toBeDefined();
+    expect(report(file, fast!)).toEqual(report(file, analyse(memoryHost({ [file]: flavour }), file)));
   });
 });

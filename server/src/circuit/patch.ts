@@ -1,6 +1,7 @@
 // The elaboration stage's answer to a size edit: when the new deck differs from the old one only
-// in plain-number sizes of MOSFET lines (W, L, M, NF, AD, AS, PD, PS), the flat circuit keeps
-// every net and connection, and only the devices written on those lines take their new values.
+// in plain-number sizes of MOSFET lines (W, L, M, NF, AD, AS, PD, PS) or in their model names
+// (another card of the same polarity: a threshold flavour), the flat circuit keeps every net
+// and connection, and only the devices written on those lines take their new values.
 // Anything else (a changed word, a parameter expression, a line moved, an edit that could change
 // the assumed geometry scale) answers `undefined`, and the caller elaborates afresh.
 
@@ -10,7 +11,8 @@ import type { Deck } from './deck';
 import { selectModel } from './models';
 import { parseSpiceNumber } from './numbers';
 import { editedStatements, sameItem, sameWords } from '../syntax/compare';
-import type { AssignItem, Statement } from '../syntax/tree';
+import type { AssignItem, Item, Statement } from '../syntax/tree';
+import { interpretElement } from './elements';
 
 /** Sizes the patch can take, and how each scales with the geometry scale. */
 const SIZE_PARAMS: Record<string, 'length' | 'area' | 'count'> = { w: 'length', l: 'length', pd: 'length', ps: 'length', ad: 'area', as: 'area', m: 'count', mult: 'count', nf: 'count' };
@@ -66,16 +68,19 @@ export function patchSizes(previousDeck: Deck, previous: Design, deck: Deck): Si
       if (!hit) continue;
       hit.origin ??= { ...m.origin, range: hit.line.after.range };
       const v = hit.values;
-      const next: Mosfet = { name: m.name, polarity: m.polarity, d: m.d, g: m.g, s: m.s, b: m.b, wM: v.wM ?? m.wM, lM: v.lM ?? m.lM, m: v.m, nf: v.nf, model: m.model, card: m.card, origin: hit.origin };
+      if (v.model === undefined) return undefined;
+      const next: Mosfet = { name: m.name, polarity: m.polarity, d: m.d, g: m.g, s: m.s, b: m.b, wM: v.wM ?? m.wM, lM: v.lM ?? m.lM, m: v.m, nf: v.nf, model: v.model, card: m.card, origin: hit.origin };
       if (v.adM2 !== undefined) next.adM2 = v.adM2;
       if (v.asM2 !== undefined) next.asM2 = v.asM2;
       if (v.pdM !== undefined) next.pdM = v.pdM;
       if (v.psM !== undefined) next.psM = v.psM;
       // the bin follows the size (one choice per line: every device of it has the same sizes
       // and model); a card of the other polarity would change the switch network
-      if (!hit.card || hit.card.for.wM !== next.wM || hit.card.for.lM !== next.lM) hit.card = { for: next, card: selectModel(previous.modelCards, m.model, next.lM, next.wM) };
+      if (!hit.card || hit.card.for.wM !== next.wM || hit.card.for.lM !== next.lM) hit.card = { for: next, card: selectModel(previous.modelCards, next.model, next.lM, next.wM) };
       next.card = hit.card.card;
-      if ((m.card === undefined) !== (next.card === undefined)) return undefined;
+      // a model without a card is reported by the elaborator (counted per device): another
+      // model name is taken only between two that have cards
+      if (next.model !== m.model ? m.card === undefined || next.card === undefined : (m.card === undefined) !== (next.card === undefined)) return undefined;
       if (next.card && (next.card.kind === 'nmos' ? 'n' : 'p') !== m.polarity) return undefined;
       if (next.lM > PLAUSIBLE_L_M || next.wM > PLAUSIBLE_W_M) return undefined;
       mosfets ??= c.mosfets.slice();
@@ -97,6 +102,8 @@ export function patchSizes(previousDeck: Deck, previous: Design, deck: Deck): Si
 function sizeEditOf(x: Statement, y: Statement): boolean {
   if (x.head.text[0]?.toLowerCase() !== 'm' || !sameItem(x.head, y.head, 0) || x.items.length !== y.items.length) return false;
   if (x.range.start.line !== y.range.start.line || x.range.end.line !== y.range.end.line) return false;
+  const modelBefore = modelWord(x);
+  const modelAfter = modelWord(y);
   let changedOnLine = -1;
   for (let k = 0; k < x.items.length; k++) {
     const p = x.items[k]!;
@@ -104,12 +111,23 @@ function sizeEditOf(x: Statement, y: Statement): boolean {
     if (sameItem(p, q, 0)) continue;
     const onChangedLine = p.range.start.line === changedOnLine && sameWords(p, q);
     if (onChangedLine) continue;
+    // another model name in the model's place (a flavour of the same polarity, checked later)
+    if (p === modelBefore && q === modelAfter && p.range.start.line === q.range.start.line && (p.range.start.character === q.range.start.character || p.range.start.line === changedOnLine)) {
+      changedOnLine = p.range.start.line;
+      continue;
+    }
     if (p.kind !== 'assign' || q.kind !== 'assign' || p.name.text !== q.name.text || !(p.name.text.toLowerCase() in SIZE_PARAMS)) return false;
     if (!isPlainNumber(p.value) || !isPlainNumber(q.value) || p.range.start.line !== q.range.start.line || p.range.end.line !== q.range.end.line) return false;
     if (p.name.range.start.character !== q.name.range.start.character && p.range.start.line !== changedOnLine) return false;
     changedOnLine = p.range.start.line;
   }
   return changedOnLine >= 0;
+}
+
+/** The model word of a MOSFET line, if it has one. */
+function modelWord(x: Statement): Item | undefined {
+  const e = interpretElement(x);
+  return e?.kind === 'mos' ? e.model : undefined;
 }
 
 function isPlainNumber(v: AssignItem['value']): boolean {
@@ -120,7 +138,7 @@ function isPlainNumber(v: AssignItem['value']): boolean {
  * The new sizes of one edited line, as the elaborator would compute them (metres, scaled), or
  * undefined when a size is not a plain number or a written length crosses the scale guess.
  */
-type Sizes = { wM?: number; lM?: number; m: number; nf: number; adM2?: number; asM2?: number; pdM?: number; psM?: number };
+type Sizes = { wM?: number; lM?: number; m: number; nf: number; adM2?: number; asM2?: number; pdM?: number; psM?: number; model: string | undefined };
 
 function sizesOf(line: EditedLine, scale: number, scaleGuessed: boolean): Sizes | undefined {
   const written = new Map<string, number>();
@@ -137,5 +155,6 @@ function sizesOf(line: EditedLine, scale: number, scaleGuessed: boolean): Sizes 
   if (scaleGuessed && written.has('l') && (before.get('l')! > MICRON_LOOKING_L) !== (written.get('l')! > MICRON_LOOKING_L)) return undefined;
   const area = (k: string) => (written.has(k) ? written.get(k)! * scale * scale : undefined);
   const len = (k: string) => (written.has(k) ? written.get(k)! * scale : undefined);
-  return { wM: len('w'), lM: len('l'), m: written.get('m') ?? written.get('mult') ?? 1, nf: written.get('nf') ?? 1, adM2: area('ad'), asM2: area('as'), pdM: len('pd'), psM: len('ps') };
+  const model = modelWord(line.after);
+  return { wM: len('w'), lM: len('l'), m: written.get('m') ?? written.get('mult') ?? 1, nf: written.get('nf') ?? 1, adM2: area('ad'), asM2: area('as'), pdM: len('pd'), psM: len('ps'), model: model?.kind === 'word' ? model.text.toLowerCase() : undefined };
 }
