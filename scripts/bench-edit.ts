@@ -21,6 +21,7 @@ async function main(): Promise<void> {
     ['a rename (a block output renamed on its instance line)', (l) => l.startsWith('Xb7 '), (l) => l.replace(' y7 ', ' y7x ')],
     ['a width in a leaf cell', (l) => l.startsWith('Mn1 y a n1'), (l) => l.replace('w=0.4u', 'w=0.42u')],
     ['the keeper length in the domino cell', (l) => l.startsWith('Mkp dyn out'), (l) => l.replace('l=0.1u', 'l=0.12u')],
+    ['the keeper swapped to the low-threshold flavour', (l) => l.startsWith('Mkp dyn out'), (l) => l.replace(' bp ', ' bpl ')],
     ['a comment line', (l) => l.startsWith('vdd '), (l) => `* supply\n${l}`],
     // a change of connectivity, rewired in the previous analysis
     RECONNECTION,

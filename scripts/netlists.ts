@@ -48,7 +48,8 @@ export function hierarchicalNetlist(transistors: number): string {
   const slices = Math.ceil(transistors / 48);
   const perBlock = 20;
   const blocks = Math.ceil(slices / perBlock);
-  const lines = ['benchmark: hierarchical datapath', '.model bn nmos level=1 vto=0.4 kp=200u', '.model bp pmos level=1 vto=-0.4 kp=80u', LEAF_CELLS, SLICE];
+  // bnl, bpl: low-threshold flavours, unused until an edit swaps a device to one
+  const lines = ['benchmark: hierarchical datapath', '.model bn nmos level=1 vto=0.4 kp=200u', '.model bp pmos level=1 vto=-0.4 kp=80u', '.model bnl nmos level=1 vto=0.3 kp=220u', '.model bpl pmos level=1 vto=-0.3 kp=90u', LEAF_CELLS, SLICE];
   lines.push('.subckt b_block ' + Array.from({ length: 4 }, (_, i) => `in${i}`).join(' ') + ' clk clkb out vdd vss');
   for (let s = 0; s < perBlock; s++) {
     const a = s === 0 ? 'in0' : `w${s - 1}`;
