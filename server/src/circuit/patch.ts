@@ -90,6 +90,9 @@ export function patchSizes(previousDeck: Deck, previous: Design, deck: Deck): Si
     changed.push(indices);
     circuits.push(mosfets ? { ...c, mosfets } : c);
   }
+  // a line whose model changed but whose devices were left out (a model with no card and no
+  // polarity) would now make devices: not a size edit
+  for (const list of byLine.values()) for (const t of list) if (!t.origin && modelWordText(t.line.before) !== t.values.model) return undefined;
   const moved = edited.map((l) => ({ file: l.file, from: l.before.range, to: l.after.range }));
   return { design: { ...previous, circuits }, changed, moved };
 }
@@ -122,6 +125,11 @@ function sizeEditOf(x: Statement, y: Statement): boolean {
     changedOnLine = p.range.start.line;
   }
   return changedOnLine >= 0;
+}
+
+function modelWordText(x: Statement): string | undefined {
+  const w = modelWord(x);
+  return w?.kind === 'word' ? w.text.toLowerCase() : undefined;
 }
 
 /** The model word of a MOSFET line, if it has one. */
