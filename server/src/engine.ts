@@ -23,7 +23,7 @@ import { sameRange } from './syntax/compare';
 import type { Range } from './core/source';
 import { runToEnd, type Steps } from './core/steps';
 import { DEFAULT_BUDGET_FRACTION, receiverBudget } from './analysis/electrical/budget';
-import { existingInverter, sameSizingBasis } from './analysis/electrical/keeper';
+import { carrySizingBasis, existingInverter, sameSizingBasis } from './analysis/electrical/keeper';
 import { FALLBACK_PROFILE_NAME, FALLBACK_SUPPLY_V } from './analysis/devices/catalogue';
 import { electricalFindings } from './findings/electricalFindings';
 import { celsiusToKelvin } from './analysis/devices/physics';
@@ -201,14 +201,15 @@ function afterRewire(previous: AnalysisResult, deck: Deck, rewired: Rewiring, op
   for (let i = 0; i < previous.circuits.length; i++) {
     const a = previous.circuits[i]!;
     const circuit = rewired.design.circuits[i]!;
-    const changed = rewired.changed[i]!;
-    const nm = circuit.mosfets.length;
-    const switches = [...changed.mosfets, ...changed.resistors.map((k) => nm + k), ...changed.inductors.map((k) => nm + circuit.resistors.length + k)];
     if (circuit === a.circuit) {
       // the edited definition is not used in this circuit: its findings stand where they are
       circuits.push({ ...a, findings: { phases: move(a.findings.phases), classification: move(a.findings.classification), electrical: move(a.findings.electrical), models: move(a.findings.models) } });
       continue;
     }
+    const changed = rewired.changed[i]!;
+    // switch indices: MOSFETs first, then resistors, then inductors (as the network lists them)
+    const nm = circuit.mosfets.length;
+    const switches = [...changed.mosfets, ...changed.resistors.map((k) => nm + k), ...changed.inductors.map((k) => nm + circuit.resistors.length + k)];
     const { network, rebuilt, previousId } = patchSwitchNetwork(a.classification.network, circuit, switches);
     // an edit in a cell used everywhere touches most of the circuit: a fresh analysis is faster
     if (rebuilt.length > rewireLimit(network.components.length)) return undefined;
@@ -216,7 +217,7 @@ function afterRewire(previous: AnalysisResult, deck: Deck, rewired: Rewiring, op
     if (!reclassified) return undefined;
     const { classification } = reclassified;
     // keeper sizing reads device sizes only, which a reconnection keeps
-    sameSizingBasis(a.circuit, circuit, []);
+    carrySizingBasis(a.circuit, circuit);
     const ctx = rewiredContext(a.electrical!, circuit, network, classification, changed);
     // what the estimates read that changed: the rebuilt groups, the gate loads and capacitors
     // that moved, and every net whose value, storage flag or results changed

@@ -7,6 +7,7 @@
 
 import type { Range } from '../core/source';
 import { movedLines } from './movedLines';
+import { DerivedMap } from '../core/overlay';
 import { DEFAULT_CLOCK_PATTERN, DEFAULT_GROUND_PATTERN, DEFAULT_SUPPLY_PATTERN, type EngineOptions } from '../core/options';
 import type { Circuit, Design, Net, Origin } from './circuit';
 import type { Deck, SubcktDefinition } from './deck';
@@ -193,23 +194,19 @@ export function renamedNodes(x: Statement, y: Statement): Array<[string, string]
  * 50,000 names was most of a rename's cost). Lookups are what every stage does with it; the
  * rarely used whole-table views are built on demand. Read-only, like every stage's output.
  */
-class RenamedNetNames extends Map<string, number> {
-  private whole: Map<string, number> | undefined;
-
+class RenamedNetNames extends DerivedMap<string, number> {
   private constructor(
     private readonly base: Map<string, number>,
     private readonly renamed: ReadonlyMap<string, string>,
     private readonly back: ReadonlyMap<string, string>,
-    private readonly depth: number,
+    depth: number,
   ) {
-    super();
+    super(depth);
   }
 
   static over(base: Map<string, number>, renamed: ReadonlyMap<string, string>, back: ReadonlyMap<string, string>): Map<string, number> {
-    const depth = base instanceof RenamedNetNames ? base.depth + 1 : 1;
-    const table = new RenamedNetNames(base, renamed, back, depth);
-    // a long chain of renames is folded into one plain table
-    return depth > 8 ? new Map(table.all()) : table;
+    const depth = base instanceof DerivedMap ? base.depth + 1 : 1;
+    return new RenamedNetNames(base, renamed, back, depth).folded();
   }
 
   override get(name: string): number | undefined {
@@ -222,41 +219,10 @@ class RenamedNetNames extends Map<string, number> {
     return this.get(name) !== undefined;
   }
 
-  private all(): Map<string, number> {
-    if (!this.whole) {
-      const m = new Map<string, number>();
-      for (const [k, v] of this.base) m.set(this.renamed.get(k) ?? k, v);
-      this.whole = m;
-    }
-    return this.whole;
-  }
-
-  override get size(): number {
-    return this.all().size;
-  }
-  override forEach(fn: (value: number, key: string, map: Map<string, number>) => void, thisArg?: unknown): void {
-    this.all().forEach((v, k) => fn.call(thisArg, v, k, this));
-  }
-  override entries(): MapIterator<[string, number]> {
-    return this.all().entries();
-  }
-  override keys(): MapIterator<string> {
-    return this.all().keys();
-  }
-  override values(): MapIterator<number> {
-    return this.all().values();
-  }
-  override [Symbol.iterator](): MapIterator<[string, number]> {
-    return this.all()[Symbol.iterator]();
-  }
-  override set(): this {
-    throw new Error('the net table of an analysed circuit is read-only');
-  }
-  override delete(): boolean {
-    throw new Error('the net table of an analysed circuit is read-only');
-  }
-  override clear(): void {
-    throw new Error('the net table of an analysed circuit is read-only');
+  protected build(): Map<string, number> {
+    const m = new Map<string, number>();
+    for (const [k, v] of this.base) m.set(this.renamed.get(k) ?? k, v);
+    return m;
   }
 }
 

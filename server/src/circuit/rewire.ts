@@ -279,8 +279,8 @@ function rewireCircuit(
       return { ...n, origin: o };
     });
   }
-  if (mosfets) originIndex.carry(mosfetIndex, mosfets, lineOf);
-  if (instances) originIndex.carry(instanceIndex, instances, lineOf);
+  if (mosfets) carryOriginIndex(mosfetIndex, mosfets, lineOf);
+  if (instances) carryOriginIndex(instanceIndex, instances, lineOf);
   const circuit: Circuit = {
     ...c,
     nets,
@@ -319,7 +319,7 @@ function originIndex(list: ReadonlyArray<{ origin: Origin }>): OriginIndex {
 }
 
 /** The index of `next` (`list` with the elements of the edited lines on moved origins). */
-originIndex.carry = (index: OriginIndex, next: ReadonlyArray<{ origin: Origin }>, onEdited: (o: Origin) => unknown): void => {
+function carryOriginIndex(index: OriginIndex, next: ReadonlyArray<{ origin: Origin }>, onEdited: (o: Origin) => unknown): void {
   const out = new Map(index);
   for (const [o, at] of index) {
     if (!onEdited(o)) continue;
@@ -332,7 +332,7 @@ originIndex.carry = (index: OriginIndex, next: ReadonlyArray<{ origin: Origin }>
     }
   }
   originIndexes.set(next, out);
-};
+}
 
 /** Positions of the elements written on an edited line, ascending. */
 function onEditedLines(index: OriginIndex, lineOf: (o: Origin) => unknown): number[] {

@@ -1,19 +1,77 @@
-// A read-only map made of an earlier map and the few entries an edit replaced or removed, so a
-// stage's result after a small edit costs what the edit changed instead of a copy of every
-// entry. Entries keep the earlier map's order (a replaced entry stays in its place); keys the
-// earlier map did not have are not taken (the caller builds a fresh map then). Chains of
-// overlays are folded into a plain map after a few edits, so lookups stay short.
+// Read-only maps made of an earlier map and what an edit changed, so a stage's result after a
+// small edit costs what the edit changed instead of a copy of every entry. Lookups read through
+// to the earlier map; the rarely walked whole map is made once, on demand. Chains of them are
+// folded into a plain map after a few edits, so lookups stay short.
 
 const MAX_DEPTH = 8;
 
-export class OverlayMap<K, V> extends Map<K, V> {
+/**
+ * The shared mechanism: a subclass answers lookups (`get`, `has`) and says how to make the whole
+ * map (`build`); walking, `size` and `forEach` read that, made once. Writes throw.
+ */
+export abstract class DerivedMap<K, V> extends Map<K, V> {
+  private whole: Map<K, V> | undefined;
+
+  protected constructor(readonly depth: number) {
+    super();
+  }
+
+  /** This map, or a plain copy of it when the chain of derived maps has grown long. */
+  protected folded(): Map<K, V> {
+    return this.depth > MAX_DEPTH ? new Map(this.all()) : this;
+  }
+
+  abstract override get(key: K): V | undefined;
+  abstract override has(key: K): boolean;
+  /** The whole map, in the order the entries are walked. */
+  protected abstract build(): Map<K, V>;
+
+  protected all(): Map<K, V> {
+    return (this.whole ??= this.build());
+  }
+
+  override get size(): number {
+    return this.all().size;
+  }
+  override entries(): MapIterator<[K, V]> {
+    return this.all().entries();
+  }
+  override keys(): MapIterator<K> {
+    return this.all().keys();
+  }
+  override values(): MapIterator<V> {
+    return this.all().values();
+  }
+  override [Symbol.iterator](): MapIterator<[K, V]> {
+    return this.all().entries();
+  }
+  override forEach(fn: (value: V, key: K, map: Map<K, V>) => void, thisArg?: unknown): void {
+    this.all().forEach((v, k) => fn.call(thisArg, v, k, this));
+  }
+  override set(): this {
+    throw new Error('an analysis result is read-only');
+  }
+  override delete(): boolean {
+    throw new Error('an analysis result is read-only');
+  }
+  override clear(): void {
+    throw new Error('an analysis result is read-only');
+  }
+}
+
+/**
+ * An earlier map with some entries replaced or removed. Entries keep the earlier map's order (a
+ * replaced entry stays in its place); keys the earlier map did not have are not taken (the
+ * caller builds a fresh map then).
+ */
+export class OverlayMap<K, V> extends DerivedMap<K, V> {
   private constructor(
     private readonly base: ReadonlyMap<K, V>,
     private readonly changes: ReadonlyMap<K, V | undefined>,
-    private readonly depth: number,
+    depth: number,
     private readonly count: number,
   ) {
-    super();
+    super(depth);
   }
 
   /**
@@ -26,9 +84,8 @@ export class OverlayMap<K, V> extends Map<K, V> {
       if (!base.has(k)) throw new Error('an overlay replaces or removes entries; it does not add them');
       if (v === undefined) removed++;
     }
-    const depth = base instanceof OverlayMap ? base.depth + 1 : 1;
-    const map = new OverlayMap(base, changes, depth, base.size - removed);
-    return depth > MAX_DEPTH ? new Map(map.all()) : map;
+    const depth = base instanceof DerivedMap ? base.depth + 1 : 1;
+    return new OverlayMap(base, changes, depth, base.size - removed).folded();
   }
 
   override get(key: K): V | undefined {
@@ -39,56 +96,21 @@ export class OverlayMap<K, V> extends Map<K, V> {
     return this.changes.has(key) ? this.changes.get(key) !== undefined : this.base.has(key);
   }
 
+  // known without making the whole map
   override get size(): number {
     return this.count;
   }
 
-  /** The whole map, made once when first walked (walking a plain map is much faster than a generator). */
-  private whole: Map<K, V> | undefined;
-
-  private all(): Map<K, V> {
-    if (!this.whole) {
-      const m = new Map<K, V>();
-      const changes = this.changes;
-      this.base.forEach((v, k) => {
-        if (!changes.has(k)) m.set(k, v);
-        else {
-          const w = changes.get(k);
-          if (w !== undefined) m.set(k, w);
-        }
-      });
-      this.whole = m;
-    }
-    return this.whole;
-  }
-
-  override entries(): MapIterator<[K, V]> {
-    return this.all().entries();
-  }
-
-  override keys(): MapIterator<K> {
-    return this.all().keys();
-  }
-
-  override values(): MapIterator<V> {
-    return this.all().values();
-  }
-
-  override [Symbol.iterator](): MapIterator<[K, V]> {
-    return this.entries();
-  }
-
-  override forEach(fn: (value: V, key: K, map: Map<K, V>) => void, thisArg?: unknown): void {
-    this.all().forEach((v, k) => fn.call(thisArg, v, k, this));
-  }
-
-  override set(): this {
-    throw new Error('an analysis result is read-only');
-  }
-  override delete(): boolean {
-    throw new Error('an analysis result is read-only');
-  }
-  override clear(): void {
-    throw new Error('an analysis result is read-only');
+  protected build(): Map<K, V> {
+    const m = new Map<K, V>();
+    const changes = this.changes;
+    this.base.forEach((v, k) => {
+      if (!changes.has(k)) m.set(k, v);
+      else {
+        const w = changes.get(k);
+        if (w !== undefined) m.set(k, w);
+      }
+    });
+    return m;
   }
 }

@@ -133,6 +133,11 @@ export function sizingBasis(c: Circuit): SizingBasis {
   return b;
 }
 
+/** `b`'s sizing basis is `a`'s (an edit that moved connections and kept every size): noted without a scan. */
+export function carrySizingBasis(a: Circuit, b: Circuit): void {
+  if (!bases.has(b)) bases.set(b, sizingBasis(a));
+}
+
 /**
  * True when `b` (which is `a` with the devices `changed` re-sized) gives every keeper the same
  * sizing basis. When no changed device was or becomes a smallest one, `b`'s basis is `a`'s and
