@@ -12,7 +12,7 @@ import { findClocks } from './phases/clocks';
 import { buildPhases, type PhasePlan } from './phases/phases';
 import { buildSwitchNetwork, patchSwitchNetwork } from './analysis/switchNetwork';
 import { classifySteps, reclassify, renameStates, type Classification } from './analysis/classify';
-import { classificationFindings } from './findings/classificationFindings';
+import { classificationFindings, reviseClassificationFindings } from './findings/classificationFindings';
 import { applyAccepts } from './findings/accepts';
 import { buildContext, rewiredContext, type ElectricalContext } from './analysis/electrical/context';
 import { estimateNodeSteps, nodesAround, nodesReading, reestimate, renameEstimates, updateEstimates, type NodeEstimate } from './analysis/electrical/estimate';
@@ -25,7 +25,7 @@ import { runToEnd, type Steps } from './core/steps';
 import { DEFAULT_BUDGET_FRACTION, receiverBudget } from './analysis/electrical/budget';
 import { carrySizingBasis, existingInverter, sameSizingBasis } from './analysis/electrical/keeper';
 import { FALLBACK_PROFILE_NAME, FALLBACK_SUPPLY_V } from './analysis/devices/catalogue';
-import { electricalFindings } from './findings/electricalFindings';
+import { electricalFindings, reviseElectricalFindings } from './findings/electricalFindings';
 import { celsiusToKelvin } from './analysis/devices/physics';
 import { diag } from './core/diagnostics';
 import { parseNetlist } from './syntax/parser';
@@ -147,11 +147,12 @@ export function reanalyse(previous: AnalysisResult, deck: Deck, options: EngineO
     const affected = nodesReading(ctx, changed);
     // keeper sizing reads the circuit's smallest devices: when those moved, every sized keeper is redone
     if (!sameSizingBasis(a.circuit, circuit, changed)) for (const [n, e] of a.estimates!) if (e.suggestedKeeper || e.suggestedHolder) affected.add(n);
-    const estimates = updateEstimates(ctx, a.estimates!, [...affected].sort((x, y) => x - y));
+    const redo = [...affected].sort((x, y) => x - y);
+    const estimates = updateEstimates(ctx, a.estimates!, redo);
     return { circuit, plan: a.plan, classification, electrical: ctx, estimates, findings: {
         phases: move(a.findings.phases),
         classification: move(a.findings.classification),
-        electrical: electricalFindings(ctx, estimates),
+        electrical: reviseElectricalFindings(ctx, estimates, a.estimates!, redo),
         // the notes name cards Tidemark cannot evaluate: the same unless an edited device has or had one
         models: changed.some((k) => a.circuit.mosfets[k]!.card?.family === 'unsupported' || circuit.mosfets[k]!.card?.family === 'unsupported') ? modelNotes(circuit) : move(a.findings.models),
       },
@@ -225,8 +226,27 @@ function afterRewire(previous: AnalysisResult, deck: Deck, rewired: Rewiring, op
     for (const id of rebuilt) for (const x of network.components[id]!.nodes) seeds.add(x);
     for (const k of changed.mosfets) seeds.add(a.circuit.mosfets[k]!.g).add(circuit.mosfets[k]!.g);
     for (const k of changed.capacitors) for (const c of [a.circuit, circuit]) seeds.add(c.capacitors[k]!.a).add(c.capacitors[k]!.b);
-    const estimates = reestimate(ctx, a.estimates!, nodesAround(ctx, seeds));
-    circuits.push({ circuit, plan: a.plan, classification, electrical: ctx, estimates, findings: { phases: move(a.findings.phases), classification: classificationFindings(circuit, classification, options), electrical: electricalFindings(ctx, estimates), models: move(a.findings.models) } });
+    const redo = nodesAround(ctx, seeds);
+    const estimates = reestimate(ctx, a.estimates!, redo);
+    // the findings of the nets whose results, gate loads or defining lines changed are redone
+    const touched = new Set<number>(reclassified.changedNets);
+    for (const k of changed.mosfets) touched.add(a.circuit.mosfets[k]!.g).add(circuit.mosfets[k]!.g);
+    for (const id of rebuilt) for (const x of network.components[id]!.nodes) touched.add(x);
+    const redoFindings = [...redo];
+    if (circuit.nets !== a.circuit.nets) {
+      for (let x = 0; x < circuit.nets.length; x++) {
+        if (circuit.nets[x]!.origin === a.circuit.nets[x]!.origin) continue;
+        touched.add(x);
+        redoFindings.push(x);
+      }
+    }
+    const findings = {
+      phases: move(a.findings.phases),
+      classification: reviseClassificationFindings(circuit, classification, a.classification, touched, options),
+      electrical: reviseElectricalFindings(ctx, estimates, a.estimates!, redoFindings),
+      models: move(a.findings.models),
+    };
+    circuits.push({ circuit, plan: a.plan, classification, electrical: ctx, estimates, findings });
   }
   return finish(deck, rewired.design, circuits, previous.frontEnd, options);
 }

@@ -29,44 +29,116 @@ function originKey(o: Circuit['nets'][number]['origin']): string {
   return k;
 }
 
-function groupByOrigin(c: Circuit, nodes: number[]): Map<string, Group> {
-  const groups = new Map<string, Group>();
-  for (const n of nodes) {
-    const key = originKey(c.nets[n]!.origin);
-    const g = groups.get(key);
-    if (g) g.count++;
-    else groups.set(key, { first: n, count: 1 });
-  }
-  return groups;
-}
-
 function instances(g: Group, c: Circuit): string {
   return g.count > 1 ? ` (${g.count} instances, e.g. ${c.nets[g.first]!.name})` : '';
 }
 
-export function classificationFindings(c: Circuit, cl: Classification, options: EngineOptions): Diagnostic[] {
-  const out: Diagnostic[] = [];
-  const net = cl.network;
-  const phases = cl.plan.phases;
-  const mos = (i: number) => c.mosfets[i]!.name;
+/** What a node contributes to this stage's findings (bits), worked out from its results alone. */
+const FLOATS = 1;
+const CONTENDS = 2;
+const UNDRIVEN = 4;
+const UNKNOWN_CLOCK = 8;
 
-  // floating storage nodes
-  const floating: number[] = [];
-  const contended: number[] = [];
-  // 1: floats in some phase, 2: contends in some phase (read from the results, in node order)
-  const seen = new Uint8Array(c.nets.length);
-  for (const m of cl.perPhase) {
-    for (const [n, r] of m) {
-      if (floatsIn(r)) seen[n]! |= 1;
-      if (r.state === 'contention') seen[n]! |= 2;
+/**
+ * Per node, what it contributes, and the nodes that contribute anything in node order: kept with
+ * each classification so an edit that changed a few nodes' results revises only theirs.
+ */
+interface NodeFacts {
+  flags: Uint8Array;
+  listed: number[];
+  clockPattern: string | undefined;
+}
+const factsOf = new WeakMap<Classification, NodeFacts>();
+
+function nodeFlags(c: Circuit, cl: Classification, n: number, clockPattern: string | undefined): number {
+  const net = cl.network;
+  let f = 0;
+  if (net.role[n] === 0 && !net.unreachable[n] && cl.storage[n]) {
+    for (const m of cl.perPhase) {
+      const r = m.get(n);
+      if (!r) continue;
+      if (floatsIn(r)) f |= FLOATS;
+      if (r.state === 'contention') f |= CONTENDS;
     }
   }
-  for (let n = 0; n < c.nets.length; n++) {
-    if (!seen[n] || net.role[n] !== 0 || net.unreachable[n] || !cl.storage[n]) continue;
-    if (seen[n]! & 1) floating.push(n);
-    if (seen[n]! & 2) contended.push(n);
+  if (net.unreachable[n] && net.drivesGate[n]) f |= clockNamed(c.nets[n]!.name, clockPattern) ? UNKNOWN_CLOCK : UNDRIVEN;
+  return f;
+}
+
+export function classificationFindings(c: Circuit, cl: Classification, options: EngineOptions): Diagnostic[] {
+  const flags = new Uint8Array(c.nets.length);
+  const pattern = options.clockNamePattern;
+  // read from the results, in node order
+  for (const m of cl.perPhase) {
+    for (const [n, r] of m) {
+      if (floatsIn(r)) flags[n]! |= FLOATS;
+      if (r.state === 'contention') flags[n]! |= CONTENDS;
+    }
   }
-  for (const g of groupByOrigin(c, floating).values()) {
+  const net = cl.network;
+  const listed: number[] = [];
+  for (let n = 0; n < c.nets.length; n++) {
+    if (flags[n] && (net.role[n] !== 0 || net.unreachable[n] || !cl.storage[n])) flags[n] = 0;
+    if (net.unreachable[n] && net.drivesGate[n]) flags[n]! |= clockNamed(c.nets[n]!.name, pattern) ? UNKNOWN_CLOCK : UNDRIVEN;
+    if (flags[n]) listed.push(n);
+  }
+  const facts: NodeFacts = { flags, listed, clockPattern: pattern };
+  factsOf.set(cl, facts);
+  return render(c, cl, facts);
+}
+
+/**
+ * The findings of `cl` from those of `previous`, the classification before an edit that changed
+ * the results, storage flags, reachability, gate loads or defining lines of the nets `touched`
+ * only: their contributions are worked out again and the rest are kept. Equal to
+ * `classificationFindings` on `cl` (the tests hold it).
+ */
+export function reviseClassificationFindings(c: Circuit, cl: Classification, previous: Classification, touched: Iterable<number>, options: EngineOptions): Diagnostic[] {
+  const before = factsOf.get(previous);
+  if (!before || before.clockPattern !== options.clockNamePattern || before.flags.length !== c.nets.length) return classificationFindings(c, cl, options);
+  const flags = before.flags.slice();
+  const added: number[] = [];
+  for (const n of touched) {
+    const f = nodeFlags(c, cl, n, options.clockNamePattern);
+    if (f && !flags[n]) added.push(n);
+    flags[n] = f;
+  }
+  added.sort((x, y) => x - y);
+  const listed: number[] = [];
+  let k = 0;
+  for (const n of before.listed) {
+    for (; k < added.length && added[k]! < n; k++) listed.push(added[k]!);
+    if (flags[n]) listed.push(n);
+  }
+  for (; k < added.length; k++) listed.push(added[k]!);
+  const facts: NodeFacts = { flags, listed, clockPattern: before.clockPattern };
+  factsOf.set(cl, facts);
+  return render(c, cl, facts);
+}
+
+/** The findings from the nodes' contributions: one per defining line and kind, led by its first node. */
+function render(c: Circuit, cl: Classification, facts: NodeFacts): Diagnostic[] {
+  const out: Diagnostic[] = [];
+  const phases = cl.plan.phases;
+  const mos = (i: number) => c.mosfets[i]!.name;
+  const floating = new Map<string, Group>();
+  const contended = new Map<string, Group>();
+  const undriven = new Map<string, Group>();
+  const unknownClocks = new Map<string, Group>();
+  const count = (groups: Map<string, Group>, key: string, n: number) => {
+    const g = groups.get(key);
+    if (g) g.count++;
+    else groups.set(key, { first: n, count: 1 });
+  };
+  for (const n of facts.listed) {
+    const f = facts.flags[n]!;
+    const key = originKey(c.nets[n]!.origin);
+    if (f & FLOATS) count(floating, key, n);
+    if (f & CONTENDS) count(contended, key, n);
+    if (f & UNDRIVEN) count(undriven, key, n);
+    if (f & UNKNOWN_CLOCK) count(unknownClocks, key, n);
+  }
+  for (const g of floating.values()) {
     const n = g.first;
     const o = c.nets[n]!.origin;
     const where: Array<{ phase: string; r: NodePhaseResult }> = [];
@@ -94,7 +166,7 @@ export function classificationFindings(c: Circuit, cl: Classification, options: 
     out.push(d);
   }
 
-  for (const g of groupByOrigin(c, contended).values()) {
+  for (const g of contended.values()) {
     const n = g.first;
     const o = c.nets[n]!.origin;
     const i = cl.perPhase.findIndex((m) => m.get(n)?.state === 'contention');
@@ -104,27 +176,20 @@ export function classificationFindings(c: Circuit, cl: Classification, options: 
     out.push(d);
   }
 
-  // undriven nets and clocks without a waveform
-  const pattern = options.clockNamePattern;
-  const undriven: number[] = [];
-  const unknownClocks: number[] = [];
-  for (let n = 0; n < c.nets.length; n++) {
-    if (!net.unreachable[n] || !net.drivesGate[n]) continue;
-    (clockNamed(c.nets[n]!.name, pattern) ? unknownClocks : undriven).push(n);
-  }
-  for (const g of groupByOrigin(c, undriven).values()) {
+  for (const g of undriven.values()) {
     const o = c.nets[g.first]!.origin;
     const d = diag('undriven-net', o.file, o.range, `${c.nets[g.first]!.name} drives transistor gates but no channel path reaches it from any supply, input or driven net (a misspelt name?)${instances(g, c)}`);
     d.node = c.nets[g.first]!.name;
     out.push(d);
   }
-  for (const g of groupByOrigin(c, unknownClocks).values()) {
+  for (const g of unknownClocks.values()) {
     const n = c.nets[g.first]!;
     const d = diag('clock-unknown', n.origin.file, n.origin.range, `${n.name} looks like a clock but has no waveform; declare it: \`* tidemark: clock ${n.name} period=1n high=0.5n\``);
     d.node = n.name;
     out.push(d);
   }
   // clock-named nets driven by a source that does not repeat
+  const pattern = facts.clockPattern;
   const clockNets = new Set(cl.plan.clocks.map((k) => k.net));
   for (const s of c.sources) {
     const n = c.nets[s.p]!;

@@ -15,27 +15,105 @@ function groupKey(c: Circuit, n: number): string {
   return `${o.file}|${o.range.start.line}|${o.range.start.character}|${o.subckt}|${o.local}`;
 }
 
+/** One finding a node raises, before findings of the same defining line are merged. */
+interface Emission {
+  key: string;
+  rule: Diagnostic['rule'];
+  severity: Diagnostic['severity'];
+  message: string;
+}
+
+/**
+ * What each node raises (nodes that raise nothing are left out), and those nodes in node order
+ * (the order the estimates are kept in): kept with each estimate map so an edit that estimated a
+ * few nodes again revises only theirs.
+ */
+interface NodeEmissions {
+  byNode: Map<number, Emission[]>;
+  listed: number[];
+  budgetV: number;
+  vddV: number;
+}
+const emissionsOf = new WeakMap<ReadonlyMap<number, NodeEstimate>, NodeEmissions>();
+
 export function electricalFindings(ctx: ElectricalContext, estimates: Map<number, NodeEstimate>): Diagnostic[] {
-  const c = ctx.circuit;
+  const byNode = new Map<number, Emission[]>();
+  const listed: number[] = [];
+  for (const e of estimates.values()) {
+    const list = nodeEmissions(ctx, e);
+    if (!list) continue;
+    byNode.set(e.node, list);
+    listed.push(e.node);
+  }
+  const state: NodeEmissions = { byNode, listed, budgetV: ctx.budgetV, vddV: ctx.vddV };
+  emissionsOf.set(estimates, state);
+  return render(ctx.circuit, state);
+}
+
+/**
+ * The findings of `estimates` from those of `previous`, the estimates before an edit that
+ * estimated again (or moved the defining lines of) the nodes `touched` only, every other node
+ * keeping its estimate object. Equal to `electricalFindings` on `estimates` (the tests hold it).
+ */
+export function reviseElectricalFindings(ctx: ElectricalContext, estimates: Map<number, NodeEstimate>, previous: ReadonlyMap<number, NodeEstimate>, touched: Iterable<number>): Diagnostic[] {
+  const before = emissionsOf.get(previous);
+  if (!before || before.budgetV !== ctx.budgetV || before.vddV !== ctx.vddV) return electricalFindings(ctx, estimates);
+  const byNode = new Map(before.byNode);
+  const added: number[] = [];
+  for (const n of touched) {
+    const e = estimates.get(n);
+    const list = e && nodeEmissions(ctx, e);
+    if (list) {
+      if (!byNode.has(n)) added.push(n);
+      byNode.set(n, list);
+    } else byNode.delete(n);
+  }
+  added.sort((x, y) => x - y);
+  const listed: number[] = [];
+  let k = 0;
+  for (const n of before.listed) {
+    for (; k < added.length && added[k]! < n; k++) listed.push(added[k]!);
+    if (byNode.has(n)) listed.push(n);
+  }
+  for (; k < added.length; k++) listed.push(added[k]!);
+  const state: NodeEmissions = { byNode, listed, budgetV: before.budgetV, vddV: before.vddV };
+  emissionsOf.set(estimates, state);
+  return render(ctx.circuit, state);
+}
+
+/** One finding per rule and defining line, placed on its first node, with the count of the rest. */
+function render(c: Circuit, state: NodeEmissions): Diagnostic[] {
   const out: Diagnostic[] = [];
   const seen = new Map<string, { d: Diagnostic; count: number }>();
-  const emit = (n: number, rule: Diagnostic['rule'], severity: Diagnostic['severity'], message: string, variant = '') => {
-    const key = `${rule}|${variant}|${groupKey(c, n)}`;
-    const prior = seen.get(key);
-    if (prior) {
-      prior.count++;
-      return;
+  for (const n of state.listed) {
+    for (const x of state.byNode.get(n)!) {
+      const prior = seen.get(x.key);
+      if (prior) {
+        prior.count++;
+        continue;
+      }
+      const o = c.nets[n]!.origin;
+      const d = diag(x.rule, o.file, o.range, x.message, x.severity);
+      d.node = c.nets[n]!.name;
+      seen.set(x.key, { d, count: 1 });
+      out.push(d);
     }
-    const o = c.nets[n]!.origin;
-    const d = diag(rule, o.file, o.range, message, severity);
-    d.node = c.nets[n]!.name;
-    seen.set(key, { d, count: 1 });
-    out.push(d);
+  }
+  for (const { d, count } of seen.values()) if (count > 1) d.message += ` (${count} instances)`;
+  return out;
+}
+
+/** The findings one node's estimate raises, or undefined for none. */
+function nodeEmissions(ctx: ElectricalContext, e: NodeEstimate): Emission[] | undefined {
+  if (!e.storage) return undefined;
+  const c = ctx.circuit;
+  let out: Emission[] | undefined;
+  const emit = (n: number, rule: Diagnostic['rule'], severity: Diagnostic['severity'], message: string, variant = '') => {
+    (out ??= []).push({ key: `${rule}|${variant}|${groupKey(c, n)}`, rule, severity, message });
   };
   const budget = ctx.budgetV;
   const b = formatEng(budget, 'V');
-  for (const e of estimates.values()) {
-    if (!e.storage) continue;
+  {
     const name = c.nets[e.node]!.name;
     const primary = e.stored.find((s) => s.level === e.primaryLevel)!;
     const window = e.floatWindowS;
@@ -93,6 +171,5 @@ export function electricalFindings(ctx: ElectricalContext, estimates: Map<number
       }
     }
   }
-  for (const { d, count } of seen.values()) if (count > 1) d.message += ` (${count} instances)`;
   return out;
 }
