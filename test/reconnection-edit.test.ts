@@ -2,7 +2,8 @@
 // `reclassify`, estimate `reestimate`, engine `reanalyse`): after a node word of an element
 // line is changed to another net of its scope, the analysis built from the previous one must
 // equal a fresh analysis of the new text, finding for finding and figure for figure, and the
-// patched switch network must equal a fresh build. Random reconnections over every sample and
+// patched switch network must equal a fresh build, and each stage's findings, revised from the
+// previous ones, those written afresh from the same results. Random reconnections over every sample and
 // a generated hierarchical datapath, one and two in a row.
 
 import * as fs from 'node:fs';
@@ -12,6 +13,8 @@ import { describe, expect, it } from 'vitest';
 import { analyse, readDeck, reanalyse, type AnalysisResult } from '../server/src/engine';
 import { memoryHost, type FileHost } from '../server/src/core/host';
 import { buildSwitchNetwork, type SwitchNetwork } from '../server/src/analysis/switchNetwork';
+import { classificationFindings } from '../server/src/findings/classificationFindings';
+import { electricalFindings } from '../server/src/findings/electricalFindings';
 import { overlay, report } from './support/edits';
 import { reconnect } from './support/reconnect';
 import { hierarchicalNetlist } from '../scripts/netlists';
@@ -37,6 +40,9 @@ function same(file: string, fast: AnalysisResult, full: AnalysisResult): void {
     const counts = (c: AnalysisResult['circuits'][number]) => [c.classification.wideComponents, c.classification.uncheckedComponents];
     expect(counts(a)).toEqual(counts(full.circuits[i]!));
     expect(text(a.classification.phaseValues)).toBe(text(full.circuits[i]!.classification.phaseValues));
+    // each stage's revised findings against that stage's findings written afresh from the same results
+    expect(text(a.findings.classification)).toBe(text(classificationFindings(a.circuit, a.classification, {})));
+    expect(text(a.findings.electrical)).toBe(text(electricalFindings(a.electrical!, a.estimates!)));
   });
 }
 

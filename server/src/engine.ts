@@ -193,7 +193,7 @@ function rewireLimit(groups: number): number {
  * After a reconnection (circuit/rewire.ts): the same nets, some devices on other ones. The
  * network is rebuilt around the moved devices, the values and the classification around the
  * groups that changed, and the estimates of the nodes near anything that changed; the findings
- * are written again. Undefined when a stage cannot be patched (the caller analyses afresh).
+ * of the nets whose results or estimates changed are worked out again and merged with the rest. Undefined when a stage cannot be patched (the caller analyses afresh).
  */
 function afterRewire(previous: AnalysisResult, deck: Deck, rewired: Rewiring, options: EngineOptions): AnalysisResult | undefined {
   if (previous.frontEnd.some((d) => onEditedLine(d, rewired.moved))) return undefined;
