@@ -228,22 +228,15 @@ function afterRewire(previous: AnalysisResult, deck: Deck, rewired: Rewiring, op
     for (const k of changed.capacitors) for (const c of [a.circuit, circuit]) seeds.add(c.capacitors[k]!.a).add(c.capacitors[k]!.b);
     const redo = nodesAround(ctx, seeds);
     const estimates = reestimate(ctx, a.estimates!, redo);
-    // the findings of the nets whose results, gate loads or defining lines changed are redone
+    // the findings' facts of the nets whose results or gate loads changed are redone (the
+    // defining lines are read when the findings are merged)
     const touched = new Set<number>(reclassified.changedNets);
     for (const k of changed.mosfets) touched.add(a.circuit.mosfets[k]!.g).add(circuit.mosfets[k]!.g);
     for (const id of rebuilt) for (const x of network.components[id]!.nodes) touched.add(x);
-    const redoFindings = [...redo];
-    if (circuit.nets !== a.circuit.nets) {
-      for (let x = 0; x < circuit.nets.length; x++) {
-        if (circuit.nets[x]!.origin === a.circuit.nets[x]!.origin) continue;
-        touched.add(x);
-        redoFindings.push(x);
-      }
-    }
     const findings = {
       phases: move(a.findings.phases),
       classification: reviseClassificationFindings(circuit, classification, a.classification, touched, options),
-      electrical: reviseElectricalFindings(ctx, estimates, a.estimates!, redoFindings),
+      electrical: reviseElectricalFindings(ctx, estimates, a.estimates!, redo),
       models: move(a.findings.models),
     };
     circuits.push({ circuit, plan: a.plan, classification, electrical: ctx, estimates, findings });

@@ -23,7 +23,7 @@ interface Group {
 
 /** The defining line of a net, as text; worked out once per origin (every instance shares it). */
 const originKeys = new WeakMap<object, string>();
-function originKey(o: Circuit['nets'][number]['origin']): string {
+export function originKey(o: Circuit['nets'][number]['origin']): string {
   let k = originKeys.get(o);
   if (k === undefined) originKeys.set(o, (k = `${o.file}|${o.range.start.line}|${o.range.start.character}|${o.subckt}|${o.local}`));
   return k;

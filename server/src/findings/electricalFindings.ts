@@ -7,17 +7,14 @@ import { diag, type Diagnostic } from '../core/diagnostics';
 import type { NodeEstimate } from '../analysis/electrical/estimate';
 import type { ElectricalContext } from '../analysis/electrical/context';
 import { KEEPER_RATIO_MAX } from '../analysis/electrical/keeper';
+import { originKey } from './classificationFindings';
 
 const KEEPER_WEAK_MARGIN = 2;
 
-function groupKey(c: Circuit, n: number): string {
-  const o = c.nets[n]!.origin;
-  return `${o.file}|${o.range.start.line}|${o.range.start.character}|${o.subckt}|${o.local}`;
-}
-
 /** One finding a node raises, before findings of the same defining line are merged. */
 interface Emission {
-  key: string;
+  /** Tells apart two findings of one rule on one node (keeper-weak: leakage, sharing). */
+  variant: string;
   rule: Diagnostic['rule'];
   severity: Diagnostic['severity'];
   message: string;
@@ -52,7 +49,7 @@ export function electricalFindings(ctx: ElectricalContext, estimates: Map<number
 
 /**
  * The findings of `estimates` from those of `previous`, the estimates before an edit that
- * estimated again (or moved the defining lines of) the nodes `touched` only, every other node
+ * estimated again the nodes `touched` only, every other node
  * keeping its estimate object. Equal to `electricalFindings` on `estimates` (the tests hold it).
  */
 export function reviseElectricalFindings(ctx: ElectricalContext, estimates: Map<number, NodeEstimate>, previous: ReadonlyMap<number, NodeEstimate>, touched: Iterable<number>): Diagnostic[] {
@@ -86,8 +83,10 @@ function render(c: Circuit, state: NodeEmissions): Diagnostic[] {
   const out: Diagnostic[] = [];
   const seen = new Map<string, { d: Diagnostic; count: number }>();
   for (const n of state.listed) {
+    const line = originKey(c.nets[n]!.origin);
     for (const x of state.byNode.get(n)!) {
-      const prior = seen.get(x.key);
+      const key = `${x.rule}|${x.variant}|${line}`;
+      const prior = seen.get(key);
       if (prior) {
         prior.count++;
         continue;
@@ -95,7 +94,7 @@ function render(c: Circuit, state: NodeEmissions): Diagnostic[] {
       const o = c.nets[n]!.origin;
       const d = diag(x.rule, o.file, o.range, x.message, x.severity);
       d.node = c.nets[n]!.name;
-      seen.set(x.key, { d, count: 1 });
+      seen.set(key, { d, count: 1 });
       out.push(d);
     }
   }
@@ -108,8 +107,8 @@ function nodeEmissions(ctx: ElectricalContext, e: NodeEstimate): Emission[] | un
   if (!e.storage) return undefined;
   const c = ctx.circuit;
   let out: Emission[] | undefined;
-  const emit = (n: number, rule: Diagnostic['rule'], severity: Diagnostic['severity'], message: string, variant = '') => {
-    (out ??= []).push({ key: `${rule}|${variant}|${groupKey(c, n)}`, rule, severity, message });
+  const emit = (rule: Diagnostic['rule'], severity: Diagnostic['severity'], message: string, variant = '') => {
+    (out ??= []).push({ variant, rule, severity, message });
   };
   const budget = ctx.budgetV;
   const b = formatEng(budget, 'V');
@@ -130,7 +129,6 @@ function nodeEmissions(ctx: ElectricalContext, e: NodeEstimate): Emission[] | un
           const who = top ? `, mostly ${c.mosfets[e.devices[top.pos]!]!.name} (${top.mechanism})` : '';
           const w = Number.isFinite(window) ? `its float window of ${formatEng(window, 's')}` : 'the time it floats (it is never restored)';
           emit(
-            e.node,
             'retention-short',
             ratio < 1 ? 'error' : 'warning',
             `${name} holding ${e.primaryLevel}: at ${k.tempC} C it leaks ${formatEng(k.leakageA, 'A')}${who} and droops by the ${b} budget in ${formatEng(k.retentionS, 's')}, ${ratio < 1 ? 'shorter than' : 'less than 3x'} ${w} (C = ${capOf()}; phase ${primary.phase})`,
@@ -142,12 +140,12 @@ function nodeEmissions(ctx: ElectricalContext, e: NodeEstimate): Emission[] | un
     const share = e.chargeSharing?.droopV ?? 0;
     if (share > budget) {
       const when = Object.entries(e.chargeSharing!.when).map(([k, v]) => `${k}=${v}`).join(' ');
-      emit(e.node, 'charge-sharing', share > 2 * budget ? 'error' : 'warning', `${name}: charge sharing with ${e.chargeSharing!.joined.map((j) => c.nets[j]!.name).join(', ')} (${formatEng(e.chargeSharing!.sharedF, 'F')} against ${capOf()}) when ${when} droops it by ${formatEng(share, 'V')}, over the ${b} budget`);
+      emit('charge-sharing', share > 2 * budget ? 'error' : 'warning', `${name}: charge sharing with ${e.chargeSharing!.joined.map((j) => c.nets[j]!.name).join(', ')} (${formatEng(e.chargeSharing!.sharedF, 'F')} against ${capOf()}) when ${when} droops it by ${formatEng(share, 'V')}, over the ${b} budget`);
     }
     const coup = e.coupling.droopV;
     if (coup > budget) {
       const top = e.coupling.aggressors.slice(0, 3).map((a) => `${a.net} (${formatEng(a.capacitanceF, 'F')}, ${a.via})`).join(', ');
-      emit(e.node, 'coupling-noise', coup > 2 * budget ? 'error' : 'warning', `${name}: coupling from ${top} can move it by ${formatEng(coup, 'V')}, over the ${b} budget`);
+      emit('coupling-noise', coup > 2 * budget ? 'error' : 'warning', `${name}: coupling from ${top} can move it by ${formatEng(coup, 'V')}, over the ${b} budget`);
     }
     // all mechanisms together, over the float window at the hot corner
     const hot = primary.corners.reduce((x, y) => (y.tempC > x.tempC ? y : x));
@@ -155,19 +153,19 @@ function nodeEmissions(ctx: ElectricalContext, e: NodeEstimate): Emission[] | un
     const total = leakDroop + share + coup;
     if (total > budget && leakDroop <= budget && share <= budget && coup <= budget && !(hot.retentionS !== null && window !== null && hot.retentionS < window)) {
       const parts = [leakDroop > 0 ? `leakage (${formatEng(leakDroop, 'V')} over ${formatEng(window ?? 0, 's')} at ${hot.tempC} C)` : '', share > 0 ? `charge sharing (${formatEng(share, 'V')})` : '', coup > 0 ? `coupling (${formatEng(coup, 'V')})` : ''].filter(Boolean);
-      emit(e.node, 'combined-droop', 'warning', `${name}: ${parts.join(', ')} together move it by ${formatEng(total, 'V')}, over the ${b} budget`);
+      emit('combined-droop', 'warning', `${name}: ${parts.join(', ')} together move it by ${formatEng(total, 'V')}, over the ${b} budget`);
     }
     if (e.keeper) {
       const k = e.keeper;
       const kname = c.mosfets[k.devices[0]!]!.name;
       if (k.holdCurrentA < KEEPER_WEAK_MARGIN * k.hotLeakageA) {
-        emit(e.node, 'keeper-weak', k.holdCurrentA < k.hotLeakageA ? 'error' : 'warning', `${name}: keeper ${kname} supplies ${formatEng(k.holdCurrentA, 'A')} at the ${b} droop, against ${formatEng(k.hotLeakageA, 'A')} of hot-corner leakage (want at least ${KEEPER_WEAK_MARGIN}x)`);
+        emit('keeper-weak', k.holdCurrentA < k.hotLeakageA ? 'error' : 'warning', `${name}: keeper ${kname} supplies ${formatEng(k.holdCurrentA, 'A')} at the ${b} droop, against ${formatEng(k.hotLeakageA, 'A')} of hot-corner leakage (want at least ${KEEPER_WEAK_MARGIN}x)`);
       }
       if (share > budget) {
-        emit(e.node, 'keeper-weak', 'warning', `${name}: keeper ${kname} cannot stop charge sharing with ${e.chargeSharing!.joined.map((j) => c.nets[j]!.name).join(', ')} from drooping it by ${formatEng(share, 'V')} (budget ${b}); precharge the internal node or reorder the stack`, 'sharing');
+        emit('keeper-weak', 'warning', `${name}: keeper ${kname} cannot stop charge sharing with ${e.chargeSharing!.joined.map((j) => c.nets[j]!.name).join(', ')} from drooping it by ${formatEng(share, 'V')} (budget ${b}); precharge the internal node or reorder the stack`, 'sharing');
       }
       if (k.ratio > KEEPER_RATIO_MAX) {
-        emit(e.node, 'keeper-strong', k.ratio > 2 * KEEPER_RATIO_MAX ? 'error' : 'warning', `${name}: keeper ${kname} is ${k.ratio.toFixed(2)}x as strong as ${k.against.map((i) => c.mosfets[i]!.name).join(' + ')} (common practice at most ${KEEPER_RATIO_MAX})`);
+        emit('keeper-strong', k.ratio > 2 * KEEPER_RATIO_MAX ? 'error' : 'warning', `${name}: keeper ${kname} is ${k.ratio.toFixed(2)}x as strong as ${k.against.map((i) => c.mosfets[i]!.name).join(' + ')} (common practice at most ${KEEPER_RATIO_MAX})`);
       }
     }
   }
