@@ -193,7 +193,8 @@ function rewireLimit(groups: number): number {
  * After a reconnection (circuit/rewire.ts): the same nets, some devices on other ones. The
  * network is rebuilt around the moved devices, the values and the classification around the
  * groups that changed, and the estimates of the nodes near anything that changed; the findings
- * of the nets whose results or estimates changed are worked out again and merged with the rest. Undefined when a stage cannot be patched (the caller analyses afresh).
+ * of the nets whose results or estimates changed are worked out again and merged with the
+ * rest. Undefined when a stage cannot be patched (the caller analyses afresh).
  */
 function afterRewire(previous: AnalysisResult, deck: Deck, rewired: Rewiring, options: EngineOptions): AnalysisResult | undefined {
   if (previous.frontEnd.some((d) => onEditedLine(d, rewired.moved))) return undefined;
@@ -220,19 +221,16 @@ function afterRewire(previous: AnalysisResult, deck: Deck, rewired: Rewiring, op
     // keeper sizing reads device sizes only, which a reconnection keeps
     carrySizingBasis(a.circuit, circuit);
     const ctx = rewiredContext(a.electrical!, circuit, network, classification, changed);
-    // what the estimates read that changed: the rebuilt groups, the gate loads and capacitors
-    // that moved, and every net whose value, storage flag or results changed
-    const seeds = new Set<number>(reclassified.changedNets);
+    // what the classification's findings read that changed: every net whose value, storage
+    // flag or results changed, and the gates of the moved devices (their gate loads)
+    const touched = new Set<number>(reclassified.changedNets);
+    for (const k of changed.mosfets) touched.add(a.circuit.mosfets[k]!.g).add(circuit.mosfets[k]!.g);
+    // what the estimates read that changed: that, the rebuilt groups and the moved capacitors
+    const seeds = new Set<number>(touched);
     for (const id of rebuilt) for (const x of network.components[id]!.nodes) seeds.add(x);
-    for (const k of changed.mosfets) seeds.add(a.circuit.mosfets[k]!.g).add(circuit.mosfets[k]!.g);
     for (const k of changed.capacitors) for (const c of [a.circuit, circuit]) seeds.add(c.capacitors[k]!.a).add(c.capacitors[k]!.b);
     const redo = nodesAround(ctx, seeds);
     const estimates = reestimate(ctx, a.estimates!, redo);
-    // the findings' facts of the nets whose results or gate loads changed are redone (the
-    // defining lines are read when the findings are merged)
-    const touched = new Set<number>(reclassified.changedNets);
-    for (const k of changed.mosfets) touched.add(a.circuit.mosfets[k]!.g).add(circuit.mosfets[k]!.g);
-    for (const id of rebuilt) for (const x of network.components[id]!.nodes) touched.add(x);
     const findings = {
       phases: move(a.findings.phases),
       classification: reviseClassificationFindings(circuit, classification, a.classification, touched, options),

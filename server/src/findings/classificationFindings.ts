@@ -10,6 +10,7 @@ import { floatsIn, nodeFloatWindow } from '../analysis/classify';
 import { clockNamed } from '../phases/clocks';
 import { periodicHigh } from '../phases/clocks';
 import type { EngineOptions } from '../core/options';
+import { originKey, revisedNodes } from './perNode';
 
 function describeWhen(w: Record<string, 0 | 1> | undefined): string {
   if (!w || Object.keys(w).length === 0) return '';
@@ -19,14 +20,6 @@ function describeWhen(w: Record<string, 0 | 1> | undefined): string {
 interface Group {
   first: number;
   count: number;
-}
-
-/** The defining line of a net, as text; worked out once per origin (every instance shares it). */
-const originKeys = new WeakMap<object, string>();
-export function originKey(o: Circuit['nets'][number]['origin']): string {
-  let k = originKeys.get(o);
-  if (k === undefined) originKeys.set(o, (k = `${o.file}|${o.range.start.line}|${o.range.start.character}|${o.subckt}|${o.local}`));
-  return k;
 }
 
 function instances(g: Group, c: Circuit): string {
@@ -67,30 +60,20 @@ function nodeFlags(c: Circuit, cl: Classification, n: number, clockPattern: stri
 
 export function classificationFindings(c: Circuit, cl: Classification, options: EngineOptions): Diagnostic[] {
   const flags = new Uint8Array(c.nets.length);
-  const pattern = options.clockNamePattern;
-  // read from the results, in node order
-  for (const m of cl.perPhase) {
-    for (const [n, r] of m) {
-      if (floatsIn(r)) flags[n]! |= FLOATS;
-      if (r.state === 'contention') flags[n]! |= CONTENDS;
-    }
-  }
-  const net = cl.network;
   const listed: number[] = [];
   for (let n = 0; n < c.nets.length; n++) {
-    if (flags[n] && (net.role[n] !== 0 || net.unreachable[n] || !cl.storage[n])) flags[n] = 0;
-    if (net.unreachable[n] && net.drivesGate[n]) flags[n]! |= clockNamed(c.nets[n]!.name, pattern) ? UNKNOWN_CLOCK : UNDRIVEN;
+    flags[n] = nodeFlags(c, cl, n, options.clockNamePattern);
     if (flags[n]) listed.push(n);
   }
-  const facts: NodeFacts = { flags, listed, clockPattern: pattern };
+  const facts: NodeFacts = { flags, listed, clockPattern: options.clockNamePattern };
   factsOf.set(cl, facts);
   return render(c, cl, facts);
 }
 
 /**
  * The findings of `cl` from those of `previous`, the classification before an edit that changed
- * the results, storage flags, reachability, gate loads or defining lines of the nets `touched`
- * only: their contributions are worked out again and the rest are kept. Equal to
+ * the results, storage flags, reachability or gate loads of the nets `touched` only: their
+ * contributions are worked out again and the rest are kept. Equal to
  * `classificationFindings` on `cl` (the tests hold it).
  */
 export function reviseClassificationFindings(c: Circuit, cl: Classification, previous: Classification, touched: Iterable<number>, options: EngineOptions): Diagnostic[] {
@@ -104,14 +87,7 @@ export function reviseClassificationFindings(c: Circuit, cl: Classification, pre
     flags[n] = f;
   }
   added.sort((x, y) => x - y);
-  const listed: number[] = [];
-  let k = 0;
-  for (const n of before.listed) {
-    for (; k < added.length && added[k]! < n; k++) listed.push(added[k]!);
-    if (flags[n]) listed.push(n);
-  }
-  for (; k < added.length; k++) listed.push(added[k]!);
-  const facts: NodeFacts = { flags, listed, clockPattern: before.clockPattern };
+  const facts: NodeFacts = { flags, listed: revisedNodes(before.listed, added, (n) => flags[n] !== 0), clockPattern: before.clockPattern };
   factsOf.set(cl, facts);
   return render(c, cl, facts);
 }
