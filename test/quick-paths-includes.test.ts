@@ -1,12 +1,13 @@
-// The quick paths when the edit is in an included file: a comment, a size, a rename and a
-// reconnection in the cells file a top netlist includes, each equal to a fresh analysis of the
-// edited pair of files.
+// The quick paths when the edit is in an included file: a comment, a size, a rename, a
+// reconnection and a device added and deleted in the cells file a top netlist includes, each
+// equal to a fresh analysis of the edited pair of files.
 
 import { describe, expect, it } from 'vitest';
 import { analyse, readDeck, reanalyse } from '../server/src/engine';
 import { memoryHost } from '../server/src/core/host';
 import { carryOver } from '../server/src/service/carryOver';
 import { report } from './support/edits';
+import { same } from './support/sameAnalysis';
 import { CELLS_INC, topIncludingCells } from './support/included';
 
 const CELLS = CELLS_INC;
@@ -44,9 +45,18 @@ describe('quick paths for an edit in an included file', () => {
     expect(JSON.parse(JSON.stringify(fast!.diagnostics))).toEqual(JSON.parse(JSON.stringify(full.diagnostics)));
     expect(report('/t/top.sp', fast!)).toEqual(report('/t/top.sp', full));
   });
-  it('a device added in the cells file is not a quick edit', () => {
+  it('a device added in the cells file, then deleted: spliced into the previous analysis, equal to a fresh one', () => {
     const cells = CELLS.replace('Mnb n1 b foot', 'Mextra n1 b vss vss tn w=0.2u l=0.05u\nMnb n1 b foot');
     expect(cells).not.toBe(CELLS);
+    const fast = reanalyse(before, readDeck(host(cells), '/t/top.sp'));
+    expect(fast).toBeDefined();
+    same('/t/top.sp', fast!, analyse(host(cells), '/t/top.sp'));
+    const back = reanalyse(fast!, readDeck(host(CELLS), '/t/top.sp'));
+    expect(back).toBeDefined();
+    same('/t/top.sp', back!, before);
+  });
+  it('a device whose model has no card is not spliced (its finding counts the devices)', () => {
+    const cells = CELLS.replace('Mnb n1 b foot', 'Mextra n1 b vss vss nomodel w=0.2u l=0.05u\nMnb n1 b foot');
     expect(reanalyse(before, readDeck(host(cells), '/t/top.sp'))).toBeUndefined();
   });
 });

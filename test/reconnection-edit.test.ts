@@ -10,41 +10,14 @@ import * as fs from 'node:fs';
 import * as path from 'node:path';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { analyse, readDeck, reanalyse, type AnalysisResult } from '../server/src/engine';
+import { analyse, readDeck, reanalyse } from '../server/src/engine';
 import { memoryHost, type FileHost } from '../server/src/core/host';
-import { buildSwitchNetwork, type SwitchNetwork } from '../server/src/analysis/switchNetwork';
-import { classificationFindings } from '../server/src/findings/classificationFindings';
-import { electricalFindings } from '../server/src/findings/electricalFindings';
-import { overlay, report } from './support/edits';
+import { overlay } from './support/edits';
+import { same } from './support/sameAnalysis';
 import { reconnect } from './support/reconnect';
 import { hierarchicalNetlist } from '../scripts/netlists';
 
 const SAMPLES = path.join(__dirname, '..', 'samples');
-
-function same(file: string, fast: AnalysisResult, full: AnalysisResult): void {
-  expect(JSON.parse(JSON.stringify(fast.diagnostics))).toEqual(JSON.parse(JSON.stringify(full.diagnostics)));
-  expect(report(file, fast)).toEqual(report(file, full));
-  // the patched network field for field against a fresh build (as text: much faster to compare)
-  const text = (x: unknown) => JSON.stringify(x, (_, v) => (ArrayBuffer.isView(v) ? Array.from(v as Uint8Array) : v));
-  fast.circuits.forEach((a, i) => {
-    const fresh = buildSwitchNetwork(a.circuit, a.plan.clocks);
-    const net = a.classification.network;
-    for (const k of ['switches', 'unreachable', 'drivesGate', 'role'] as const) expect(text(net[k]), k).toBe(text(fresh[k]));
-    // groups named by their first net (the patch keeps ids where a fresh build renumbers)
-    const byFirstNet = (x: SwitchNetwork) => {
-      const first = (id: number) => x.components[id]!.nodes[0]!;
-      const groups = x.components.filter((g) => g.nodes.length).sort((p, q) => p.nodes[0]! - q.nodes[0]!).map((g) => [g.nodes, g.switches, g.gates]);
-      return { groups, componentOf: Array.from(x.componentOf, (id) => (id < 0 ? -1 : first(id))), gated: x.gatedComponents.map((l) => l.map(first)) };
-    };
-    expect(text(byFirstNet(net))).toBe(text(byFirstNet(fresh)));
-    const counts = (c: AnalysisResult['circuits'][number]) => [c.classification.wideComponents, c.classification.uncheckedComponents];
-    expect(counts(a)).toEqual(counts(full.circuits[i]!));
-    expect(text(a.classification.phaseValues)).toBe(text(full.circuits[i]!.classification.phaseValues));
-    // each stage's revised findings against that stage's findings written afresh from the same results
-    expect(text(a.findings.classification)).toBe(text(classificationFindings(a.circuit, a.classification, {})));
-    expect(text(a.findings.electrical)).toBe(text(electricalFindings(a.electrical!, a.estimates!)));
-  });
-}
 
 function check(file: string, original: string, hostFor: (t: string) => FileHost, runs: number): number {
   const before = analyse(hostFor(original), file);

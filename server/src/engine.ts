@@ -11,19 +11,20 @@ import type { Circuit, Design } from './circuit/circuit';
 import { findClocks } from './phases/clocks';
 import { buildPhases, type PhasePlan } from './phases/phases';
 import { buildSwitchNetwork, patchSwitchNetwork } from './analysis/switchNetwork';
-import { classifySteps, reclassify, renameStates, type Classification } from './analysis/classify';
+import { classifySteps, reclassify, renameStates, renumberDevices, type Classification } from './analysis/classify';
 import { classificationFindings, reviseClassificationFindings } from './findings/classificationFindings';
 import { applyAccepts } from './findings/accepts';
-import { buildContext, rewiredContext, type ElectricalContext } from './analysis/electrical/context';
-import { estimateNodeSteps, nodesAround, nodesReading, reestimate, renameEstimates, updateEstimates, type NodeEstimate } from './analysis/electrical/estimate';
+import { buildContext, renumberedContext, rewiredContext, type ElectricalContext } from './analysis/electrical/context';
+import { estimateNodeSteps, nodesAround, nodesReading, reestimate, renameEstimates, renumberEstimates, updateEstimates, type NodeEstimate } from './analysis/electrical/estimate';
 import { patchSizes } from './circuit/patch';
 import { renameNets, type NetRename } from './circuit/rename';
 import { rewireNets, type Rewiring } from './circuit/rewire';
+import { shiftDiagnostics, spliceDevices, type DeviceSplice } from './circuit/splice';
 import { sameRange } from './syntax/compare';
 import type { Range } from './core/source';
 import { runToEnd, type Steps } from './core/steps';
 import { DEFAULT_BUDGET_FRACTION, receiverBudget } from './analysis/electrical/budget';
-import { carrySizingBasis, existingInverter, sameSizingBasis } from './analysis/electrical/keeper';
+import { carrySizingBasis, existingInverter, sameSizingBasis, sameSizingBasisRenumbered } from './analysis/electrical/keeper';
 import { FALLBACK_PROFILE_NAME, FALLBACK_SUPPLY_V } from './analysis/devices/catalogue';
 import { electricalFindings, reviseElectricalFindings } from './findings/electricalFindings';
 import { celsiusToKelvin } from './analysis/devices/physics';
@@ -131,8 +132,11 @@ export function reanalyse(previous: AnalysisResult, deck: Deck, options: EngineO
   if (renamed) return afterRename(previous, deck, renamed, options);
   const patch = patchSizes(previous.deck, previous.design, deck);
   if (!patch) {
-    const rewired = rewireNets(previous.deck, previous.design, deck, (i) => rewireLimit(previous.circuits[i]!.classification.network.components.length));
-    return rewired && afterRewire(previous, deck, rewired, options);
+    const limit = (i: number) => rewireLimit(previous.circuits[i]!.classification.network.components.length);
+    const rewired = rewireNets(previous.deck, previous.design, deck, limit);
+    if (rewired) return afterRewire(previous, deck, rewired, options);
+    const spliced = spliceDevices(previous.deck, previous.design, deck, limit);
+    return spliced && afterSplice(previous, deck, spliced, options);
   }
   // a front-end finding on an edited line may change with it (a parameter, a bin, the scale)
   if (previous.frontEnd.some((d) => onEditedLine(d, patch.moved))) return undefined;
@@ -242,6 +246,72 @@ function afterRewire(previous: AnalysisResult, deck: Deck, rewired: Rewiring, op
   return finish(deck, rewired.design, circuits, previous.frontEnd, options);
 }
 
+/**
+ * After transistor lines were added or deleted (circuit/splice.ts): the same nets, devices put
+ * in or taken out, the MOSFETs after them renumbered and every line after the edit moved. The
+ * previous results are renumbered, then patched as after a reconnection: the network around
+ * the added and deleted devices, the classification around the groups that changed, the
+ * estimates of the nodes near anything that changed, the findings of those nodes. Undefined
+ * when a stage cannot be patched (the caller analyses afresh).
+ */
+function afterSplice(previous: AnalysisResult, deck: Deck, sp: DeviceSplice, options: EngineOptions): AnalysisResult | undefined {
+  const gone = sp.removedLines;
+  const onRemoved = (d: Diagnostic) => gone !== undefined && d.file === gone.file && d.range.start.line >= gone.from && d.range.start.line <= gone.to;
+  // findings that count devices, quote line numbers or stand on a deleted line are not moved
+  if (previous.frontEnd.some((d) => onRemoved(d) || d.rule === 'duplicate-definition' || d.rule === 'geometry-scale')) return undefined;
+  if (JSON.stringify(shiftDiagnostics(previous.deck.diagnostics, sp.shift)) !== JSON.stringify(deck.diagnostics)) return undefined;
+  const move = (list: Diagnostic[]) => shiftDiagnostics(list, sp.shift);
+  const circuits: CircuitAnalysis[] = [];
+  for (let i = 0; i < previous.circuits.length; i++) {
+    const a = previous.circuits[i]!;
+    const circuit = sp.design.circuits[i]!;
+    const r = sp.renumbering[i];
+    if (a.findings.phases.some(onRemoved) || a.findings.models.some(onRemoved)) return undefined;
+    if (!r) {
+      // no device came or went here: the same results, on lines that may have moved
+      const network = { ...a.classification.network, circuit };
+      const classification = { ...a.classification, network };
+      const ctx: ElectricalContext = { ...a.electrical!, circuit, network, classification };
+      carrySizingBasis(a.circuit, circuit);
+      const findings = { phases: move(a.findings.phases), classification: reviseClassificationFindings(circuit, classification, a.classification, [], options), electrical: reviseElectricalFindings(ctx, a.estimates!, a.estimates!, []), models: move(a.findings.models) };
+      circuits.push({ circuit, plan: a.plan, classification, electrical: ctx, estimates: a.estimates!, findings });
+      continue;
+    }
+    const { network, rebuilt, previousId } = patchSwitchNetwork(a.classification.network, circuit, [], r);
+    if (rebuilt.length > rewireLimit(network.components.length)) return undefined;
+    const reclassified = reclassify(renumberDevices(a.classification, r.oldToNew), network, rebuilt, previousId);
+    if (!reclassified) return undefined;
+    const { classification } = reclassified;
+    const ctx = renumberedContext(a.electrical!, circuit, network, classification, r);
+    // what the classification's findings read that changed: the nets whose results changed and
+    // the gates of the added and deleted devices (their gate loads)
+    const touched = new Set<number>(reclassified.changedNets);
+    const devices = [...r.added.map((k) => circuit.mosfets[k]!), ...r.deleted.map((k) => a.circuit.mosfets[k]!)];
+    for (const m of devices) touched.add(m.g);
+    // what the estimates read that changed: that, the rebuilt groups and the devices' terminals
+    const seeds = new Set<number>(touched);
+    for (const id of rebuilt) for (const x of network.components[id]!.nodes) seeds.add(x);
+    for (const m of devices) seeds.add(m.d).add(m.s).add(m.b);
+    let redo = nodesAround(ctx, seeds);
+    // keeper sizing reads the circuit's smallest devices: when those changed, every sized keeper is redone
+    if (!sameSizingBasisRenumbered(a.circuit, circuit, r.oldToNew)) {
+      const all = new Set(redo);
+      for (const [n, e] of a.estimates!) if (e.suggestedKeeper || e.suggestedHolder) all.add(n);
+      redo = [...all].sort((x, y) => x - y);
+    }
+    const estimates = reestimate(ctx, renumberEstimates(a.estimates!, r.oldToNew), redo);
+    const unsupported = devices.some((m) => m.card?.family === 'unsupported');
+    const findings = {
+      phases: move(a.findings.phases),
+      classification: reviseClassificationFindings(circuit, classification, a.classification, touched, options),
+      electrical: reviseElectricalFindings(ctx, estimates, a.estimates!, redo),
+      models: unsupported ? modelNotes(circuit) : move(a.findings.models),
+    };
+    circuits.push({ circuit, plan: a.plan, classification, electrical: ctx, estimates, findings });
+  }
+  return finish(deck, sp.design, circuits, move(previous.frontEnd), options);
+}
+
 function onEditedLine(d: Diagnostic, moved: ReadonlyArray<{ file: string; from: Range }>): boolean {
   return moved.some((m) => m.file === d.file && d.range.start.line >= m.from.start.line && d.range.start.line <= m.from.end.line);
 }
@@ -283,7 +353,7 @@ function electricalContext(circuit: Circuit, design: Design, plan: PhasePlan, cl
       if (!classification.storage[n] || !classification.perPhase.some((m) => m.has(n))) continue;
       const out = existingInverter(base, n);
       if (out === undefined) continue;
-      const gated = base.gateOf[n]!.map((i) => circuit.mosfets[i]!).filter((m) => m.d === out || m.s === out);
+      const gated = base.gateOf(n).map((i) => circuit.mosfets[i]!).filter((m) => m.d === out || m.s === out);
       const nm = gated.find((m) => m.polarity === 'n');
       const pm = gated.find((m) => m.polarity === 'p');
       if (nm && pm) {

@@ -15,7 +15,7 @@ function nodeWords(lines: string[]): Array<[number, number]> {
 }
 
 /** Lines of the same scope as line i (the subcircuit body holding it, or the top level). */
-function scopeLines(lines: string[], i: number): number[] {
+export function scopeLines(lines: string[], i: number): number[] {
   let open = -1;
   for (let k = 0; k <= i; k++) {
     if (/^\.subckt\b/i.test(lines[k]!)) open = k;

@@ -5,12 +5,13 @@
 // nets, traced back a few levels, so a net and its inverted or buffered copy are not treated as
 // independent, and feedback from the node itself (keepers, static latches) is recognised.
 
+import { renumbered } from '../circuit/splice';
 import type { PhasePlan, Phase } from '../phases/phases';
 import { floatWindow } from '../phases/phases';
 import { evaluateComponent, newScratch, propagateConstants, repropagateConstants, X, type Scratch } from './constants';
 import { NetRole, SwitchKind, type Component, type SwitchNetwork } from './switchNetwork';
 import { ITEMS_PER_SLICE, runToEnd, type Steps } from '../core/steps';
-import { OverlayMap } from '../core/overlay';
+import { MappedMap, OverlayMap } from '../core/overlay';
 
 export type NodeStateName = 'driven' | 'conditional' | 'floating' | 'kept' | 'contention' | 'undriven';
 
@@ -386,10 +387,9 @@ export function reclassify(previous: Classification, net: SwitchNetwork, rebuilt
     result.phaseValues.push(values);
     if (!added) result.perPhase.push(OverlayMap.over(old, replaced));
     else {
-      const all = new Map(old);
-      for (const [x, r] of replaced) if (!r) all.delete(x);
-      for (const [x, r] of states) all.set(x, r);
-      result.perPhase.push(all);
+      // the nodes new to the map go after the others, as a copy with them set would have them
+      for (const [x, r] of states) if (!old.has(x)) replaced.set(x, r);
+      result.perPhase.push(OverlayMap.extend(old, replaced));
     }
     result.componentFlags.push(flags);
   }
@@ -398,6 +398,25 @@ export function reclassify(previous: Classification, net: SwitchNetwork, rebuilt
   const changedNets: number[] = [];
   for (let x = 0; x < changed.length; x++) if (changed[x]) changedNets.push(x);
   return { classification: result, changedNets };
+}
+
+/**
+ * The classification with the device indices in its results under their new numbers (devices
+ * were put in or taken out ahead of them), for `reclassify` to start from. The witness memo is
+ * not carried: it was filled for the old numbering.
+ */
+export function renumberDevices(cl: Classification, oldToNew: Int32Array): Classification {
+  const renumber = (r: NodePhaseResult): NodePhaseResult => {
+    const cutOff = r.cutOff && renumbered(r.cutOff, oldToNew);
+    const keepers = r.keepers && renumbered(r.keepers, oldToNew);
+    if (cutOff === r.cutOff && keepers === r.keepers) return r;
+    const next: NodePhaseResult = { ...r };
+    if (cutOff) next.cutOff = cutOff;
+    if (keepers) next.keepers = keepers;
+    return next;
+  };
+  // each result is renumbered when it is first read: an edit reads a few
+  return { ...cl, perPhase: cl.perPhase.map((m) => MappedMap.over(m, renumber)) };
 }
 
 /** Two results of a node read the same (field by field, in the same order, as the findings and estimates read them). */

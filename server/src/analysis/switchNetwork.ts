@@ -5,6 +5,7 @@
 
 import type { Circuit } from '../circuit/circuit';
 import type { Clock } from '../phases/clocks';
+import type { MosfetRenumbering } from '../circuit/splice';
 
 export const enum NetRole {
   Internal = 0,
@@ -159,13 +160,28 @@ export interface NetworkPatch {
  * merged away stays as an empty one): the same groups, switches, gates, order of gated groups
  * and reachability (the tests hold it). No later stage's results depend on the ids.
  */
-export function patchSwitchNetwork(prev: SwitchNetwork, c: Circuit, moved: readonly number[]): NetworkPatch {
+export function patchSwitchNetwork(prev: SwitchNetwork, c: Circuit, moved: readonly number[], renumbering?: MosfetRenumbering): NetworkPatch {
   const n = c.nets.length;
   const role = prev.role;
   const internal = (x: number) => role[x] === NetRole.Internal;
-  const switches = prev.switches.slice();
   const nm = c.mosfets.length;
   const nr = c.resistors.length;
+  // devices put in or taken out: the switches after them take new indices
+  const nmBefore = prev.circuit.mosfets.length;
+  const toNew = (si: number) => (!renumbering ? si : si < nmBefore ? renumbering.oldToNew[si]! : si + nm - nmBefore);
+  let switches: Switch[];
+  if (!renumbering) switches = prev.switches.slice();
+  else {
+    switches = new Array<Switch>(prev.switches.length + nm - nmBefore);
+    prev.switches.forEach((s, si) => {
+      const j = toNew(si);
+      if (j >= 0) switches[j] = s.mosfet >= 0 && s.mosfet !== j ? { ...s, mosfet: j } : s;
+    });
+    for (const j of renumbering.added) {
+      const m = c.mosfets[j]!;
+      switches[j] = { a: m.d, b: m.s, gate: m.g, kind: m.polarity === 'n' ? SwitchKind.N : SwitchKind.P, mosfet: j, other: -1 };
+    }
+  }
   for (const si of moved) {
     const old = prev.switches[si]!;
     if (si < nm) {
@@ -176,6 +192,12 @@ export function patchSwitchNetwork(prev: SwitchNetwork, c: Circuit, moved: reado
       switches[si] = { a: e.a, b: e.b, gate: -1, kind: SwitchKind.On, mosfet: -1, other: old.other };
     }
   }
+  // each change as the switch before and after it (a moved one, an added one, a deleted one)
+  const changes: Array<[Switch | undefined, Switch | undefined]> = moved.map((si) => [prev.switches[si]!, switches[si]!]);
+  if (renumbering) {
+    for (const j of renumbering.added) changes.push([undefined, switches[j]!]);
+    for (const i of renumbering.deleted) changes.push([prev.switches[i]!, undefined]);
+  }
   // how many gates each net drives, carried from network to network
   let counts = gateCounts.get(prev);
   if (!counts) {
@@ -185,29 +207,31 @@ export function patchSwitchNetwork(prev: SwitchNetwork, c: Circuit, moved: reado
   }
   counts = counts.slice();
   const drivesGate = prev.drivesGate.slice();
-  for (const si of moved) {
-    if (si >= nm) continue;
-    const before = prev.switches[si]!.gate;
-    const after = switches[si]!.gate;
-    if (--counts[before]! === 0) drivesGate[before] = 0;
-    if (counts[after]!++ === 0) drivesGate[after] = 1;
+  for (const [before, after] of changes) {
+    if (before && before.gate >= 0 && --counts[before.gate]! === 0) drivesGate[before.gate] = 0;
+    if (after && after.gate >= 0 && counts[after.gate]!++ === 0) drivesGate[after.gate] = 1;
   }
 
-  // the old groups a moved switch touched, before or after: their nets are regrouped
+  // the old groups a changed switch touched, before or after: their nets are regrouped
   const touched = new Set<number>();
   const oldGates = new Set<number>();
-  for (const si of moved) {
-    for (const s of [prev.switches[si]!, switches[si]!]) {
+  for (const pair of changes) {
+    for (const s of pair) {
+      if (!s) continue;
       for (const x of [s.a, s.b]) if (internal(x)) touched.add(prev.componentOf[x]!);
       if (s.gate >= 0) oldGates.add(s.gate);
     }
   }
   const regionNets: number[] = [];
   const regionSwitches = new Set<number>(moved);
+  for (const j of renumbering?.added ?? []) regionSwitches.add(j);
   for (const id of touched) {
     const comp = prev.components[id]!;
     for (const x of comp.nodes) regionNets.push(x);
-    for (const si of comp.switches) regionSwitches.add(si);
+    for (const si of comp.switches) {
+      const j = toNew(si);
+      if (j >= 0) regionSwitches.add(j);
+    }
   }
   regionNets.sort((x, y) => x - y);
   const parent = new Map<number, number>();
@@ -250,7 +274,7 @@ export function patchSwitchNetwork(prev: SwitchNetwork, c: Circuit, moved: reado
 
   // the rebuilt groups take the old groups' ids (extra ones are added at the end, ids left over
   // stay as empty groups): every other group keeps its id, so nothing else is renumbered
-  const components = prev.components.slice();
+  const components = renumbering ? prev.components.map((comp) => renumberedGroup(comp, toNew)) : prev.components.slice();
   const componentOf = prev.componentOf.slice();
   const freed = [...touched].sort((x, y) => x - y);
   const rebuilt: number[] = [];
@@ -304,6 +328,16 @@ export function patchSwitchNetwork(prev: SwitchNetwork, c: Circuit, moved: reado
   const network: SwitchNetwork = { circuit: c, role, switches, componentOf, components, gatedComponents, drivesGate, unreachable };
   gateCounts.set(network, counts);
   return { network, rebuilt, previousId };
+}
+
+/** A kept group with its switches under their new indices (itself when none moved). */
+function renumberedGroup(comp: Component, toNew: (si: number) => number): Component {
+  let out: number[] | undefined;
+  for (let k = 0; k < comp.switches.length; k++) {
+    const j = toNew(comp.switches[k]!);
+    if (j !== comp.switches[k]) (out ??= comp.switches.slice())[k] = j;
+  }
+  return out ? { id: comp.id, nodes: comp.nodes, switches: out.filter((j) => j >= 0), gates: comp.gates } : comp;
 }
 
 /** Gates driven by each net (the counts behind `drivesGate`), for the next patch. */

@@ -144,6 +144,41 @@ export interface ElaborateResult {
   diagnostics: Diagnostic[];
 }
 
+/**
+ * No scale stated: the lengths written as plain numbers decide. Channel lengths in metres are far
+ * below a millimetre; written in microns they are 0.01 or more. The median written L and the
+ * first micron-looking one when the median looks like microns, else undefined.
+ */
+export function guessMicronScale(deck: Deck): { median: number; first: { file: string; range: Range } } | undefined {
+  const lengths: number[] = [];
+  let first: { file: string; range: Range } | undefined;
+  const scan = (file: string, stmt: Statement) => {
+    const c = stmt.head.text[0]!.toLowerCase();
+    if (c !== 'm' && c !== 'x') return;
+    for (const it of stmt.items) {
+      if (it.kind === 'assign' && it.name.text.toLowerCase() === 'l' && it.value?.kind === 'word') {
+        const v = parseSpiceNumber(it.value.text);
+        if (v !== undefined) {
+          lengths.push(v);
+          if (v > 1e-3 && !first) first = { file, range: it.range };
+        }
+      }
+    }
+  };
+  for (const s of deck.top) scan(s.file, s.item);
+  const walk = (defs: Map<string, SubcktDefinition>) => {
+    for (const d of defs.values()) {
+      for (const s of d.body) scan(s.file, s.item);
+      walk(d.local);
+    }
+  };
+  walk(deck.subckts);
+  if (lengths.length === 0) return undefined;
+  lengths.sort((a, b) => a - b);
+  const median = lengths[lengths.length >> 1]!;
+  return median > 1e-3 && first ? { median, first } : undefined;
+}
+
 export function elaborate(deck: Deck, options: EngineOptions = {}): ElaborateResult {
   return new Elaborator(deck, options).run();
 }
@@ -363,35 +398,9 @@ class Elaborator {
       this.scaleFrom = 'setting';
       return;
     }
-    // No scale stated: look at the lengths written as plain numbers. Channel lengths in metres
-    // are far below a millimetre; written in microns they are 0.01 or more.
-    const lengths: number[] = [];
-    let first: { file: string; range: Range } | undefined;
-    const scan = (file: string, stmt: Statement) => {
-      const c = stmt.head.text[0]!.toLowerCase();
-      if (c !== 'm' && c !== 'x') return;
-      for (const it of stmt.items) {
-        if (it.kind === 'assign' && it.name.text.toLowerCase() === 'l' && it.value?.kind === 'word') {
-          const v = parseSpiceNumber(it.value.text);
-          if (v !== undefined) {
-            lengths.push(v);
-            if (v > 1e-3 && !first) first = { file, range: it.range };
-          }
-        }
-      }
-    };
-    for (const s of this.deck.top) scan(s.file, s.item);
-    const walk = (defs: Map<string, SubcktDefinition>) => {
-      for (const d of defs.values()) {
-        for (const s of d.body) scan(s.file, s.item);
-        walk(d.local);
-      }
-    };
-    walk(this.deck.subckts);
-    if (lengths.length === 0) return;
-    lengths.sort((a, b) => a - b);
-    const median = lengths[lengths.length >> 1]!;
-    if (median > 1e-3 && first) {
+    const guess = guessMicronScale(this.deck);
+    if (guess) {
+      const { median, first } = guess;
       this.scale = 1e-6;
       this.scaleFrom = 'assumed';
       this.report(

@@ -15,13 +15,13 @@ import type { AssignItem, Item, Statement } from '../syntax/tree';
 import { interpretElement } from './elements';
 
 /** Sizes the patch can take, and how each scales with the geometry scale. */
-const SIZE_PARAMS: Record<string, 'length' | 'area' | 'count'> = { w: 'length', l: 'length', pd: 'length', ps: 'length', ad: 'area', as: 'area', m: 'count', mult: 'count', nf: 'count' };
+export const SIZE_PARAMS: Record<string, 'length' | 'area' | 'count'> = { w: 'length', l: 'length', pd: 'length', ps: 'length', ad: 'area', as: 'area', m: 'count', mult: 'count', nf: 'count' };
 
 /** Written lengths above this look like microns (the elaborator's scale guess). */
 const MICRON_LOOKING_L = 1e-3;
 /** Sizes the elaborator calls implausible (it reports them, so the patch steps aside). */
-const PLAUSIBLE_L_M = 1e-3;
-const PLAUSIBLE_W_M = 1e-1;
+export const PLAUSIBLE_L_M = 1e-3;
+export const PLAUSIBLE_W_M = 1e-1;
 
 export interface SizePatch {
   design: Design;
@@ -138,7 +138,7 @@ function modelWord(x: Statement): Item | undefined {
   return e?.kind === 'mos' ? e.model : undefined;
 }
 
-function isPlainNumber(v: AssignItem['value']): boolean {
+export function isPlainNumber(v: AssignItem['value']): boolean {
   return v?.kind === 'word' && parseSpiceNumber(v.text) !== undefined;
 }
 

@@ -91,7 +91,7 @@ function scopeOfLines(deck: Deck, edited: readonly EditedLine[]): string | null 
 }
 
 /** A definition's net slots and each element line's node slots, as its template reads them. */
-function slotsOf(deck: Deck, scope: string | null, globals: ReadonlySet<string>): { slots: NetSlots; refs: Map<Statement, number[]> } | undefined {
+export function slotsOf(deck: Deck, scope: string | null, globals: ReadonlySet<string>): { slots: NetSlots; refs: Map<Statement, number[]> } | undefined {
   const def = scope === null ? undefined : deck.subckts.get(scope);
   if (scope !== null && !def) return undefined;
   const slots = new NetSlots(scope, globals);
@@ -106,7 +106,7 @@ function slotsOf(deck: Deck, scope: string | null, globals: ReadonlySet<string>)
   return { slots, refs };
 }
 
-function sameList(a: readonly string[], b: readonly string[]): boolean {
+export function sameList(a: readonly string[], b: readonly string[]): boolean {
   return a.length === b.length && a.every((x, i) => x === b[i]);
 }
 
@@ -303,7 +303,7 @@ type OriginIndex = Map<Origin, number[]>;
  */
 const originIndexes = new WeakMap<readonly object[], OriginIndex>();
 
-function originIndex(list: ReadonlyArray<{ origin: Origin }>): OriginIndex {
+export function originIndex(list: ReadonlyArray<{ origin: Origin }>): OriginIndex {
   let index = originIndexes.get(list);
   if (!index) {
     index = new Map();

@@ -88,6 +88,20 @@ export class OverlayMap<K, V> extends DerivedMap<K, V> {
     return new OverlayMap(base, changes, depth, base.size - removed).folded();
   }
 
+  /**
+   * `over`, and the keys of `changes` that `base` does not have added after its entries, in the
+   * order `changes` lists them (as `Map.set` on a copy would put them).
+   */
+  static extend<K, V>(base: ReadonlyMap<K, V>, changes: ReadonlyMap<K, V | undefined>): Map<K, V> {
+    let count = base.size;
+    for (const [k, v] of changes) {
+      if (base.has(k)) count -= v === undefined ? 1 : 0;
+      else count += v === undefined ? 0 : 1;
+    }
+    const depth = base instanceof DerivedMap ? base.depth + 1 : 1;
+    return new OverlayMap(base, changes, depth, count).folded();
+  }
+
   override get(key: K): V | undefined {
     return this.changes.has(key) ? this.changes.get(key) : this.base.get(key);
   }
@@ -111,6 +125,53 @@ export class OverlayMap<K, V> extends DerivedMap<K, V> {
         if (w !== undefined) m.set(k, w);
       }
     });
+    for (const [k, v] of changes) if (v !== undefined && !m.has(k)) m.set(k, v);
+    return m;
+  }
+}
+
+/**
+ * An earlier map with every value read through `fn` (the same keys, in the same order): worked
+ * out per entry when it is first read, so a result renumbered after an edit costs what is read.
+ */
+export class MappedMap<K, V> extends DerivedMap<K, V> {
+  private readonly memo = new Map<K, V>();
+
+  private constructor(
+    private readonly base: ReadonlyMap<K, V>,
+    private readonly fn: (v: V) => V,
+    depth: number,
+  ) {
+    super(depth);
+  }
+
+  static over<K, V>(base: ReadonlyMap<K, V>, fn: (v: V) => V): Map<K, V> {
+    const depth = base instanceof DerivedMap ? base.depth + 1 : 1;
+    return new MappedMap(base, fn, depth).folded();
+  }
+
+  override get(key: K): V | undefined {
+    let v = this.memo.get(key);
+    if (v === undefined) {
+      const b = this.base.get(key);
+      if (b === undefined) return undefined;
+      v = this.fn(b);
+      this.memo.set(key, v);
+    }
+    return v;
+  }
+
+  override has(key: K): boolean {
+    return this.base.has(key);
+  }
+
+  override get size(): number {
+    return this.base.size;
+  }
+
+  protected build(): Map<K, V> {
+    const m = new Map<K, V>();
+    this.base.forEach((_, k) => m.set(k, this.get(k)!));
     return m;
   }
 }

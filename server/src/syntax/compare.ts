@@ -81,6 +81,7 @@ export function editedStatements<T>(a: readonly SyntaxFile[], b: readonly Syntax
   return out;
 }
 
-export function sameStatement(x: Statement, y: Statement): boolean {
-  return sameRange(x.range, y.range, 0) && sameItem(x.head, y.head, 0) && x.items.length === y.items.length && x.items.every((it, k) => sameItem(it, y.items[k]!, 0));
+/** The same statement, word for word, moved down `lineShift` lines. */
+export function sameStatement(x: Statement, y: Statement, lineShift = 0): boolean {
+  return sameRange(x.range, y.range, lineShift) && sameItem(x.head, y.head, lineShift) && x.items.length === y.items.length && x.items.every((it, k) => sameItem(it, y.items[k]!, lineShift));
 }

@@ -23,12 +23,12 @@ export function capacitanceSignature(ctx: ElectricalContext, island: ReadonlySet
   const c = ctx.circuit;
   const parts: string[] = [];
   for (const n of island) {
-    for (const i of ctx.gateOf[n]!) {
+    for (const i of ctx.gateOf(n)) {
       const m = c.mosfets[i]!;
       // the gate's capacitance follows the channel's state, which reads the rails at its drain and source
       parts.push(`g${m.card?.name ?? m.model}:${m.polarity}:${m.wM}:${m.lM}:${m.m}:${ctx.railVolts[m.d]}:${ctx.railVolts[m.s]}`);
     }
-    for (const i of ctx.channelOf[n]!) {
+    for (const i of ctx.channelOf(n)) {
       const m = c.mosfets[i]!;
       parts.push(`c${m.card?.name ?? m.model}:${m.polarity}:${m.wM}:${m.lM}:${m.m}:${m.d === n ? 'd' : ''}${m.s === n ? 's' : ''}:${m.adM2}:${m.asM2}:${m.pdM}:${m.psM}:${ctx.railVolts[m.b]}`);
     }
@@ -60,7 +60,7 @@ export function islandCapacitance(ctx: ElectricalContext, island: ReadonlySet<nu
   const aggressors: CapacitanceBreakdown['aggressors'] = [];
   const seen = new Set<number>();
   for (const n of island) {
-    for (const i of ctx.gateOf[n]!) {
+    for (const i of ctx.gateOf(n)) {
       const m = c.mosfets[i]!;
       const model = ctx.model(m);
       const w = model.effectiveWidth(m.wM);
@@ -72,7 +72,7 @@ export function islandCapacitance(ctx: ElectricalContext, island: ReadonlySet<nu
       const onFraction = vgs > Math.abs(model.threshold(0, 0, 300, m.wM, m.lM)) ? 1 : model.offGateCapFraction;
       gateF += (model.coxFPerM2 * w * l * onFraction + (model.cgsoFPerM + model.cgdoFPerM) * w) * m.m;
     }
-    for (const i of ctx.channelOf[n]!) {
+    for (const i of ctx.channelOf(n)) {
       if (seen.has(i)) continue;
       seen.add(i);
       const m = c.mosfets[i]!;

@@ -136,7 +136,7 @@ export function chargeSharing(ctx: ElectricalContext, node: number, phaseIndex: 
     const v = phaseValues[g]!;
     return v === 2 ? 0 : v * vdd;
   };
-  const joiners = ctx.channelOf[node]!.map((i) => c.mosfets[i]!).filter((m) => {
+  const joiners = ctx.channelOf(node).map((i) => c.mosfets[i]!).filter((m) => {
     const other = m.d === node ? m.s : m.d;
     if (!joinedSet.has(other)) return false;
     const g = gateV(m.g);

@@ -2,12 +2,13 @@
 // stored level and corner, retention to the droop budget, charge sharing, coupling, critical
 // charge and, where one is needed, a sized keeper. Pure: reads the context, returns records.
 
+import { renumbered } from '../../circuit/splice';
 import { floatsIn, nodeFloatWindow, type NodePhaseResult } from '../classify';
 import { evaluateComponent, newScratch, type Scratch } from '../constants';
 import { NetRole } from '../switchNetwork';
 import { carryToTwin, familyOf, type Family } from './family';
 import { ITEMS_PER_SLICE, runToEnd, type Steps } from '../../core/steps';
-import { OverlayMap } from '../../core/overlay';
+import { MappedMap, OverlayMap } from '../../core/overlay';
 import type { ElectricalContext } from './context';
 import { capacitanceSignature, islandCapacitance, type CapacitanceBreakdown } from './capacitance';
 import { buildLeakageNetwork, leakageAt, leakageSignature, type LeakageContributor } from './leakage';
@@ -204,6 +205,30 @@ export function renameEstimates(estimates: Map<number, NodeEstimate>, names: Rea
     out.set(n, next);
   }
   if (!out) return estimates;
+  const shares = sharedSolves.get(estimates);
+  if (shares) sharedSolves.set(out, shares);
+  return out;
+}
+
+/**
+ * Estimates with their device indices under new numbers (devices put in or taken out ahead of
+ * them), each node's figures kept; the shared solves carry over (they are by node).
+ */
+export function renumberEstimates(estimates: ReadonlyMap<number, NodeEstimate>, oldToNew: Int32Array): Map<number, NodeEstimate> {
+  const renumber = (e: NodeEstimate): NodeEstimate => {
+    const devices = renumbered(e.devices, oldToNew);
+    const k = e.keeper;
+    const keeperDevices = k && renumbered(k.devices, oldToNew);
+    const against = k && renumbered(k.against, oldToNew);
+    const aggressorsMove = e.capacitance.aggressors.some((x) => x.device !== undefined && oldToNew[x.device] !== x.device);
+    if (devices === e.devices && keeperDevices === k?.devices && against === k?.against && !aggressorsMove) return e;
+    const next: NodeEstimate = { ...e, devices };
+    if (k) next.keeper = { ...k, devices: keeperDevices!, against: against! };
+    if (aggressorsMove) next.capacitance = { ...e.capacitance, aggressors: e.capacitance.aggressors.map((x) => (x.device === undefined ? x : { ...x, device: oldToNew[x.device]! })) };
+    return next;
+  };
+  // each estimate is renumbered when it is first read: an edit reads a few
+  const out = MappedMap.over(estimates, renumber);
   const shares = sharedSolves.get(estimates);
   if (shares) sharedSolves.set(out, shares);
   return out;
@@ -434,7 +459,7 @@ function estimateNode(ctx: ElectricalContext, n: number, devices: number[], floa
     } else if (needsKeeper) suggested = sizeKeeper(ctx, n, primaryLevel, primary.corners[hotIndex]!.leakageA, ctx.corners[hotIndex]!.tempK);
   }
   if (capacitance.estimatedGeometry) notes.push('drain/source areas not given: estimated as W x 2.5L (common practice)');
-  for (const i of ctx.channelOf[n]!) for (const note of ctx.model(c.mosfets[i]!).notes) if (!notes.includes(note)) notes.push(note);
+  for (const i of ctx.channelOf(n)) for (const note of ctx.model(c.mosfets[i]!).notes) if (!notes.includes(note)) notes.push(note);
   const est: NodeEstimate = {
     node: n,
     devices,
@@ -502,7 +527,7 @@ function structureKey(ctx: ElectricalContext, n: number, floating: Array<{ s: No
     const m = c.mosfets[s.mosfet]!;
     parts.push(`${originId(m.origin)}:${m.wM}:${m.lM}:${m.m}:${m.nf}:${m.adM2}:${m.pdM}:${m.asM2}:${m.psM}:${code(m.d)}${code(m.g)}${code(m.s)}${code(m.b)}`);
   }
-  for (const i of ctx.gateOf[n]!) {
+  for (const i of ctx.gateOf(n)) {
     const m = c.mosfets[i]!;
     parts.push(`g${originId(m.origin)}:${m.wM}:${m.lM}:${m.m}:${code(m.d)}${code(m.s)}${code(m.b)}`);
   }
@@ -545,7 +570,7 @@ function canonicalDevices(ctx: ElectricalContext, n: number): number[] {
     const m = net.switches[si]!.mosfet;
     if (m >= 0) devices.push(m);
   }
-  for (const i of ctx.gateOf[n]!) devices.push(i);
+  for (const i of ctx.gateOf(n)) devices.push(i);
   return devices;
 }
 

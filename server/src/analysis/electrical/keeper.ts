@@ -60,7 +60,7 @@ export function pullStrength(ctx: ElectricalContext, node: number, storedLevel: 
   let best = { currentA: 0, devices: [] as number[] };
   const walk = (n: number, path: number[], seen: Set<number>) => {
     if (path.length > 6) return;
-    for (const i of ctx.channelOf[n]!) {
+    for (const i of ctx.channelOf(n)) {
       if (path.includes(i)) continue;
       const m = c.mosfets[i]!;
       if (m.polarity !== want) continue;
@@ -91,7 +91,7 @@ export function keeperRatio(ctx: ElectricalContext, keeper: Mosfet, node: number
 /** Finds a static inverter the node drives (a p and an n device gated by it, output shared). */
 export function existingInverter(ctx: ElectricalContext, node: number): number | undefined {
   const c = ctx.circuit;
-  const gated = ctx.gateOf[node]!.map((i) => c.mosfets[i]!);
+  const gated = ctx.gateOf(node).map((i) => c.mosfets[i]!);
   for (const p of gated.filter((m) => m.polarity === 'p')) {
     const outP = ctx.network.role[p.d] === NetRole.Rail1 ? p.s : ctx.network.role[p.s] === NetRole.Rail1 ? p.d : undefined;
     if (outP === undefined) continue;
@@ -176,7 +176,7 @@ export function sizeKeeper(ctx: ElectricalContext, node: number, storedLevel: 0 
   const own = basis[polarity];
   if (!own) return undefined;
   // a device of the node's own group sets the model (the first in circuit order), else the circuit's first
-  const onNode = ctx.channelOf[node]!.find((i) => c.mosfets[i]!.polarity === polarity);
+  const onNode = ctx.channelOf(node).find((i) => c.mosfets[i]!.polarity === polarity);
   const template = c.mosfets[onNode ?? own.first]!;
   const { wMin, lMin } = own;
   const pull = pullStrength(ctx, node, storedLevel, hotTempK);
@@ -244,4 +244,20 @@ export function sizeHolder(ctx: ElectricalContext, node: number, hotLeakage1A: n
   if (!pullUp || !pullDown) return undefined;
   const forward = pullUp.inverter;
   return { kind: forward.existingOutput ? 'feedback' : 'holder', pullUp, pullDown, forward };
+}
+
+/**
+ * True when `b` (which is `a` with devices put in or taken out, `oldToNew` renumbering the rest)
+ * gives every keeper the same sizing basis: the same smallest sizes, and the same first device
+ * of each polarity under its new number.
+ */
+export function sameSizingBasisRenumbered(a: Circuit, b: Circuit, oldToNew: Int32Array): boolean {
+  const x = sizingBasis(a);
+  const y = sizingBasis(b);
+  return (['n', 'p'] as const).every((pol) => {
+    const s = x[pol];
+    const t = y[pol];
+    if (!s || !t) return s === t;
+    return s.wMin === t.wMin && s.lMin === t.lMin && oldToNew[s.first] === t.first;
+  });
 }

@@ -134,15 +134,15 @@ export function buildLeakageNetwork(ctx: ElectricalContext, node: number, phaseV
     const m = c.mosfets[i]!;
     return isActive(groupOf, m.d) || isActive(groupOf, m.s);
   }));
-  for (const n of island) for (const i of ctx.channelOf[n]!) devices.add(i);
-  for (const g of floatingGroups) for (const n of g) for (const i of ctx.channelOf[n]!) devices.add(i);
+  for (const n of island) for (const i of ctx.channelOf(n)) devices.add(i);
+  for (const g of floatingGroups) for (const n of g) for (const i of ctx.channelOf(n)) devices.add(i);
   for (const i of devices) {
     const m = c.mosfets[i]!;
     for (const t of [m.d, m.s, m.g, m.b]) if (!groupOf.has(t) && !fixedVolts.has(t)) fixedVolts.set(t, gateOrStrong(ctx, t, phaseValues, assignment, worstInput));
   }
   const gateDevices: number[] = [];
   for (const n of island) {
-    for (const i of ctx.gateOf[n]!) {
+    for (const i of ctx.gateOf(n)) {
       const m = c.mosfets[i]!;
       if (!ctx.model(m).gateLeakage) continue;
       gateDevices.push(i);

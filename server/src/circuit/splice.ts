@@ -1,0 +1,482 @@
+// The elaboration stage's answer to transistor lines added or deleted: when the new deck differs
+// from the old one only in a run of plain MOSFET lines (plain-number sizes, a model with a card)
+// put in or taken out of one definition (or the top level), and that definition's net slots
+// come out the same, every flat net keeps its number. The devices of those lines are put in or
+// taken out of every instance of the definition where a fresh elaboration puts them (the flat
+// MOSFET list follows the body order of each instance), which renumbers the MOSFETs after them;
+// every line after the edit moves by the same count, and so does every origin on one. Anything
+// else (another element, a parameter expression, a directive among the edited lines, a guessed
+// geometry scale, a card after the edit) answers `undefined`, and the caller elaborates afresh.
+
+import { rangeOf, Span, startLineOf, type Range } from '../core/source';
+import type { Diagnostic } from '../core/diagnostics';
+import type { Circuit, Design, Instance, Mosfet, Net, Origin, Polarity } from './circuit';
+import type { Deck } from './deck';
+import { deckGlobals, elementNodeWords, guessMicronScale, type NetSlots } from './elaborate';
+import { selectModel } from './models';
+import { parseSpiceNumber } from './numbers';
+import { isPlainNumber, PLAUSIBLE_L_M, PLAUSIBLE_W_M, SIZE_PARAMS } from './patch';
+import { scopesOfStatements } from './rename';
+import { originIndex, sameList, slotsOf } from './rewire';
+import { sameRange, sameStatement } from '../syntax/compare';
+import type { Statement, SyntaxFile } from '../syntax/tree';
+
+/** How one circuit's MOSFET list changed. */
+export interface MosfetRenumbering {
+  /** Old index -> new index, -1 for a deleted device. */
+  oldToNew: Int32Array;
+  /** New indices of the added devices, ascending. */
+  added: number[];
+  /** Old indices of the deleted devices, ascending. */
+  deleted: number[];
+}
+
+/** Every range of `file` that starts at or after `fromLine` (old numbering) moves `lines` down. */
+export interface LineShift {
+  file: string;
+  fromLine: number;
+  lines: number;
+}
+
+export interface DeviceSplice {
+  design: Design;
+  /** Per circuit of the design; undefined where no device came or went (origins may still move). */
+  renumbering: Array<MosfetRenumbering | undefined>;
+  shift: LineShift;
+  /** The old lines of the deleted statements (findings on them cannot be moved). */
+  removedLines: { file: string; from: number; to: number } | undefined;
+}
+
+/** A plain transistor line: its local name, node words, model and sizes as the elaborator reads them. */
+interface PlainMosfet {
+  statement: Statement;
+  local: string;
+  values: Omit<Mosfet, 'name' | 'd' | 'g' | 's' | 'b' | 'origin'>;
+}
+
+/** `limit`: per circuit, how many devices the splice takes on (more: undefined). */
+export function spliceDevices(previousDeck: Deck, previous: Design, deck: Deck, limit: (circuit: number) => number = () => Infinity): DeviceSplice | undefined {
+  const diff = diffFiles(previousDeck.files, deck.files);
+  if (!diff) return undefined;
+  const { file, removed, added, shift } = diff;
+  // messages that quote line numbers, and guesses that read every written length
+  if (previous.geometryScale.from === 'assumed' || (previous.geometryScale.from === 'default' && guessMicronScale(deck))) return undefined;
+  // model cards after the edit would move (their ranges are kept with every device)
+  for (const cards of previous.modelCards.values()) for (const card of cards) if (card.file === file && startLineOf(card.range) >= shift.fromLine) return undefined;
+  const middle = removed.length ? removed : added;
+  const scopeOf = scopesOfStatements(removed.length ? previousDeck : deck);
+  if (!scopeOf) return undefined;
+  const scopes = new Set(middle.map((s) => scopeOf.get(s)));
+  if (scopes.size !== 1) return undefined;
+  const [scope] = scopes;
+  if (scope === undefined) return undefined;
+  const lines: PlainMosfet[] = [];
+  for (const st of middle) {
+    const line = plainMosfet(st, previous);
+    if (!line) return undefined;
+    lines.push(line);
+  }
+  // the body as the new deck has it: element names unique, none holding a '.'
+  const def = scope === null ? undefined : deck.subckts.get(scope);
+  if (scope !== null && (!def || !previousDeck.subckts.get(scope))) return undefined;
+  const body = def ? def.body : deck.top;
+  const bodyIndex = new Map<string, number>();
+  const counts = new Map<string, number>();
+  body.forEach(({ item }, k) => {
+    if (item.head.text.startsWith('.')) return;
+    const local = item.head.text.toLowerCase();
+    bodyIndex.set(local, k);
+    counts.set(local, (counts.get(local) ?? 0) + 1);
+  });
+  for (const l of lines) if (l.local.includes('.') || (counts.get(l.local) ?? 0) > (removed.length ? 0 : 1)) return undefined;
+  if ([...bodyIndex.keys()].some((k) => k.includes('.'))) return undefined;
+
+  const globals = deckGlobals(deck);
+  const oldGlobals = deckGlobals(previousDeck);
+  if (globals.size !== oldGlobals.size || [...globals].some((g) => !oldGlobals.has(g))) return undefined;
+  const before = slotsOf(previousDeck, scope, globals);
+  const after = slotsOf(deck, scope, globals);
+  if (!before || !after || !sameList(before.slots.localNames, after.slots.localNames) || !sameList(before.slots.globalNames, after.slots.globalNames)) return undefined;
+  const portCount = scope === null ? 0 : deck.subckts.get(scope)!.ports.length;
+  const moveRange = (f: string, r: Range): Range => (f === shift.file && startLineOf(r) >= shift.fromLine ? shiftedRange(r, shift.lines) : r);
+  // a net first written on an edited line is now first written elsewhere (or the other way)
+  const netOrigins = new Map<string, Origin>();
+  for (let i = 0; i < after.slots.localOrigins.length; i++) {
+    const o = after.slots.localOrigins[i]!;
+    const was = before.slots.localOrigins[i]!;
+    if (o.file === was.file && sameRange(moveRange(was.file, was.range), o.range, 0)) continue;
+    // a global net takes the first slot's origin of the definition that meets it first
+    if (i < portCount || i === 0) return undefined;
+    netOrigins.set(o.local, o);
+  }
+  if (after.slots.localOrigins.length === 0) return undefined;
+  const nodeSlots = lines.map((l) => (removed.length ? before : after).refs.get(l.statement));
+  if (nodeSlots.some((r) => !r || r.length !== 4)) return undefined;
+
+  const origins = new Map<Origin, Origin>();
+  const moveOrigin = (o: Origin): Origin => {
+    if (o.file !== shift.file || startLineOf(o.range) < shift.fromLine) return o;
+    let m = origins.get(o);
+    if (!m) origins.set(o, (m = { ...o, range: shiftedRange(o.range, shift.lines) }));
+    return m;
+  };
+  const edit: SpliceEdit = {
+    scope,
+    portCount,
+    slots: after.slots,
+    lines: lines.map((l, k) => ({ ...l, slots: nodeSlots[k]!, origin: { file, range: l.statement.range, subckt: scope, local: l.local } })),
+    deleting: removed.length > 0,
+    bodyIndex,
+    firstNewBodyIndex: removed.length ? -1 : bodyIndex.get(lines[0]!.local)!,
+    moveOrigin,
+    netOrigins,
+  };
+  const circuits: Circuit[] = [];
+  const renumbering: Array<MosfetRenumbering | undefined> = [];
+  for (let i = 0; i < previous.circuits.length; i++) {
+    const r = spliceCircuit(previous.circuits[i]!, edit, limit(i));
+    if (!r) return undefined;
+    circuits.push(r.circuit);
+    renumbering.push(r.renumbering);
+  }
+  if (renumbering.every((r) => !r)) return undefined;
+  const design: Design = { ...previous, circuits, directives: shiftRanges(previous.directives, shift) };
+  const removedLines = removed.length ? { file, from: startLineOf(removed[0]!.range), to: removed[removed.length - 1]!.range.end.line } : undefined;
+  return { design, renumbering, shift, removedLines };
+}
+
+/** Findings moved with their lines (a finding is kept only where its line still stands). */
+export function shiftDiagnostics(list: Diagnostic[], shift: LineShift): Diagnostic[] {
+  if (shift.lines === 0) return list;
+  return list.map((d) => shiftRanges(d, shift));
+}
+
+/**
+ * A copy of plain data with every range under `shift.file` at or after its first line moved
+ * (the file is the nearest enclosing object's `file`); parts with nothing to move are kept.
+ */
+export function shiftRanges<T>(value: T, shift: LineShift): T {
+  if (shift.lines === 0) return value;
+  const walk = (v: unknown, file: string | undefined): unknown => {
+    if (typeof v !== 'object' || v === null) return v;
+    if (isRange(v)) return file === shift.file && startLineOf(v) >= shift.fromLine ? shiftedRange(v, shift.lines) : v;
+    if (Array.isArray(v)) {
+      let out: unknown[] | undefined;
+      v.forEach((x, i) => {
+        const y = walk(x, file);
+        if (y !== x) (out ??= v.slice())[i] = y;
+      });
+      return out ?? v;
+    }
+    if (Object.getPrototypeOf(v) !== Object.prototype) return v;
+    const o = v as Record<string, unknown>;
+    const here = typeof o.file === 'string' ? o.file : file;
+    let out: Record<string, unknown> | undefined;
+    for (const k of Object.keys(o)) {
+      const y = walk(o[k], here);
+      if (y !== o[k]) (out ??= { ...o })[k] = y;
+    }
+    return out ?? v;
+  };
+  return walk(value, undefined) as T;
+}
+
+function isRange(v: object): v is Range {
+  if (v instanceof Span) return true;
+  const r = v as Partial<Range>;
+  return typeof r.start === 'object' && typeof r.end === 'object' && r.start !== null && typeof r.start.line === 'number' && Object.keys(v).length === 2;
+}
+
+function shiftedRange(r: Range, lines: number): Range {
+  return rangeOf(r.start.line + lines, r.start.character, r.end.line + lines, r.end.character);
+}
+
+/**
+ * The one file that differs, its removed or added statements (never both), and the line shift
+ * after them; every directive, pin line and parser finding must be the same, in place before
+ * the edit or moved with the lines after it.
+ */
+function diffFiles(a: readonly SyntaxFile[], b: readonly SyntaxFile[]): { file: string; removed: Statement[]; added: Statement[]; shift: LineShift } | undefined {
+  if (a.length !== b.length) return undefined;
+  let at = -1;
+  for (let i = 0; i < a.length; i++) {
+    if (a[i] === b[i]) continue;
+    if (a[i]!.file !== b[i]!.file || at >= 0) return undefined;
+    at = i;
+  }
+  if (at < 0) return undefined;
+  const x = a[at]!;
+  const y = b[at]!;
+  if (x.title !== y.title) return undefined;
+  const xs = x.statements;
+  const ys = y.statements;
+  const d = y.lineCount - x.lineCount;
+  let p = 0;
+  while (p < xs.length && p < ys.length && (xs[p] === ys[p] || sameStatement(xs[p]!, ys[p]!, 0))) p++;
+  let s = 0;
+  while (s < xs.length - p && s < ys.length - p && sameStatement(xs[xs.length - 1 - s]!, ys[ys.length - 1 - s]!, d)) s++;
+  const removed = xs.slice(p, xs.length - s);
+  const added = ys.slice(p, ys.length - s);
+  if ((removed.length === 0) === (added.length === 0)) return undefined;
+  // the first old line that moves: the first statement after the edit, or a line before it
+  // (a directive, a broken line) that moved with it
+  let fromLine = s > 0 ? startLineOf(xs[xs.length - s]!.range) : Infinity;
+  const shifts: Array<{ line: number; by: number }> = [];
+  const note = (r: Range, q: Range): boolean => {
+    const by = q.start.line - r.start.line;
+    if (by !== 0 && by !== d) return false;
+    if (!sameRange(r, q, by)) return false;
+    shifts.push({ line: r.start.line, by });
+    if (by !== 0 && r.start.line < fromLine) fromLine = r.start.line;
+    return true;
+  };
+  const placed = (si: number, sj: number) => (si <= p && sj === si) || (si >= xs.length - s && sj === si + ys.length - xs.length);
+  if (x.directives.length !== y.directives.length || x.pinInfos.length !== y.pinInfos.length || x.diagnostics.length !== y.diagnostics.length) return undefined;
+  for (let i = 0; i < x.directives.length; i++) {
+    const u = x.directives[i]!;
+    const v = y.directives[i]!;
+    if (u.verb !== v.verb || u.args.length !== v.args.length || !placed(u.statementIndex, v.statementIndex) || !note(u.range, v.range)) return undefined;
+    const by = v.range.start.line - u.range.start.line;
+    for (let k = 0; k < u.args.length; k++) if (u.args[k]!.text !== v.args[k]!.text || !sameRange(u.args[k]!.range, v.args[k]!.range, by)) return undefined;
+  }
+  for (let i = 0; i < x.pinInfos.length; i++) {
+    const u = x.pinInfos[i]!;
+    const v = y.pinInfos[i]!;
+    if (u.pins.length !== v.pins.length || !placed(u.statementIndex, v.statementIndex) || !note(u.range, v.range)) return undefined;
+    const by = v.range.start.line - u.range.start.line;
+    for (let k = 0; k < u.pins.length; k++) if (u.pins[k]!.name !== v.pins[k]!.name || u.pins[k]!.direction !== v.pins[k]!.direction || !sameRange(u.pins[k]!.range, v.pins[k]!.range, by)) return undefined;
+  }
+  for (let i = 0; i < x.diagnostics.length; i++) {
+    const u = x.diagnostics[i]!;
+    const v = y.diagnostics[i]!;
+    if (u.rule !== v.rule || u.message !== v.message || u.severity !== v.severity || !note(u.range, v.range)) return undefined;
+  }
+  if (d === 0) fromLine = Infinity;
+  // what stays put lies before what moves, and the statements before the edit stay put
+  if (shifts.some((t) => (t.by === 0) !== t.line < fromLine)) return undefined;
+  if (p > 0 && xs[p - 1]!.range.end.line >= fromLine) return undefined;
+  return { file: x.file, removed, added, shift: { file: x.file, fromLine, lines: d } };
+}
+
+/** The line as a transistor the splice can place, or undefined. */
+function plainMosfet(st: Statement, design: Design): PlainMosfet | undefined {
+  if (st.head.text[0]?.toLowerCase() !== 'm') return undefined;
+  const read = elementNodeWords(st);
+  if (read.skipped !== undefined || read.syntax.kind !== 'mos' || !read.syntax.model) return undefined;
+  // exactly four nodes and a model, then plain-number sizes
+  if (st.items.filter((it) => it.kind !== 'assign').length !== 5 || st.items.some((it) => it.kind !== 'assign' && it.kind !== 'word')) return undefined;
+  const written = new Map<string, number>();
+  for (const p of read.syntax.params) {
+    const k = p.name.text.toLowerCase();
+    if (!(k in SIZE_PARAMS) || !isPlainNumber(p.value)) return undefined;
+    written.set(k, parseSpiceNumber((p.value as { text: string }).text)!);
+  }
+  if (!written.has('w') || !written.has('l')) return undefined;
+  const scale = design.geometryScale.value;
+  const model = read.syntax.model.text.toLowerCase();
+  const wM = written.get('w')! * scale;
+  const lM = written.get('l')! * scale;
+  if (lM > PLAUSIBLE_L_M || wM > PLAUSIBLE_W_M) return undefined;
+  const card = selectModel(design.modelCards, model, lM, wM);
+  const polarity: Polarity | undefined = card?.kind === 'nmos' ? 'n' : card?.kind === 'pmos' ? 'p' : undefined;
+  // a model without a card is reported with a count of its devices
+  if (!card || !polarity) return undefined;
+  const values: PlainMosfet['values'] = { polarity, wM, lM, m: written.get('m') ?? written.get('mult') ?? 1, nf: written.get('nf') ?? 1, model, card };
+  for (const [k, field, area] of [['ad', 'adM2', true], ['as', 'asM2', true], ['pd', 'pdM', false], ['ps', 'psM', false]] as const) {
+    if (written.has(k)) values[field] = written.get(k)! * (area ? scale * scale : scale);
+  }
+  return { statement: st, local: st.head.text.toLowerCase(), values };
+}
+
+interface SpliceEdit {
+  scope: string | null;
+  portCount: number;
+  slots: NetSlots;
+  lines: Array<PlainMosfet & { slots: number[]; origin: Origin }>;
+  deleting: boolean;
+  /** Element local name -> its index in the (new) body. */
+  bodyIndex: ReadonlyMap<string, number>;
+  firstNewBodyIndex: number;
+  moveOrigin: (o: Origin) => Origin;
+  netOrigins: ReadonlyMap<string, Origin>;
+}
+
+function spliceCircuit(c: Circuit, e: SpliceEdit, limit: number): { circuit: Circuit; renumbering: MosfetRenumbering | undefined } | undefined {
+  // where the edited definition sits in this circuit, in instance order
+  const contexts: Array<{ prefix: string; ports: readonly number[] | null; span: readonly [number, number] }> = [];
+  if ((e.scope === null && !c.standalone) || (e.scope !== null && c.standalone && c.name === e.scope)) contexts.push({ prefix: '', ports: null, span: [0, c.mosfets.length] });
+  for (const inst of c.instances) if (inst.subckt === e.scope) contexts.push({ prefix: inst.name + '.', ports: inst.ports, span: inst.below.mosfets });
+  if (contexts.length && c.standalone && c.ports.some((p) => p.from === 'inferred')) return undefined;
+  if (contexts.length * e.lines.length > limit) return undefined;
+  const flatNet = (prefix: string, ports: readonly number[] | null, slot: number): number | undefined => {
+    if (slot < 0) return c.netByName.get(e.slots.globalNames[-slot - 1]!);
+    if (ports && slot < e.portCount) return ports[slot];
+    return c.netByName.get(prefix + e.slots.localNames[slot]!);
+  };
+  const nm = c.mosfets.length;
+  let renumbering: MosfetRenumbering | undefined;
+  let mosfets: Mosfet[];
+  /** Inserts as (old position, device, its context's prefix), in list order. */
+  const inserts: Array<{ at: number; prefix: string }> = [];
+  if (contexts.length === 0) mosfets = moveAll(c.mosfets, e.moveOrigin);
+  else if (e.deleting) {
+    const prefixes = new Set(contexts.map((x) => x.prefix));
+    const keys = new Set(e.lines.map((l) => `${l.origin.file}|${startLineOf(l.origin.range)}|${l.origin.range.start.character}`));
+    const deleted: number[] = [];
+    for (const [o, at] of originIndex(c.mosfets)) {
+      if (!keys.has(`${o.file}|${startLineOf(o.range)}|${o.range.start.character}`)) continue;
+      for (const i of at) {
+        const m = c.mosfets[i]!;
+        if (!m.name.endsWith(o.local) || !prefixes.has(m.name.slice(0, m.name.length - o.local.length))) return undefined;
+        // a device without a card was counted in a finding
+        if (!m.card) return undefined;
+        deleted.push(i);
+      }
+    }
+    deleted.sort((x, y) => x - y);
+    if (deleted.length !== contexts.length * e.lines.length) return undefined;
+    const oldToNew = new Int32Array(nm);
+    mosfets = [];
+    for (let i = 0, k = 0; i < nm; i++) {
+      if (k < deleted.length && deleted[k] === i) {
+        oldToNew[i] = -1;
+        k++;
+        continue;
+      }
+      oldToNew[i] = mosfets.length;
+      mosfets.push(moveOne(c.mosfets[i]!, e.moveOrigin));
+    }
+    renumbering = { oldToNew, added: [], deleted };
+  } else {
+    const added: Mosfet[] = [];
+    for (const x of contexts) {
+      // the span's devices follow the body order of the elements they come from
+      const bodyOf = (i: number): number | undefined => {
+        const rest = c.mosfets[i]!.name.slice(x.prefix.length);
+        const dot = rest.indexOf('.');
+        return e.bodyIndex.get(dot < 0 ? rest : rest.slice(0, dot));
+      };
+      let lo = x.span[0];
+      let hi = x.span[1];
+      while (lo < hi) {
+        const mid = (lo + hi) >> 1;
+        const k = bodyOf(mid);
+        if (k === undefined) return undefined;
+        if (k < e.firstNewBodyIndex) lo = mid + 1;
+        else hi = mid;
+      }
+      for (const l of e.lines) {
+        const nets: number[] = [];
+        for (const s of l.slots) {
+          const id = flatNet(x.prefix, x.ports, s);
+          if (id === undefined) return undefined;
+          nets.push(id);
+        }
+        added.push({ name: x.prefix + l.local, ...l.values, d: nets[0]!, g: nets[1]!, s: nets[2]!, b: nets[3]!, origin: l.origin });
+        inserts.push({ at: lo, prefix: x.prefix });
+      }
+    }
+    const oldToNew = new Int32Array(nm);
+    const addedAt: number[] = [];
+    mosfets = [];
+    let q = 0;
+    for (let i = 0; i <= nm; i++) {
+      for (; q < inserts.length && inserts[q]!.at === i; q++) {
+        addedAt.push(mosfets.length);
+        mosfets.push(orderedDevice(added[q]!));
+      }
+      if (i === nm) break;
+      oldToNew[i] = mosfets.length;
+      mosfets.push(moveOne(c.mosfets[i]!, e.moveOrigin));
+    }
+    if (q !== inserts.length) return undefined;
+    renumbering = { oldToNew, added: addedAt, deleted: [] };
+  }
+
+  // each instance's span of devices below it, and every origin after the edit moved
+  const before = (list: readonly number[], v: number) => {
+    let lo = 0;
+    let hi = list.length;
+    while (lo < hi) {
+      const mid = (lo + hi) >> 1;
+      if (list[mid]! < v) lo = mid + 1;
+      else hi = mid;
+    }
+    return lo;
+  };
+  const insertAt = inserts.map((x) => x.at);
+  const deletedList = renumbering?.deleted ?? [];
+  const newSpan = (inst: Instance): [number, number] => {
+    const [s, t] = inst.below.mosfets;
+    if (!renumbering) return inst.below.mosfets;
+    if (e.deleting) return [s - before(deletedList, s), t - before(deletedList, t)];
+    const q = inst.name + '.';
+    let ns = s + before(insertAt, s);
+    for (let k = before(insertAt, s); k < insertAt.length && insertAt[k] === s; k++) if (!inserts[k]!.prefix.startsWith(q)) ns++;
+    let nt = t + before(insertAt, t);
+    for (let k = before(insertAt, t); k < insertAt.length && insertAt[k] === t; k++) if (inserts[k]!.prefix.startsWith(q)) nt++;
+    return [ns, nt];
+  };
+  const instances = c.instances.map((inst) => {
+    const origin = e.moveOrigin(inst.origin);
+    const span = newSpan(inst);
+    if (origin === inst.origin && span[0] === inst.below.mosfets[0] && span[1] === inst.below.mosfets[1]) return inst;
+    return { ...inst, origin, below: { mosfets: span, instances: inst.below.instances } };
+  });
+  const nets: Net[] = c.nets.map((n) => {
+    const to = n.origin.subckt === e.scope && !n.global ? e.netOrigins.get(n.origin.local) : undefined;
+    const origin = to ?? e.moveOrigin(n.origin);
+    return origin === n.origin ? n : { ...n, origin };
+  });
+  const circuit: Circuit = {
+    ...c,
+    nets: same(nets, c.nets),
+    mosfets,
+    capacitors: moveAll(c.capacitors, e.moveOrigin),
+    resistors: moveAll(c.resistors, e.moveOrigin),
+    inductors: moveAll(c.inductors, e.moveOrigin),
+    sources: moveAll(c.sources, e.moveOrigin),
+    diodes: moveAll(c.diodes, e.moveOrigin),
+    others: moveAll(c.others, e.moveOrigin),
+    instances: same(instances, c.instances),
+  };
+  return { circuit, renumbering };
+}
+
+/** A new device with its fields in the order the elaborator writes them (reports and tests read them in order). */
+function orderedDevice(m: Mosfet): Mosfet {
+  const out: Mosfet = { name: m.name, polarity: m.polarity, d: m.d, g: m.g, s: m.s, b: m.b, wM: m.wM, lM: m.lM, m: m.m, nf: m.nf, model: m.model, card: m.card, origin: m.origin };
+  if (m.adM2 !== undefined) out.adM2 = m.adM2;
+  if (m.asM2 !== undefined) out.asM2 = m.asM2;
+  if (m.pdM !== undefined) out.pdM = m.pdM;
+  if (m.psM !== undefined) out.psM = m.psM;
+  return out;
+}
+
+function moveOne<T extends { origin: Origin }>(x: T, move: (o: Origin) => Origin): T {
+  const o = move(x.origin);
+  return o === x.origin ? x : { ...x, origin: o };
+}
+
+function moveAll<T extends { origin: Origin }>(list: T[], move: (o: Origin) => Origin): T[] {
+  let out: T[] | undefined;
+  for (let i = 0; i < list.length; i++) {
+    const y = moveOne(list[i]!, move);
+    if (y !== list[i]) (out ??= list.slice())[i] = y;
+  }
+  return out ?? list;
+}
+
+function same<T>(next: T[], prev: T[]): T[] {
+  return next.every((x, i) => x === prev[i]) ? prev : next;
+}
+
+/** A list of device indices under their new numbers, deleted ones left out (the same list when none moved). */
+export function renumbered(list: readonly number[], oldToNew: Int32Array): number[] {
+  let out: number[] | undefined;
+  for (let k = 0; k < list.length; k++) {
+    const j = oldToNew[list[k]!]!;
+    if (j !== list[k]) (out ??= list.slice())[k] = j;
+  }
+  return out ? out.filter((j) => j >= 0) : (list as number[]);
+}

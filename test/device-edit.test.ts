@@ -1,0 +1,83 @@
+// The splice path (circuit/splice.ts, switchNetwork `patchSwitchNetwork` with a renumbering,
+// classify `renumberDevices` and `reclassify`, estimate `renumberEstimates` and `reestimate`,
+// engine `reanalyse`): after transistor lines are added or deleted, the analysis built from the
+// previous one must equal a fresh analysis of the new text, finding for finding and figure for
+// figure, with the circuit, the switch network and each stage's findings equal to fresh ones.
+// Random additions and deletions over every sample, the fixtures and a generated datapath, one
+// and two in a row.
+
+import * as fs from 'node:fs';
+import * as path from 'node:path';
+import fc from 'fast-check';
+import { describe, expect, it } from 'vitest';
+import { analyse, readDeck, reanalyse } from '../server/src/engine';
+import { memoryHost, type FileHost } from '../server/src/core/host';
+import { overlay } from './support/edits';
+import { same } from './support/sameAnalysis';
+import { addDevice, deleteDevice } from './support/deviceEdits';
+import { hierarchicalNetlist } from '../scripts/netlists';
+
+const SAMPLES = path.join(__dirname, '..', 'samples');
+
+/** An addition or a deletion, chosen by the numbers drawn. */
+function edit(text: string, kind: number, pick: number, where: number): string {
+  return kind % 3 === 0 ? deleteDevice(text, pick, where % 2 === 0) : addDevice(text, pick, where, kind >> 1);
+}
+
+function check(file: string, original: string, hostFor: (t: string) => FileHost, runs: number): number {
+  const before = analyse(hostFor(original), file);
+  let taken = 0;
+  fc.assert(
+    fc.property(fc.nat(11), fc.nat(5000), fc.nat(500), fc.nat(11), fc.nat(5000), fc.nat(500), (k1, p1, w1, k2, p2, w2) => {
+      const first = edit(original, k1, p1, w1);
+      if (first === original) return;
+      const host = hostFor(first);
+      const fast = reanalyse(before, readDeck(host, file));
+      if (!fast) return;
+      taken++;
+      same(file, fast, analyse(host, file));
+      // a second edit from the first one's quick answer
+      const second = edit(first, k2, p2, w2);
+      if (second === first) return;
+      const host2 = hostFor(second);
+      const fast2 = reanalyse(fast, readDeck(host2, file));
+      if (fast2) same(file, fast2, analyse(host2, file));
+    }),
+    { numRuns: runs, seed: 17 },
+  );
+  return taken;
+}
+
+describe('transistor lines added or deleted reuse the previous analysis and equal a fresh one', () => {
+  let total = 0;
+  for (const name of fs.readdirSync(SAMPLES).filter((f) => f.endsWith('.sp'))) {
+    it(`${name}: random additions and deletions`, () => {
+      const file = path.join(SAMPLES, name);
+      total += check(file, fs.readFileSync(file, 'utf8'), (t) => overlay(file, t), 40);
+    });
+  }
+  for (const kind of ['classify', 'electrical']) {
+    const dir = path.join(__dirname, 'fixtures', kind);
+    it(`the ${kind} fixtures: random additions and deletions`, () => {
+      let taken = 0;
+      for (const name of fs.readdirSync(dir).filter((f) => f.endsWith('.sp'))) {
+        const file = path.join(dir, name);
+        taken += check(file, fs.readFileSync(file, 'utf8'), (t) => overlay(file, t), 12);
+      }
+      expect(taken).toBeGreaterThan(10);
+    }, 120_000);
+  }
+  it('a generated hierarchical datapath (2k transistors): devices added and deleted in its cells', () => {
+    const file = '/datapath.sp';
+    const text = hierarchicalNetlist(2_000);
+    const taken = check(file, text, (t) => memoryHost({ [file]: t }), 8);
+    // the benchmark's edit: a device added in the block that every slice chain runs through
+    const edited = text.replace(/^(Xs3 .*)$/m, '$1\nMx w3 clk vdd vdd bp w=0.1u l=0.1u');
+    expect(edited).not.toBe(text);
+    const fast = reanalyse(analyse(memoryHost({ [file]: text }), file), readDeck(memoryHost({ [file]: edited }), file));
+    expect(fast, 'a plain transistor line added in a cell is spliced in').toBeDefined();
+    same(file, fast!, analyse(memoryHost({ [file]: edited }), file));
+    expect(taken).toBeGreaterThan(2);
+    expect(total).toBeGreaterThan(20);
+  }, 120_000);
+});

@@ -1,0 +1,43 @@
+// The check every quick path of the editor answers to: its analysis equals a fresh one of the
+// same text, finding for finding and figure for figure (the whole JSON report), its patched switch
+// network equals a fresh build, and each stage's findings, revised from the previous ones, equal
+// those written afresh from the same results.
+
+import { expect } from 'vitest';
+import type { AnalysisResult } from '../../server/src/engine';
+import { buildSwitchNetwork, type SwitchNetwork } from '../../server/src/analysis/switchNetwork';
+import { classificationFindings } from '../../server/src/findings/classificationFindings';
+import { electricalFindings } from '../../server/src/findings/electricalFindings';
+import { report } from './edits';
+
+export function same(file: string, fast: AnalysisResult, full: AnalysisResult): void {
+  expect(JSON.parse(JSON.stringify(fast.diagnostics))).toEqual(JSON.parse(JSON.stringify(full.diagnostics)));
+  expect(report(file, fast)).toEqual(report(file, full));
+  // the patched network field for field against a fresh build (as text: much faster to compare)
+  const text = (x: unknown) => JSON.stringify(x, (_, v) => (ArrayBuffer.isView(v) ? Array.from(v as Uint8Array) : v));
+  fast.circuits.forEach((a, i) => {
+    // the patched circuit against a fresh elaboration: nets, devices, spans and where each was written
+    expect(circuitData(a.circuit)).toEqual(circuitData(full.circuits[i]!.circuit));
+    const fresh = buildSwitchNetwork(a.circuit, a.plan.clocks);
+    const net = a.classification.network;
+    for (const k of ['switches', 'unreachable', 'drivesGate', 'role'] as const) expect(text(net[k]), k).toBe(text(fresh[k]));
+    // groups named by their first net (the patch keeps ids where a fresh build renumbers)
+    const byFirstNet = (x: SwitchNetwork) => {
+      const first = (id: number) => x.components[id]!.nodes[0]!;
+      const groups = x.components.filter((g) => g.nodes.length).sort((p, q) => p.nodes[0]! - q.nodes[0]!).map((g) => [g.nodes, g.switches, g.gates]);
+      return { groups, componentOf: Array.from(x.componentOf, (id) => (id < 0 ? -1 : first(id))), gated: x.gatedComponents.map((l) => l.map(first)) };
+    };
+    expect(text(byFirstNet(net))).toBe(text(byFirstNet(fresh)));
+    const counts = (c: AnalysisResult['circuits'][number]) => [c.classification.wideComponents, c.classification.uncheckedComponents];
+    expect(counts(a)).toEqual(counts(full.circuits[i]!));
+    expect(text(a.classification.phaseValues)).toBe(text(full.circuits[i]!.classification.phaseValues));
+    // each stage's revised findings against that stage's findings written afresh from the same results
+    expect(text(a.findings.classification)).toBe(text(classificationFindings(a.circuit, a.classification, {})));
+    expect(text(a.findings.electrical)).toBe(text(electricalFindings(a.electrical!, a.estimates!)));
+  });
+}
+
+/** A circuit as plain data: model cards by name, the name index left out (it follows the nets). */
+function circuitData(c: AnalysisResult['circuits'][number]['circuit']): unknown {
+  return JSON.parse(JSON.stringify(c, (k, v) => (k === 'card' ? (v as { name: string } | undefined)?.name : v instanceof Map ? undefined : v)));
+}
