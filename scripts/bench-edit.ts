@@ -12,7 +12,8 @@ import { pathToFileURL } from 'node:url';
 import { createMessageConnection, StreamMessageReader, StreamMessageWriter } from 'vscode-jsonrpc/node';
 import { hierarchicalNetlist } from './netlists';
 
-type Edit = [string, (l: string) => boolean, (l: string) => string];
+/** What, which line, its change, and (when the undo is worth a figure of its own) what the undo is. */
+type Edit = [string, (l: string) => boolean, (l: string) => string, string?];
 
 const RECONNECTION: Edit = ['a reconnection (a block input moved to another net)', (l) => l.startsWith('Xb7 '), (l) => l.replace('Xb7 a7 ', 'Xb7 a9 ')];
 
@@ -25,12 +26,15 @@ async function main(): Promise<void> {
     ['a comment line', (l) => l.startsWith('vdd '), (l) => `* supply\n${l}`],
     // a change of connectivity, rewired in the previous analysis
     RECONNECTION,
-    // a new device: no quick path applies, the full analysis runs
+    // new devices: spliced into the previous analysis, up to a limit on the copies
+    ['a device added at the top level', (l) => l.startsWith('Xb7 '), (l) => `${l}\nMx y7 clk vdd vdd bp w=0.2u l=0.1u`, 'the device at the top level deleted'],
+    ['a device added in the block cell (105 copies)', (l) => l.startsWith('Xs3 '), (l) => `${l}\nMx w3 clk vdd vdd bp w=0.2u l=0.1u`, 'the device in the block cell deleted (105 copies)'],
+    // a device in a cell with 4,200 copies: over the splice's limit, the full analysis runs
     ['a device added to the domino cell (full analysis)', (l) => l.startsWith('Mkp dyn out'), (l) => `${l}\nMx dyn clk vdd vdd bp w=0.1u l=0.1u`],
   ]);
   // the same on a netlist of the size most blocks have
   const small = await measure(10_000, [RECONNECTION]);
-  console.log('edit latency, change notification to published diagnostics (comment, size, rename and reconnection edits are answered from the previous analysis; others run the full analysis after a 40 ms debounce):');
+  console.log('edit latency, change notification to published diagnostics (comment, size, rename, reconnection and added or deleted device edits are answered from the previous analysis; others run the full analysis after a 40 ms debounce):');
   for (const line of [...big, ...small]) console.log('  ' + line);
 }
 
@@ -63,8 +67,14 @@ async function measure(transistors: number, edits: Edit[]): Promise<string[]> {
   let version = 2;
   const ROUNDS = 10;
   const summary: string[] = [];
-  for (const [what, find, change] of edits) {
+  const line = (what: string, times: number[]) => {
+    const sorted = [...times].sort((a, b) => a - b);
+    // the first edits of a kind run code the JavaScript engine has not compiled yet
+    return `${what}, ${size}: first ${times[0]!.toFixed(0)} ms, median ${sorted[sorted.length >> 1]!.toFixed(0)} ms, fastest ${sorted[0]!.toFixed(0)} ms, slowest ${sorted[sorted.length - 1]!.toFixed(0)} ms over ${ROUNDS} edits`;
+  };
+  for (const [what, find, change, undoWhat] of edits) {
     const times: number[] = [];
+    const undoTimes: number[] = [];
     for (let round = 0; round < ROUNDS; round++) {
       const i = lines.findIndex(find);
       const original = lines[i]!;
@@ -81,14 +91,15 @@ async function measure(transistors: number, edits: Edit[]): Promise<string[]> {
       lines[i] = original;
       text = lines.join('\n');
       next = published();
+      const undoStart = performance.now();
       conn.sendNotification('textDocument/didChange', { textDocument: { uri, version: version++ }, contentChanges: [{ text }] });
       await next;
+      undoTimes.push(performance.now() - undoStart);
       times.push(ms);
       console.log(`edit      ${ms.toFixed(0).padStart(6)} ms to new diagnostics (${count}); outline ${outlineMs.toFixed(0)} ms (${symbols.length} symbols) | ${what}, round ${round + 1} (${size})`);
     }
-    const sorted = [...times].sort((a, b) => a - b);
-    // the first edits of a kind run code the JavaScript engine has not compiled yet
-    summary.push(`${what}, ${size}: first ${times[0]!.toFixed(0)} ms, median ${sorted[sorted.length >> 1]!.toFixed(0)} ms, fastest ${sorted[0]!.toFixed(0)} ms, slowest ${sorted[sorted.length - 1]!.toFixed(0)} ms over ${ROUNDS} edits`);
+    summary.push(line(what, times));
+    if (undoWhat) summary.push(line(undoWhat, undoTimes));
   }
   await conn.sendRequest('shutdown');
   conn.sendNotification('exit');

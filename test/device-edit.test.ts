@@ -80,4 +80,30 @@ describe('transistor lines added or deleted reuse the previous analysis and equa
     expect(taken).toBeGreaterThan(2);
     expect(total).toBeGreaterThan(20);
   }, 120_000);
+  it('a long run of additions and deletions in the block cell, each from the previous quick answer (the derived maps fold on the way)', () => {
+    const file = '/datapath.sp';
+    let text = hierarchicalNetlist(2_000);
+    let previous = analyse(memoryHost({ [file]: text }), file);
+    const added: string[] = [];
+    for (let k = 0; k < 30; k++) {
+      let next: string;
+      if (k % 3 === 2) {
+        // the oldest added device deleted again
+        next = text.replace(`\n${added.shift()!}`, '');
+      } else {
+        // on a net the block has already written by then (a net written first on the new line
+        // would renumber the nets)
+        const at = (k * 7) % 20;
+        const line = `Mk${k} w${Math.min(at, 18)} ${k % 2 ? 'clk' : 'in1'} vdd vdd bp w=0.2u l=0.1u`;
+        added.push(line);
+        next = text.replace(new RegExp(`^(Xs${at} .*)$`, 'm'), `$1\n${line}`);
+      }
+      expect(next).not.toBe(text);
+      const fast = reanalyse(previous, readDeck(memoryHost({ [file]: next }), file));
+      expect(fast, `edit ${k} is spliced in`).toBeDefined();
+      if (k % 6 === 5 || k === 29) same(file, fast!, analyse(memoryHost({ [file]: next }), file));
+      previous = fast!;
+      text = next;
+    }
+  }, 120_000);
 });

@@ -294,7 +294,7 @@ function afterSplice(previous: AnalysisResult, deck: Deck, sp: DeviceSplice, opt
     for (const m of devices) seeds.add(m.d).add(m.s).add(m.b);
     let redo = nodesAround(ctx, seeds);
     // keeper sizing reads the circuit's smallest devices: when those changed, every sized keeper is redone
-    if (!sameSizingBasisRenumbered(a.circuit, circuit, r.oldToNew)) {
+    if (!sameSizingBasisRenumbered(a.circuit, circuit, r)) {
       const all = new Set(redo);
       for (const [n, e] of a.estimates!) if (e.suggestedKeeper || e.suggestedHolder) all.add(n);
       redo = [...all].sort((x, y) => x - y);

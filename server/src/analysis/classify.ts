@@ -9,7 +9,7 @@ import { renumbered } from '../circuit/splice';
 import type { PhasePlan, Phase } from '../phases/phases';
 import { floatWindow } from '../phases/phases';
 import { evaluateComponent, newScratch, propagateConstants, repropagateConstants, X, type Scratch } from './constants';
-import { NetRole, SwitchKind, type Component, type SwitchNetwork } from './switchNetwork';
+import { mosfetOfSwitch, NetRole, SwitchKind, type Component, type SwitchNetwork } from './switchNetwork';
 import { ITEMS_PER_SLICE, runToEnd, type Steps } from '../core/steps';
 import { MappedMap, OverlayMap } from '../core/overlay';
 
@@ -536,8 +536,8 @@ function witnessKey(net: SwitchNetwork, comp: Component, values: Uint8Array, sto
     for (const x of c.nodes) parts.push(code(x));
     for (const si of c.switches) {
       const sw = net.switches[si]!;
-      if (c === comp) mosfets.push(sw.mosfet);
-      parts.push(sw.kind, code(sw.a), code(sw.b), sw.gate < 0 ? -2 : code(sw.gate), sw.mosfet < 0 ? 0 : 1);
+      if (c === comp) mosfets.push(mosfetOfSwitch(sw, si));
+      parts.push(sw.kind, code(sw.a), code(sw.b), sw.gate < 0 ? -2 : code(sw.gate), sw.kind === SwitchKind.On ? 0 : 1);
     }
   };
   switches(comp);
@@ -757,7 +757,7 @@ function witnessCheck(pass: PhasePass, comp: Component, free: number[], tr: Trac
       res.cutOff = cutOffDevices(net, comp, masks, nn, fa);
     } else if (kept.some(Boolean)) {
       const levels = fl.reduce((acc, f) => acc | f, 0);
-      res = { state: 'kept', exact, keptLevel: levels & 8 ? 1 : 0, keepers: comp.switches.filter((_, k) => feedback[k]).map((si) => net.switches[si]!.mosfet).filter((m) => m >= 0) };
+      res = { state: 'kept', exact, keptLevel: levels & 8 ? 1 : 0, keepers: comp.switches.filter((_, k) => feedback[k]).map((si) => mosfetOfSwitch(net.switches[si]!, si)).filter((m) => m >= 0) };
       // an assignment with the keeper off: the leakage the keeper has to supply
       const fa = firstAssignmentFloating(masks, nn, i, free.length);
       res.gateAssignment = free.map((g, b) => [g, ((fa >> b) & 1) as 0 | 1]);
@@ -877,7 +877,7 @@ function cutOffDevices(net: SwitchNetwork, comp: Component, masks: Uint8Array, n
   const out: number[] = [];
   for (const si of comp.switches) {
     const s = net.switches[si]!;
-    if (s.mosfet >= 0 && island.has(s.a) !== island.has(s.b)) out.push(s.mosfet);
+    if (s.kind !== SwitchKind.On && island.has(s.a) !== island.has(s.b)) out.push(si);
   }
   return out;
 }

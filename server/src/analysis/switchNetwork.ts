@@ -30,8 +30,6 @@ export interface Switch {
   /** Gate net, or -1 for an always-on element. */
   gate: number;
   kind: SwitchKind;
-  /** Index into circuit.mosfets for a MOSFET, else -1. */
-  mosfet: number;
   /** Index into circuit.resistors / inductors for an always-on element, else -1. */
   other: number;
 }
@@ -78,11 +76,11 @@ export function buildSwitchNetwork(c: Circuit, clocks: Clock[]): SwitchNetwork {
   const switches: Switch[] = [];
   const drivesGate = new Uint8Array(n);
   c.mosfets.forEach((m, i) => {
-    switches.push({ a: m.d, b: m.s, gate: m.g, kind: m.polarity === 'n' ? SwitchKind.N : SwitchKind.P, mosfet: i, other: -1 });
+    switches.push({ a: m.d, b: m.s, gate: m.g, kind: m.polarity === 'n' ? SwitchKind.N : SwitchKind.P, other: -1 });
     drivesGate[m.g] = 1;
   });
-  c.resistors.forEach((r, i) => switches.push({ a: r.a, b: r.b, gate: -1, kind: SwitchKind.On, mosfet: -1, other: i }));
-  c.inductors.forEach((l, i) => switches.push({ a: l.a, b: l.b, gate: -1, kind: SwitchKind.On, mosfet: -1, other: i }));
+  c.resistors.forEach((r, i) => switches.push({ a: r.a, b: r.b, gate: -1, kind: SwitchKind.On, other: i }));
+  c.inductors.forEach((l, i) => switches.push({ a: l.a, b: l.b, gate: -1, kind: SwitchKind.On, other: i }));
 
   // Channel-connected components over internal nets.
   const parent = new Int32Array(n);
@@ -172,24 +170,25 @@ export function patchSwitchNetwork(prev: SwitchNetwork, c: Circuit, moved: reado
   let switches: Switch[];
   if (!renumbering) switches = prev.switches.slice();
   else {
-    switches = new Array<Switch>(prev.switches.length + nm - nmBefore);
-    prev.switches.forEach((s, si) => {
+    // a switch names no index of its own, so the kept ones are carried as they are
+    switches = [];
+    let k = 0;
+    for (let si = 0; si < prev.switches.length; si++) {
       const j = toNew(si);
-      if (j >= 0) switches[j] = s.mosfet >= 0 && s.mosfet !== j ? { ...s, mosfet: j } : s;
-    });
-    for (const j of renumbering.added) {
-      const m = c.mosfets[j]!;
-      switches[j] = { a: m.d, b: m.s, gate: m.g, kind: m.polarity === 'n' ? SwitchKind.N : SwitchKind.P, mosfet: j, other: -1 };
+      if (j < 0) continue;
+      for (; k < renumbering.added.length && renumbering.added[k]! < j; k++) switches.push(addedSwitch(c, renumbering.added[k]!));
+      switches.push(prev.switches[si]!);
     }
+    for (; k < renumbering.added.length; k++) switches.push(addedSwitch(c, renumbering.added[k]!));
   }
   for (const si of moved) {
     const old = prev.switches[si]!;
     if (si < nm) {
       const m = c.mosfets[si]!;
-      switches[si] = { a: m.d, b: m.s, gate: m.g, kind: old.kind, mosfet: si, other: -1 };
+      switches[si] = { a: m.d, b: m.s, gate: m.g, kind: old.kind, other: -1 };
     } else {
       const e = si < nm + nr ? c.resistors[si - nm]! : c.inductors[si - nm - nr]!;
-      switches[si] = { a: e.a, b: e.b, gate: -1, kind: SwitchKind.On, mosfet: -1, other: old.other };
+      switches[si] = { a: e.a, b: e.b, gate: -1, kind: SwitchKind.On, other: old.other };
     }
   }
   // each change as the switch before and after it (a moved one, an added one, a deleted one)
@@ -328,6 +327,16 @@ export function patchSwitchNetwork(prev: SwitchNetwork, c: Circuit, moved: reado
   const network: SwitchNetwork = { circuit: c, role, switches, componentOf, components, gatedComponents, drivesGate, unreachable };
   gateCounts.set(network, counts);
   return { network, rebuilt, previousId };
+}
+
+function addedSwitch(c: Circuit, i: number): Switch {
+  const m = c.mosfets[i]!;
+  return { a: m.d, b: m.s, gate: m.g, kind: m.polarity === 'n' ? SwitchKind.N : SwitchKind.P, other: -1 };
+}
+
+/** The MOSFET a switch is (MOSFETs come first, each its own switch index), or -1 for an always-on element. */
+export function mosfetOfSwitch(s: Switch, si: number): number {
+  return s.kind === SwitchKind.On ? -1 : si;
 }
 
 /** A kept group with its switches under their new indices (itself when none moved). */

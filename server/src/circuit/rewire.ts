@@ -294,7 +294,7 @@ function rewireCircuit(
   return { circuit, changed };
 }
 
-type OriginIndex = Map<Origin, number[]>;
+export type OriginIndex = Map<Origin, number[]>;
 
 /**
  * The positions of a list's elements by origin (every instance of a line shares one), built once
@@ -316,6 +316,11 @@ export function originIndex(list: ReadonlyArray<{ origin: Origin }>): OriginInde
     originIndexes.set(list, index);
   }
   return index;
+}
+
+/** Records `index` as the origin index of `list` (an edit that made the list worked it out). */
+export function setOriginIndex(list: ReadonlyArray<{ origin: Origin }>, index: OriginIndex): void {
+  originIndexes.set(list, index);
 }
 
 /** The index of `next` (`list` with the elements of the edited lines on moved origins). */

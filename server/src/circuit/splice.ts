@@ -17,7 +17,7 @@ import { selectModel } from './models';
 import { parseSpiceNumber } from './numbers';
 import { isPlainNumber, PLAUSIBLE_L_M, PLAUSIBLE_W_M, SIZE_PARAMS } from './patch';
 import { scopesOfStatements } from './rename';
-import { originIndex, sameList, slotsOf } from './rewire';
+import { originIndex, sameList, setOriginIndex, slotsOf } from './rewire';
 import { sameRange, sameStatement } from '../syntax/compare';
 import type { Statement, SyntaxFile } from '../syntax/tree';
 
@@ -319,78 +319,105 @@ function spliceCircuit(c: Circuit, e: SpliceEdit, limit: number): { circuit: Cir
   /** Inserts as (old position, device, its context's prefix), in list order. */
   const inserts: Array<{ at: number; prefix: string }> = [];
   if (contexts.length === 0) mosfets = moveAll(c.mosfets, e.moveOrigin);
-  else if (e.deleting) {
-    const prefixes = new Set(contexts.map((x) => x.prefix));
-    const keys = new Set(e.lines.map((l) => `${l.origin.file}|${startLineOf(l.origin.range)}|${l.origin.range.start.character}`));
-    const deleted: number[] = [];
-    for (const [o, at] of originIndex(c.mosfets)) {
-      if (!keys.has(`${o.file}|${startLineOf(o.range)}|${o.range.start.character}`)) continue;
-      for (const i of at) {
-        const m = c.mosfets[i]!;
-        if (!m.name.endsWith(o.local) || !prefixes.has(m.name.slice(0, m.name.length - o.local.length))) return undefined;
-        // a device without a card was counted in a finding
-        if (!m.card) return undefined;
-        deleted.push(i);
-      }
-    }
-    deleted.sort((x, y) => x - y);
-    if (deleted.length !== contexts.length * e.lines.length) return undefined;
-    const oldToNew = new Int32Array(nm);
-    mosfets = [];
-    for (let i = 0, k = 0; i < nm; i++) {
-      if (k < deleted.length && deleted[k] === i) {
-        oldToNew[i] = -1;
-        k++;
-        continue;
-      }
-      oldToNew[i] = mosfets.length;
-      mosfets.push(moveOne(c.mosfets[i]!, e.moveOrigin));
-    }
-    renumbering = { oldToNew, added: [], deleted };
-  } else {
-    const added: Mosfet[] = [];
-    for (const x of contexts) {
-      // the span's devices follow the body order of the elements they come from
-      const bodyOf = (i: number): number | undefined => {
-        const rest = c.mosfets[i]!.name.slice(x.prefix.length);
-        const dot = rest.indexOf('.');
-        return e.bodyIndex.get(dot < 0 ? rest : rest.slice(0, dot));
-      };
-      let lo = x.span[0];
-      let hi = x.span[1];
-      while (lo < hi) {
-        const mid = (lo + hi) >> 1;
-        const k = bodyOf(mid);
-        if (k === undefined) return undefined;
-        if (k < e.firstNewBodyIndex) lo = mid + 1;
-        else hi = mid;
-      }
-      for (const l of e.lines) {
-        const nets: number[] = [];
-        for (const s of l.slots) {
-          const id = flatNet(x.prefix, x.ports, s);
-          if (id === undefined) return undefined;
-          nets.push(id);
-        }
-        added.push({ name: x.prefix + l.local, ...l.values, d: nets[0]!, g: nets[1]!, s: nets[2]!, b: nets[3]!, origin: l.origin });
-        inserts.push({ at: lo, prefix: x.prefix });
-      }
-    }
+  else {
+    const index = originIndex(c.mosfets);
     const oldToNew = new Int32Array(nm);
     const addedAt: number[] = [];
-    mosfets = [];
-    let q = 0;
-    for (let i = 0; i <= nm; i++) {
-      for (; q < inserts.length && inserts[q]!.at === i; q++) {
-        addedAt.push(mosfets.length);
-        mosfets.push(orderedDevice(added[q]!));
+    const deleted: number[] = [];
+    const added: Mosfet[] = [];
+    if (e.deleting) {
+      const prefixes = new Set(contexts.map((x) => x.prefix));
+      const keys = new Set(e.lines.map((l) => `${l.origin.file}|${startLineOf(l.origin.range)}|${l.origin.range.start.character}`));
+      for (const [o, at] of index) {
+        if (!keys.has(`${o.file}|${startLineOf(o.range)}|${o.range.start.character}`)) continue;
+        for (const i of at) {
+          const m = c.mosfets[i]!;
+          if (!m.name.endsWith(o.local) || !prefixes.has(m.name.slice(0, m.name.length - o.local.length))) return undefined;
+          // a device without a card was counted in a finding
+          if (!m.card) return undefined;
+          deleted.push(i);
+        }
       }
-      if (i === nm) break;
-      oldToNew[i] = mosfets.length;
-      mosfets.push(moveOne(c.mosfets[i]!, e.moveOrigin));
+      deleted.sort((x, y) => x - y);
+      if (deleted.length !== contexts.length * e.lines.length) return undefined;
+    } else {
+      for (const x of contexts) {
+        // the span's devices follow the body order of the elements they come from
+        const bodyOf = (i: number): number | undefined => {
+          const rest = c.mosfets[i]!.name.slice(x.prefix.length);
+          const dot = rest.indexOf('.');
+          return e.bodyIndex.get(dot < 0 ? rest : rest.slice(0, dot));
+        };
+        let lo = x.span[0];
+        let hi = x.span[1];
+        while (lo < hi) {
+          const mid = (lo + hi) >> 1;
+          const k = bodyOf(mid);
+          if (k === undefined) return undefined;
+          if (k < e.firstNewBodyIndex) lo = mid + 1;
+          else hi = mid;
+        }
+        for (const l of e.lines) {
+          const nets: number[] = [];
+          for (const s of l.slots) {
+            const id = flatNet(x.prefix, x.ports, s);
+            if (id === undefined) return undefined;
+            nets.push(id);
+          }
+          const m: Mosfet = { name: x.prefix + l.local, polarity: l.values.polarity, d: nets[0]!, g: nets[1]!, s: nets[2]!, b: nets[3]!, wM: l.values.wM, lM: l.values.lM, m: l.values.m, nf: l.values.nf, model: l.values.model, card: l.values.card, origin: l.origin };
+          for (const k of ['adM2', 'asM2', 'pdM', 'psM'] as const) if (l.values[k] !== undefined) m[k] = l.values[k];
+          added.push(m);
+          inserts.push({ at: lo, prefix: x.prefix });
+        }
+      }
     }
-    if (q !== inserts.length) return undefined;
-    renumbering = { oldToNew, added: addedAt, deleted: [] };
+    // the list is copied in runs between the changes (the devices themselves are not read)
+    const runs: Mosfet[][] = [];
+    let from = 0;
+    let shift = 0;
+    const copyTo = (to: number) => {
+      runs.push(c.mosfets.slice(from, to));
+      for (let i = from; i < to; i++) oldToNew[i] = i + shift;
+      from = to;
+    };
+    if (e.deleting) {
+      for (const i of deleted) {
+        copyTo(i);
+        oldToNew[i] = -1;
+        from = i + 1;
+        shift--;
+      }
+    } else {
+      inserts.forEach((x, q) => {
+        copyTo(x.at);
+        addedAt.push(x.at + shift);
+        runs.push([added[q]!]);
+        shift++;
+      });
+    }
+    copyTo(nm);
+    mosfets = ([] as Mosfet[]).concat(...runs);
+    // the devices of lines after the edit take their lines' new places
+    const next = new Map<Origin, number[]>();
+    for (const [o, at] of index) {
+      const moved = e.moveOrigin(o);
+      const to: number[] = [];
+      for (const i of at) {
+        const j = oldToNew[i]!;
+        if (j < 0) continue;
+        to.push(j);
+        if (moved !== o) mosfets[j] = { ...c.mosfets[i]!, origin: moved };
+      }
+      if (to.length) next.set(moved, to);
+    }
+    for (let k = 0; k < added.length; k++) {
+      const o = added[k]!.origin;
+      const at = next.get(o);
+      if (at) at.push(addedAt[k]!);
+      else next.set(o, [addedAt[k]!]);
+    }
+    setOriginIndex(mosfets, next);
+    renumbering = { oldToNew, added: addedAt, deleted };
   }
 
   // each instance's span of devices below it, and every origin after the edit moved
@@ -410,11 +437,14 @@ function spliceCircuit(c: Circuit, e: SpliceEdit, limit: number): { circuit: Cir
     const [s, t] = inst.below.mosfets;
     if (!renumbering) return inst.below.mosfets;
     if (e.deleting) return [s - before(deletedList, s), t - before(deletedList, t)];
-    const q = inst.name + '.';
-    let ns = s + before(insertAt, s);
-    for (let k = before(insertAt, s); k < insertAt.length && insertAt[k] === s; k++) if (!inserts[k]!.prefix.startsWith(q)) ns++;
-    let nt = t + before(insertAt, t);
-    for (let k = before(insertAt, t); k < insertAt.length && insertAt[k] === t; k++) if (inserts[k]!.prefix.startsWith(q)) nt++;
+    // an insert where the span starts or ends is inside it when it belongs to the instance's subtree
+    const inside = (k: number) => inserts[k]!.prefix.startsWith(inst.name) && inserts[k]!.prefix[inst.name.length] === '.';
+    const bs = before(insertAt, s);
+    let ns = s + bs;
+    for (let k = bs; k < insertAt.length && insertAt[k] === s; k++) if (!inside(k)) ns++;
+    const bt = before(insertAt, t);
+    let nt = t + bt;
+    for (let k = bt; k < insertAt.length && insertAt[k] === t; k++) if (inside(k)) nt++;
     return [ns, nt];
   };
   const instances = c.instances.map((inst) => {
@@ -441,16 +471,6 @@ function spliceCircuit(c: Circuit, e: SpliceEdit, limit: number): { circuit: Cir
     instances: same(instances, c.instances),
   };
   return { circuit, renumbering };
-}
-
-/** A new device with its fields in the order the elaborator writes them (reports and tests read them in order). */
-function orderedDevice(m: Mosfet): Mosfet {
-  const out: Mosfet = { name: m.name, polarity: m.polarity, d: m.d, g: m.g, s: m.s, b: m.b, wM: m.wM, lM: m.lM, m: m.m, nf: m.nf, model: m.model, card: m.card, origin: m.origin };
-  if (m.adM2 !== undefined) out.adM2 = m.adM2;
-  if (m.asM2 !== undefined) out.asM2 = m.asM2;
-  if (m.pdM !== undefined) out.pdM = m.pdM;
-  if (m.psM !== undefined) out.psM = m.psM;
-  return out;
 }
 
 function moveOne<T extends { origin: Origin }>(x: T, move: (o: Origin) => Origin): T {

@@ -3,7 +3,7 @@
 // to the earlier map; the rarely walked whole map is made once, on demand. Chains of them are
 // folded into a plain map after a few edits, so lookups stay short.
 
-const MAX_DEPTH = 8;
+const MAX_DEPTH = 24;
 
 /**
  * The shared mechanism: a subclass answers lookups (`get`, `has`) and says how to make the whole
@@ -102,6 +102,23 @@ export class OverlayMap<K, V> extends DerivedMap<K, V> {
     return new OverlayMap(base, changes, depth, count).folded();
   }
 
+  /**
+   * `over`, and the keys of `changes` that `base` does not have merged in by key order (`base`
+   * walks in ascending key order, and so does the result).
+   */
+  static mergeInOrder<V>(base: ReadonlyMap<number, V>, changes: ReadonlyMap<number, V | undefined>): Map<number, V> {
+    const map = OverlayMap.extend(base, changes) as Map<number, V>;
+    if (map instanceof OverlayMap) map.ordered = true;
+    else {
+      // folded into a plain map: put it in key order
+      const sorted = new Map([...map].sort((a, b) => a[0] - b[0]));
+      return sorted;
+    }
+    return map;
+  }
+
+  private ordered = false;
+
   override get(key: K): V | undefined {
     return this.changes.has(key) ? this.changes.get(key) : this.base.get(key);
   }
@@ -125,8 +142,22 @@ export class OverlayMap<K, V> extends DerivedMap<K, V> {
         if (w !== undefined) m.set(k, w);
       }
     });
-    for (const [k, v] of changes) if (v !== undefined && !m.has(k)) m.set(k, v);
-    return m;
+    const added: Array<[K, V]> = [];
+    for (const [k, v] of changes) if (v !== undefined && !m.has(k)) added.push([k, v]);
+    if (!this.ordered || added.length === 0) {
+      for (const [k, v] of added) m.set(k, v);
+      return m;
+    }
+    // merged by key order with the earlier entries
+    added.sort((a, b) => (a[0] as number) - (b[0] as number));
+    const out = new Map<K, V>();
+    let i = 0;
+    for (const [k, v] of m) {
+      for (; i < added.length && (added[i]![0] as number) < (k as number); i++) out.set(added[i]![0], added[i]![1]);
+      out.set(k, v);
+    }
+    for (; i < added.length; i++) out.set(added[i]![0], added[i]![1]);
+    return out;
   }
 }
 

@@ -90,7 +90,7 @@ export function chargeSharing(ctx: ElectricalContext, node: number, phaseIndex: 
       for (const si of comp.switches) {
         const s = net.switches[si]!;
         if (s.a !== x && s.b !== x) continue;
-        if (s.mosfet >= 0 && keeperSet.has(s.mosfet)) continue;
+        if (s.kind !== SwitchKind.On && keeperSet.has(si)) continue;
         if (s.kind !== SwitchKind.On) {
           const g = gate(s.gate);
           if (g === 2 || (s.kind === SwitchKind.N) !== (g === 1)) continue;

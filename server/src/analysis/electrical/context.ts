@@ -145,7 +145,7 @@ function deviceLists(channels: number[][], gates: number[][]): Pick<ElectricalCo
 /** How many contexts a context's `channelOf` reads through (absent: none, it reads arrays). */
 const listDepth = new WeakMap<(x: number) => readonly number[], number>();
 /** Lists read through this many contexts are copied out whole (lookups stay short after many edits). */
-const MAX_LIST_DEPTH = 8;
+const MAX_LIST_DEPTH = 24;
 
 /**
  * Device lists made from an earlier context's: `channels` and `gates` give a net's new list, or
@@ -154,12 +154,8 @@ const MAX_LIST_DEPTH = 8;
 function overDeviceLists(ctx: ElectricalContext, netCount: number, channels: (x: number) => number[] | undefined, gates: (x: number) => number[] | undefined): Pick<ElectricalContext, 'channelOf' | 'gateOf'> {
   const depth = (listDepth.get(ctx.channelOf) ?? 0) + 1;
   const memo = (next: (x: number) => number[] | undefined, earlier: (x: number) => readonly number[]) => {
-    const seen = new Map<number, readonly number[]>();
-    return (x: number) => {
-      let l = seen.get(x);
-      if (!l) seen.set(x, (l = next(x) ?? earlier(x)));
-      return l;
-    };
+    const seen: Array<readonly number[] | undefined> = [];
+    return (x: number) => (seen[x] ??= next(x) ?? earlier(x));
   };
   const channelOf = memo(channels, ctx.channelOf);
   const gateOf = memo(gates, ctx.gateOf);

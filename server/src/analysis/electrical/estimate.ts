@@ -5,7 +5,7 @@
 import { renumbered } from '../../circuit/splice';
 import { floatsIn, nodeFloatWindow, type NodePhaseResult } from '../classify';
 import { evaluateComponent, newScratch, type Scratch } from '../constants';
-import { NetRole } from '../switchNetwork';
+import { mosfetOfSwitch, NetRole, SwitchKind } from '../switchNetwork';
 import { carryToTwin, familyOf, type Family } from './family';
 import { ITEMS_PER_SLICE, runToEnd, type Steps } from '../../core/steps';
 import { MappedMap, OverlayMap } from '../../core/overlay';
@@ -520,11 +520,11 @@ function structureKey(ctx: ElectricalContext, n: number, floating: Array<{ s: No
   const devices = canonicalDevices(ctx, n);
   for (const si of comp.switches) {
     const s = net.switches[si]!;
-    if (s.mosfet < 0) {
+    if (s.kind === SwitchKind.On) {
       parts.push(`r${code(s.a)}${code(s.b)}`);
       continue;
     }
-    const m = c.mosfets[s.mosfet]!;
+    const m = c.mosfets[si]!;
     parts.push(`${originId(m.origin)}:${m.wM}:${m.lM}:${m.m}:${m.nf}:${m.adM2}:${m.pdM}:${m.asM2}:${m.psM}:${code(m.d)}${code(m.g)}${code(m.s)}${code(m.b)}`);
   }
   for (const i of ctx.gateOf(n)) {
@@ -567,7 +567,7 @@ function canonicalDevices(ctx: ElectricalContext, n: number): number[] {
   const comp = net.components[net.componentOf[n]!]!;
   const devices: number[] = [];
   for (const si of comp.switches) {
-    const m = net.switches[si]!.mosfet;
+    const m = mosfetOfSwitch(net.switches[si]!, si);
     if (m >= 0) devices.push(m);
   }
   for (const i of ctx.gateOf(n)) devices.push(i);
@@ -701,21 +701,11 @@ export function reestimate(ctx: ElectricalContext, previous: ReadonlyMap<number,
     fresh.push(e);
     if (e && !previous.has(n)) added = true;
   }
-  let out: Map<number, NodeEstimate>;
-  if (!added) {
-    // replacing and deleting keep every other node where it was: still in node order
-    const changes = new Map<number, NodeEstimate | undefined>();
-    affected.forEach((n, k) => previous.has(n) && changes.set(n, fresh[k]));
-    out = OverlayMap.over(previous, changes);
-  } else {
-    out = new Map();
-    let k = 0;
-    for (const [n, e] of previous) {
-      for (; k < affected.length && affected[k]! < n; k++) if (fresh[k]) out.set(affected[k]!, fresh[k]!);
-      if (!redone[n]) out.set(n, e);
-    }
-    for (; k < affected.length; k++) if (fresh[k]) out.set(affected[k]!, fresh[k]!);
-  }
+  // replacing and deleting keep every other node where it was, and new nodes are merged in by
+  // node order when the map is walked: still in node order
+  const changes = new Map<number, NodeEstimate | undefined>();
+  affected.forEach((n, k) => (previous.has(n) || fresh[k]) && changes.set(n, fresh[k]));
+  const out = added ? OverlayMap.mergeInOrder(previous, changes) : OverlayMap.over(previous, changes);
   const before = sharedSolves.get(previous);
   const shareOf = before ? before.slice() : new Int32Array(netCount).fill(-1);
   // a kept node that copied a re-estimated one follows the first kept node of its family

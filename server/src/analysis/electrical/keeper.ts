@@ -4,6 +4,7 @@
 // that evaluation wins: a keeper-to-pull-down current ratio of about 0.1 to 0.3 is common
 // practice (no source). Minimum width and a longer-than-minimum length make it weak.
 
+import type { MosfetRenumbering } from '../../circuit/splice';
 import type { Circuit, Mosfet, Polarity } from '../../circuit/circuit';
 import { NetRole } from '../switchNetwork';
 import { channelCurrent } from './leakage';
@@ -247,17 +248,33 @@ export function sizeHolder(ctx: ElectricalContext, node: number, hotLeakage1A: n
 }
 
 /**
- * True when `b` (which is `a` with devices put in or taken out, `oldToNew` renumbering the rest)
- * gives every keeper the same sizing basis: the same smallest sizes, and the same first device
- * of each polarity under its new number.
+ * True when `b` (which is `a` with devices put in or taken out, `r` renumbering the rest) gives
+ * every keeper the same sizing basis: the same smallest sizes, and the same first device of each
+ * polarity under its new number. Unless a deleted device was a smallest or a first one, `b`'s
+ * basis is `a`'s renumbered with the added devices taken in, recorded without a scan.
  */
-export function sameSizingBasisRenumbered(a: Circuit, b: Circuit, oldToNew: Int32Array): boolean {
+export function sameSizingBasisRenumbered(a: Circuit, b: Circuit, r: MosfetRenumbering): boolean {
   const x = sizingBasis(a);
+  const above = (m: Mosfet, base: PolarityBasis) => m.wM / m.nf > base.wMin && m.lM > base.lMin;
+  if (!bases.has(b) && r.deleted.every((k) => k !== x[a.mosfets[k]!.polarity]!.first && above(a.mosfets[k]!, x[a.mosfets[k]!.polarity]!))) {
+    const y: SizingBasis = { n: x.n && { ...x.n, first: r.oldToNew[x.n.first]! }, p: x.p && { ...x.p, first: r.oldToNew[x.p.first]! } };
+    for (const j of r.added) {
+      const m = b.mosfets[j]!;
+      const k = y[m.polarity];
+      if (!k) y[m.polarity] = { wMin: m.wM / m.nf, lMin: m.lM, first: j };
+      else {
+        k.wMin = Math.min(k.wMin, m.wM / m.nf);
+        k.lMin = Math.min(k.lMin, m.lM);
+        k.first = Math.min(k.first, j);
+      }
+    }
+    bases.set(b, y);
+  }
   const y = sizingBasis(b);
   return (['n', 'p'] as const).every((pol) => {
     const s = x[pol];
     const t = y[pol];
     if (!s || !t) return s === t;
-    return s.wMin === t.wMin && s.lMin === t.lMin && oldToNew[s.first] === t.first;
+    return s.wMin === t.wMin && s.lMin === t.lMin && r.oldToNew[s.first] === t.first;
   });
 }

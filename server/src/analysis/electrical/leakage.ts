@@ -62,7 +62,7 @@ export function buildLeakageNetwork(ctx: ElectricalContext, node: number, phaseV
   const on = (si: number): boolean => {
     const s = net.switches[si]!;
     if (s.kind === SwitchKind.On) return true;
-    if (s.mosfet >= 0 && keeperSet.has(s.mosfet)) return false;
+    if (keeperSet.has(si)) return false;
     const gv = gateVolts(ctx, s.gate, phaseValues, assignment);
     if (gv === undefined) return false;
     const high = gv > ctx.vddV / 2;
@@ -85,7 +85,7 @@ export function buildLeakageNetwork(ctx: ElectricalContext, node: number, phaseV
       if (aInt && bInt) parent.set(find(s.a), find(s.b));
       else if (aInt) (strongOf.get(s.a) ?? strongOf.set(s.a, []).get(s.a)!).push(s.b);
       else if (bInt) (strongOf.get(s.b) ?? strongOf.set(s.b, []).get(s.b)!).push(s.a);
-    } else if (s.mosfet >= 0) offDevices.push(s.mosfet);
+    } else if (s.kind !== SwitchKind.On) offDevices.push(si);
   }
   const worstInput = storedLevel === 1 ? 0 : ctx.vddV;
   const strongVolts = (n: number): number => {
