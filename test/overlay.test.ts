@@ -3,7 +3,7 @@
 // the same.
 
 import { describe, expect, it } from 'vitest';
-import { DerivedMap, MappedMap, OverlayMap } from '../server/src/core/overlay';
+import { DerivedMap, OverlayMap, RenumberedMap } from '../server/src/core/overlay';
 
 const base = () => new Map([[1, 'a'], [3, 'c'], [5, 'e']]);
 
@@ -24,24 +24,32 @@ describe('derived maps', () => {
     expect(m.get(4)).toBe('d');
     expect(m.has(3)).toBe(false);
   });
-  it('a mapped map reads each entry through its function once, in the same order', () => {
-    let calls = 0;
-    const m = MappedMap.over(base(), (v) => (calls++, v.toUpperCase()));
-    expect(m.get(3)).toBe('C');
-    expect(m.get(3)).toBe('C');
+  // values are device lists; a renumbering maps old indices to new ones (-1: deleted)
+  const lists = () => new Map([[1, [0, 2]], [3, [1]], [5, [2, 3]]]);
+  let calls = 0;
+  const renumber = (v: number[], oldToNew: Int32Array) => (calls++, v.map((i) => oldToNew[i]!).filter((i) => i >= 0));
+  it('a renumbered map reads each entry through the renumbering once, in the same order', () => {
+    calls = 0;
+    const m = RenumberedMap.over(lists(), Int32Array.from([1, -1, 2, 3]), renumber);
+    expect(m.get(3)).toEqual([]);
+    expect(m.get(3)).toEqual([]);
     expect(calls).toBe(1);
     expect(m.has(2)).toBe(false);
-    expect([...m]).toEqual([[1, 'A'], [3, 'C'], [5, 'E']]);
+    expect([...m]).toEqual([[1, [1, 2]], [3, []], [5, [2, 3]]]);
     expect(calls).toBe(3);
-    expect(() => m.set(1, 'x')).toThrow();
+    expect(() => m.set(1, [])).toThrow();
   });
-  it('a long chain folds into a plain map that reads the same', () => {
-    let m: Map<number, string> = base();
-    const expected = base();
-    for (let i = 0; i < 40; i++) {
-      m = i % 2 ? MappedMap.over(m, (v) => v + '.') : OverlayMap.mergeInOrder(m, new Map([[10 + i, 'n']]));
-      if (i % 2) for (const [k, v] of expected) expected.set(k, v + '.');
-      else expected.set(10 + i, 'n');
+  it('renumberings compose below overlays: the chain does not grow with them', () => {
+    let m: Map<number, number[]> = lists();
+    const expected = lists();
+    // each round: one device put in at the front (every index moves up), then an overlay
+    for (let round = 0; round < 40; round++) {
+      const n = 4 + round;
+      const up = Int32Array.from({ length: n }, (_, i) => i + 1);
+      m = RenumberedMap.over(m, up, renumber);
+      for (const [k, v] of expected) expected.set(k, v.map((i) => i + 1));
+      m = OverlayMap.mergeInOrder(m, new Map([[10 + round, [0]]]));
+      expected.set(10 + round, [0]);
       expect(m instanceof DerivedMap ? m.depth : 0).toBeLessThanOrEqual(25);
     }
     expect([...m]).toEqual([...expected]);

@@ -11,7 +11,7 @@ import { floatWindow } from '../phases/phases';
 import { evaluateComponent, newScratch, propagateConstants, repropagateConstants, X, type Scratch } from './constants';
 import { mosfetOfSwitch, NetRole, SwitchKind, type Component, type SwitchNetwork } from './switchNetwork';
 import { ITEMS_PER_SLICE, runToEnd, type Steps } from '../core/steps';
-import { MappedMap, OverlayMap } from '../core/overlay';
+import { OverlayMap, RenumberedMap } from '../core/overlay';
 
 export type NodeStateName = 'driven' | 'conditional' | 'floating' | 'kept' | 'contention' | 'undriven';
 
@@ -401,22 +401,35 @@ export function reclassify(previous: Classification, net: SwitchNetwork, rebuilt
 }
 
 /**
- * The classification with the device indices in its results under their new numbers (devices
- * were put in or taken out ahead of them), for `reclassify` to start from. The witness memo is
- * not carried: it was filled for the old numbering.
+ * The classification with the device indices in its results (and in its memo of checked
+ * witnesses) under their new numbers (devices were put in or taken out ahead of them), for
+ * `reclassify` to start from. Each result is renumbered when it is first read.
  */
 export function renumberDevices(cl: Classification, oldToNew: Int32Array): Classification {
-  const renumber = (r: NodePhaseResult): NodePhaseResult => {
-    const cutOff = r.cutOff && renumbered(r.cutOff, oldToNew);
-    const keepers = r.keepers && renumbered(r.keepers, oldToNew);
-    if (cutOff === r.cutOff && keepers === r.keepers) return r;
-    const next: NodePhaseResult = { ...r };
-    if (cutOff) next.cutOff = cutOff;
-    if (keepers) next.keepers = keepers;
-    return next;
-  };
-  // each result is renumbered when it is first read: an edit reads a few
-  return { ...cl, perPhase: cl.perPhase.map((m) => MappedMap.over(m, renumber)) };
+  const out: Classification = { ...cl, perPhase: cl.perPhase.map((m) => RenumberedMap.over(m, oldToNew, renumberResult)) };
+  // the checked witnesses carry over under the new numbers (a group with a deleted device
+  // no longer exists in that shape); -1 in a memo's list is an always-on element
+  const memo = witnessMemos.get(cl);
+  if (memo) {
+    const next = new Map<string, WitnessMemo>();
+    for (const [key, w] of memo) {
+      const mosfets = w.mosfets.map((i) => (i < 0 ? i : oldToNew[i]!));
+      if (mosfets.some((j, k) => j < 0 && w.mosfets[k]! >= 0)) continue;
+      next.set(key, { nets: w.nets, mosfets, results: w.results.map((r) => r && renumberResult(r, oldToNew)) });
+    }
+    witnessMemos.set(out, next);
+  }
+  return out;
+}
+
+function renumberResult(r: NodePhaseResult, oldToNew: Int32Array): NodePhaseResult {
+  const cutOff = r.cutOff && renumbered(r.cutOff, oldToNew);
+  const keepers = r.keepers && renumbered(r.keepers, oldToNew);
+  if (cutOff === r.cutOff && keepers === r.keepers) return r;
+  const next: NodePhaseResult = { ...r };
+  if (cutOff) next.cutOff = cutOff;
+  if (keepers) next.keepers = keepers;
+  return next;
 }
 
 /** Two results of a node read the same (field by field, in the same order, as the findings and estimates read them). */

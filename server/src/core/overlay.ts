@@ -66,12 +66,20 @@ export abstract class DerivedMap<K, V> extends Map<K, V> {
  */
 export class OverlayMap<K, V> extends DerivedMap<K, V> {
   private constructor(
-    private readonly base: ReadonlyMap<K, V>,
-    private readonly changes: ReadonlyMap<K, V | undefined>,
+    readonly base: ReadonlyMap<K, V>,
+    readonly changes: ReadonlyMap<K, V | undefined>,
     depth: number,
-    private readonly count: number,
+    readonly count: number,
   ) {
     super(depth);
+  }
+
+  /** The same overlay on another base (the same keys), with other changes: for a renumbering pushed below it. */
+  static rebased<K, V>(of: OverlayMap<K, V>, base: ReadonlyMap<K, V>, changes: ReadonlyMap<K, V | undefined>): Map<K, V> {
+    const depth = base instanceof DerivedMap ? base.depth + 1 : 1;
+    const map = new OverlayMap(base, changes, depth, of.count);
+    map.ordered = of.ordered;
+    return map.folded();
   }
 
   /**
@@ -117,7 +125,7 @@ export class OverlayMap<K, V> extends DerivedMap<K, V> {
     return map;
   }
 
-  private ordered = false;
+  ordered = false;
 
   override get(key: K): V | undefined {
     return this.changes.has(key) ? this.changes.get(key) : this.base.get(key);
@@ -162,23 +170,38 @@ export class OverlayMap<K, V> extends DerivedMap<K, V> {
 }
 
 /**
- * An earlier map with every value read through `fn` (the same keys, in the same order): worked
- * out per entry when it is first read, so a result renumbered after an edit costs what is read.
+ * An earlier map with the device indices in its values under new numbers (`renumber` reads a
+ * value through an old-to-new index map): worked out per entry when it is first read. A
+ * renumbering of a map that is itself an overlay on a renumbered map is pushed below the
+ * overlays and composed with the one there (the overlays' few changed entries are renumbered
+ * at once), so a run of edits that renumber never makes the chain deeper than its overlays.
  */
-export class MappedMap<K, V> extends DerivedMap<K, V> {
+export class RenumberedMap<K, V> extends DerivedMap<K, V> {
   private readonly memo = new Map<K, V>();
 
   private constructor(
     private readonly base: ReadonlyMap<K, V>,
-    private readonly fn: (v: V) => V,
+    private readonly oldToNew: Int32Array,
+    private readonly renumber: (v: V, oldToNew: Int32Array) => V,
     depth: number,
   ) {
     super(depth);
   }
 
-  static over<K, V>(base: ReadonlyMap<K, V>, fn: (v: V) => V): Map<K, V> {
-    const depth = base instanceof DerivedMap ? base.depth + 1 : 1;
-    return new MappedMap(base, fn, depth).folded();
+  static over<K, V>(map: ReadonlyMap<K, V>, oldToNew: Int32Array, renumber: (v: V, oldToNew: Int32Array) => V): Map<K, V> {
+    if (map instanceof RenumberedMap && map.renumber === renumber) {
+      const composed = new Int32Array(map.oldToNew.length);
+      for (let i = 0; i < composed.length; i++) composed[i] = map.oldToNew[i]! < 0 ? -1 : oldToNew[map.oldToNew[i]!]!;
+      return new RenumberedMap(map.base, composed, renumber, map.depth);
+    }
+    if (map instanceof OverlayMap) {
+      const o = map as OverlayMap<K, V>;
+      const changes = new Map<K, V | undefined>();
+      for (const [k, v] of o.changes) changes.set(k, v === undefined ? undefined : renumber(v, oldToNew));
+      return OverlayMap.rebased(o, RenumberedMap.over(o.base, oldToNew, renumber), changes);
+    }
+    const depth = map instanceof DerivedMap ? map.depth + 1 : 1;
+    return new RenumberedMap(map, oldToNew, renumber, depth).folded();
   }
 
   override get(key: K): V | undefined {
@@ -186,7 +209,7 @@ export class MappedMap<K, V> extends DerivedMap<K, V> {
     if (v === undefined) {
       const b = this.base.get(key);
       if (b === undefined) return undefined;
-      v = this.fn(b);
+      v = this.renumber(b, this.oldToNew);
       this.memo.set(key, v);
     }
     return v;

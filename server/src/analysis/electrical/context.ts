@@ -63,7 +63,7 @@ export function buildContext(circuit: Circuit, network: SwitchNetwork, plan: Pha
     classification,
     ...opts,
     railVolts,
-    ...deviceLists(channelOf, gateOf),
+    ...deviceLists({ channels: new NetDeviceLists(channelOf, undefined, new Map(), new Map()), gates: new NetDeviceLists(gateOf, undefined, new Map(), new Map()) }),
     capsOf,
     model(m) {
       let x = models.get(m);
@@ -114,7 +114,8 @@ export function rewiredContext(ctx: ElectricalContext, circuit: Circuit, network
     capsOf = capsOf.slice();
     for (const [x, l] of caps) capsOf[x] = l;
   }
-  return { ...ctx, circuit, network, classification, ...overDeviceLists(ctx, circuit.nets.length, (x) => channels.get(x), (x) => gates.get(x)), capsOf };
+  const lists = listsOf(ctx);
+  return { ...ctx, circuit, network, classification, ...deviceLists({ channels: lists.channels.with(channels), gates: lists.gates.with(gates) }), capsOf };
 }
 
 /**
@@ -128,46 +129,85 @@ export function renumberedContext(ctx: ElectricalContext, circuit: Circuit, netw
     for (const i of r.added) for (const x of new Set(pick(circuit.mosfets[i]!))) on.set(x, [...(on.get(x) ?? []), i]);
     return on;
   };
-  const channelsAdded = addedOn((m) => [m.d, m.s]);
-  const gatesAdded = addedOn((m) => [m.g]);
-  const renumber = (list: readonly number[], added: number[] | undefined): number[] => {
-    const out = renumbered(list, r.oldToNew);
-    return added ? [...out, ...added].sort((a, b) => a - b) : out;
-  };
-  return { ...ctx, circuit, network, classification, ...overDeviceLists(ctx, circuit.nets.length, (x) => renumber(ctx.channelOf(x), channelsAdded.get(x)), (x) => renumber(ctx.gateOf(x), gatesAdded.get(x))) };
+  const lists = listsOf(ctx);
+  return { ...ctx, circuit, network, classification, ...deviceLists({ channels: lists.channels.renumbered(r, addedOn((m) => [m.d, m.s])), gates: lists.gates.renumbered(r, addedOn((m) => [m.g])) }) };
 }
-
-/** Device lists read from per-net arrays. */
-function deviceLists(channels: number[][], gates: number[][]): Pick<ElectricalContext, 'channelOf' | 'gateOf'> {
-  return { channelOf: (x) => channels[x]!, gateOf: (x) => gates[x]! };
-}
-
-/** How many contexts a context's `channelOf` reads through (absent: none, it reads arrays). */
-const listDepth = new WeakMap<(x: number) => readonly number[], number>();
-/** Lists read through this many contexts are copied out whole (lookups stay short after many edits). */
-const MAX_LIST_DEPTH = 24;
 
 /**
- * Device lists made from an earlier context's: `channels` and `gates` give a net's new list, or
- * undefined for the earlier one. Each net's list is worked out once, when first read.
+ * One kind of per-net device list after edits: the lists a full pass built, the renumbering
+ * from their numbers to the current ones (composed over every splice since), devices added
+ * since (current numbers) and lists rebuilt since (current numbers). Never more than one level
+ * deep, so lookups stay short after any number of edits; each net's list is worked out once.
  */
-function overDeviceLists(ctx: ElectricalContext, netCount: number, channels: (x: number) => number[] | undefined, gates: (x: number) => number[] | undefined): Pick<ElectricalContext, 'channelOf' | 'gateOf'> {
-  const depth = (listDepth.get(ctx.channelOf) ?? 0) + 1;
-  const memo = (next: (x: number) => number[] | undefined, earlier: (x: number) => readonly number[]) => {
-    const seen: Array<readonly number[] | undefined> = [];
-    return (x: number) => (seen[x] ??= next(x) ?? earlier(x));
-  };
-  const channelOf = memo(channels, ctx.channelOf);
-  const gateOf = memo(gates, ctx.gateOf);
-  if (depth > MAX_LIST_DEPTH) {
-    const c: number[][] = [];
-    const g: number[][] = [];
-    for (let x = 0; x < netCount; x++) {
-      c.push(channelOf(x) as number[]);
-      g.push(gateOf(x) as number[]);
+class NetDeviceLists {
+  private readonly seen: Array<readonly number[] | undefined> = [];
+
+  constructor(
+    private readonly root: readonly (readonly number[])[],
+    private readonly oldToNew: Int32Array | undefined,
+    private readonly added: ReadonlyMap<number, readonly number[]>,
+    private readonly rebuilt: ReadonlyMap<number, readonly number[]>,
+  ) {}
+
+  at(x: number): readonly number[] {
+    let l = this.seen[x];
+    if (!l) {
+      l = this.rebuilt.get(x);
+      if (!l) {
+        const base = this.oldToNew ? renumbered(this.root[x]!, this.oldToNew) : this.root[x]!;
+        const more = this.added.get(x);
+        l = more ? [...base, ...more].sort((a, b) => a - b) : base;
+      }
+      this.seen[x] = l;
     }
-    return deviceLists(c, g);
+    return l;
   }
-  listDepth.set(channelOf, depth);
-  return { channelOf, gateOf };
+
+  /** With some nets' lists rebuilt (current numbers). */
+  with(rebuilt: ReadonlyMap<number, readonly number[]>): NetDeviceLists {
+    if (rebuilt.size === 0) return this;
+    const all = new Map(this.rebuilt);
+    for (const [x, l] of rebuilt) all.set(x, l);
+    return new NetDeviceLists(this.root, this.oldToNew, this.added, all);
+  }
+
+  /** Under a further renumbering, with devices added on some nets (new numbers). */
+  renumbered(r: MosfetRenumbering, addedOn: ReadonlyMap<number, readonly number[]>): NetDeviceLists {
+    const oldToNew = this.oldToNew ? composeRenumberings(this.oldToNew, r.oldToNew) : r.oldToNew;
+    const added = new Map<number, readonly number[]>();
+    for (const [x, l] of this.added) {
+      const m = renumbered(l, r.oldToNew);
+      if (m.length) added.set(x, m);
+    }
+    for (const [x, l] of addedOn) added.set(x, [...(added.get(x) ?? []), ...l].sort((a, b) => a - b));
+    const rebuilt = new Map<number, readonly number[]>();
+    // a rebuilt net's list takes the added devices in itself
+    for (const [x, l] of this.rebuilt) {
+      const m = renumbered(l, r.oldToNew);
+      const more = addedOn.get(x);
+      rebuilt.set(x, more ? [...m, ...more].sort((a, b) => a - b) : m);
+    }
+    for (const x of rebuilt.keys()) added.delete(x);
+    return new NetDeviceLists(this.root, oldToNew, added, rebuilt);
+  }
+}
+
+/** `first` then `second`: old index to newest, -1 for a device either one deleted. */
+function composeRenumberings(first: Int32Array, second: Int32Array): Int32Array {
+  const out = new Int32Array(first.length);
+  for (let i = 0; i < first.length; i++) out[i] = first[i]! < 0 ? -1 : second[first[i]!]!;
+  return out;
+}
+
+const listsOfContext = new WeakMap<(x: number) => readonly number[], { channels: NetDeviceLists; gates: NetDeviceLists }>();
+
+function listsOf(ctx: ElectricalContext): { channels: NetDeviceLists; gates: NetDeviceLists } {
+  return listsOfContext.get(ctx.channelOf)!;
+}
+
+/** A context's `channelOf` and `gateOf`, read from its lists (kept for the next edit's context). */
+function deviceLists(lists: { channels: NetDeviceLists; gates: NetDeviceLists }): Pick<ElectricalContext, 'channelOf' | 'gateOf'> {
+  const channelOf = (x: number) => lists.channels.at(x);
+  listsOfContext.set(channelOf, lists);
+  return { channelOf, gateOf: (x) => lists.gates.at(x) };
 }

@@ -8,7 +8,7 @@ import { evaluateComponent, newScratch, type Scratch } from '../constants';
 import { mosfetOfSwitch, NetRole, SwitchKind } from '../switchNetwork';
 import { carryToTwin, familyOf, type Family } from './family';
 import { ITEMS_PER_SLICE, runToEnd, type Steps } from '../../core/steps';
-import { MappedMap, OverlayMap } from '../../core/overlay';
+import { OverlayMap, RenumberedMap } from '../../core/overlay';
 import type { ElectricalContext } from './context';
 import { capacitanceSignature, islandCapacitance, type CapacitanceBreakdown } from './capacitance';
 import { buildLeakageNetwork, leakageAt, leakageSignature, type LeakageContributor } from './leakage';
@@ -215,23 +215,23 @@ export function renameEstimates(estimates: Map<number, NodeEstimate>, names: Rea
  * them), each node's figures kept; the shared solves carry over (they are by node).
  */
 export function renumberEstimates(estimates: ReadonlyMap<number, NodeEstimate>, oldToNew: Int32Array): Map<number, NodeEstimate> {
-  const renumber = (e: NodeEstimate): NodeEstimate => {
-    const devices = renumbered(e.devices, oldToNew);
-    const k = e.keeper;
-    const keeperDevices = k && renumbered(k.devices, oldToNew);
-    const against = k && renumbered(k.against, oldToNew);
-    const aggressorsMove = e.capacitance.aggressors.some((x) => x.device !== undefined && oldToNew[x.device] !== x.device);
-    if (devices === e.devices && keeperDevices === k?.devices && against === k?.against && !aggressorsMove) return e;
-    const next: NodeEstimate = { ...e, devices };
-    if (k) next.keeper = { ...k, devices: keeperDevices!, against: against! };
-    if (aggressorsMove) next.capacitance = { ...e.capacitance, aggressors: e.capacitance.aggressors.map((x) => (x.device === undefined ? x : { ...x, device: oldToNew[x.device]! })) };
-    return next;
-  };
-  // each estimate is renumbered when it is first read: an edit reads a few
-  const out = MappedMap.over(estimates, renumber);
+  const out = RenumberedMap.over(estimates, oldToNew, renumberEstimate);
   const shares = sharedSolves.get(estimates);
   if (shares) sharedSolves.set(out, shares);
   return out;
+}
+
+function renumberEstimate(e: NodeEstimate, oldToNew: Int32Array): NodeEstimate {
+  const devices = renumbered(e.devices, oldToNew);
+  const k = e.keeper;
+  const keeperDevices = k && renumbered(k.devices, oldToNew);
+  const against = k && renumbered(k.against, oldToNew);
+  const aggressorsMove = e.capacitance.aggressors.some((x) => x.device !== undefined && oldToNew[x.device] !== x.device);
+  if (devices === e.devices && keeperDevices === k?.devices && against === k?.against && !aggressorsMove) return e;
+  const next: NodeEstimate = { ...e, devices };
+  if (k) next.keeper = { ...k, devices: keeperDevices!, against: against! };
+  if (aggressorsMove) next.capacitance = { ...e.capacitance, aggressors: e.capacitance.aggressors.map((x) => (x.device === undefined ? x : { ...x, device: oldToNew[x.device]! })) };
+  return next;
 }
 
 /** The nodes whose estimates can read a device: those of the groups on its drain, gate and source. */
