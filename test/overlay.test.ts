@@ -2,6 +2,7 @@
 // hold, in what order they walk, and that long chains of them fold into plain maps that read
 // the same.
 
+import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { DerivedMap, OverlayMap, RenumberedMap } from '../server/src/core/overlay';
 
@@ -53,5 +54,28 @@ describe('derived maps', () => {
       expect(m instanceof DerivedMap ? m.depth : 0).toBeLessThanOrEqual(25);
     }
     expect([...m]).toEqual([...expected]);
+  });
+  it('a chain of overlays of one kind walks, looks up and counts as the same edits on a plain map', () => {
+    const change = fc.tuple(fc.nat(30), fc.option(fc.string({ maxLength: 2 }), { nil: undefined }));
+    fc.assert(
+      fc.property(fc.constantFrom('over', 'extend', 'merge'), fc.array(fc.array(change, { maxLength: 6 }), { maxLength: 40 }), (kind, edits) => {
+        let m: Map<number, string> = new Map(Array.from({ length: 12 }, (_, i) => [i * 2, `b${i}`] as [number, string]));
+        let plain = new Map(m);
+        for (const list of edits) {
+          const changes = new Map<number, string | undefined>();
+          for (const [k, v] of list) if (kind !== 'over' || plain.has(k)) changes.set(k, v);
+          if (kind === 'over') m = OverlayMap.over(m, changes);
+          else if (kind === 'extend') m = OverlayMap.extend(m, changes);
+          else m = OverlayMap.mergeInOrder(m, changes);
+          const next = new Map(plain);
+          for (const [k, v] of changes) v === undefined ? next.delete(k) : next.set(k, v);
+          plain = kind === 'merge' ? new Map([...next].sort((a, b) => a[0] - b[0])) : next;
+        }
+        expect(m.size).toBe(plain.size);
+        for (let k = 0; k <= 30; k++) expect([m.has(k), m.get(k)]).toEqual([plain.has(k), plain.get(k)]);
+        expect([...m]).toEqual([...plain]);
+      }),
+      { numRuns: 300, seed: 5 },
+    );
   });
 });

@@ -135,6 +135,7 @@ function settle(net: SwitchNetwork, values: Uint8Array, queue: number[], scratch
  */
 export function repropagateConstants(net: SwitchNetwork, previous: Uint8Array, rebuilt: readonly number[], scratch: Scratch = newScratch(net.role.length)): Uint8Array | undefined {
   if (unsettled.has(previous)) return undefined;
+  if (rebuiltKeepTheirValues(net, previous, rebuilt, scratch)) return previous.slice();
   const values = previous.slice();
   const reached = new Uint8Array(net.components.length);
   const queue: number[] = [];
@@ -146,4 +147,30 @@ export function repropagateConstants(net: SwitchNetwork, previous: Uint8Array, r
     }
   }
   return settle(net, values, queue, scratch) ? values : undefined;
+}
+
+/**
+ * True when every rebuilt group's nodes come out as they were both with its gates at their
+ * values before the edit and with every internal gate unknown. Evaluation is monotone, so the
+ * nodes come out so for any gate values between those two, which is all a propagation from
+ * unknown can pass through: the rebuilt nodes hold their old values from the start, everything
+ * they gate sees what it saw before, and the old fixpoint is still the least one.
+ */
+function rebuiltKeepTheirValues(net: SwitchNetwork, previous: Uint8Array, rebuilt: readonly number[], scratch: Scratch): boolean {
+  const out = new Uint8Array(previous.length);
+  for (const id of rebuilt) {
+    const comp = net.components[id]!;
+    if (comp.nodes.length === 0) continue;
+    evaluateComponent(net, comp, previous, out, scratch);
+    for (const x of comp.nodes) if (out[x] !== previous[x]) return false;
+  }
+  const unknown = previous.slice();
+  for (const id of rebuilt) for (const g of net.components[id]!.gates) if (net.role[g] === NetRole.Internal) unknown[g] = X;
+  for (const id of rebuilt) {
+    const comp = net.components[id]!;
+    if (comp.nodes.length === 0) continue;
+    evaluateComponent(net, comp, unknown, out, scratch);
+    for (const x of comp.nodes) if (out[x] !== previous[x]) return false;
+  }
+  return true;
 }

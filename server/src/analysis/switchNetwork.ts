@@ -5,7 +5,7 @@
 
 import type { Circuit } from '../circuit/circuit';
 import type { Clock } from '../phases/clocks';
-import type { MosfetRenumbering } from '../circuit/splice';
+import { renumbered, type MosfetRenumbering } from '../circuit/splice';
 
 export const enum NetRole {
   Internal = 0,
@@ -166,21 +166,38 @@ export function patchSwitchNetwork(prev: SwitchNetwork, c: Circuit, moved: reado
   const nr = c.resistors.length;
   // devices put in or taken out: the switches after them take new indices
   const nmBefore = prev.circuit.mosfets.length;
-  const toNew = (si: number) => (!renumbering ? si : si < nmBefore ? renumbering.oldToNew[si]! : si + nm - nmBefore);
+  let switchMap: Int32Array | undefined;
   let switches: Switch[];
   if (!renumbering) switches = prev.switches.slice();
   else {
-    // a switch names no index of its own, so the kept ones are carried as they are
-    switches = [];
-    let k = 0;
-    for (let si = 0; si < prev.switches.length; si++) {
-      const j = toNew(si);
-      if (j < 0) continue;
-      for (; k < renumbering.added.length && renumbering.added[k]! < j; k++) switches.push(addedSwitch(c, renumbering.added[k]!));
-      switches.push(prev.switches[si]!);
+    switchMap = new Int32Array(prev.switches.length);
+    switchMap.set(renumbering.oldToNew);
+    for (let si = nmBefore; si < switchMap.length; si++) switchMap[si] = si + nm - nmBefore;
+    // a switch names no index of its own, so the kept ones are carried as they are, in runs
+    const runs: Switch[][] = [];
+    let from = 0;
+    for (const i of renumbering.deleted) {
+      runs.push(prev.switches.slice(from, i));
+      from = i + 1;
     }
-    for (; k < renumbering.added.length; k++) switches.push(addedSwitch(c, renumbering.added[k]!));
+    runs.push(prev.switches.slice(from));
+    const kept = ([] as Switch[]).concat(...runs);
+    if (renumbering.added.length === 0) switches = kept;
+    else {
+      switches = [];
+      let at = 0;
+      const pieces: Switch[][] = [];
+      for (const j of renumbering.added) {
+        // j - (added before it) kept switches come before the j-th position
+        const upTo = j - pieces.length / 2;
+        pieces.push(kept.slice(at, upTo), [addedSwitch(c, j)]);
+        at = upTo;
+      }
+      pieces.push(kept.slice(at));
+      switches = switches.concat(...pieces);
+    }
   }
+  const toNew = (si: number) => (switchMap ? switchMap[si]! : si);
   for (const si of moved) {
     const old = prev.switches[si]!;
     if (si < nm) {
@@ -273,7 +290,11 @@ export function patchSwitchNetwork(prev: SwitchNetwork, c: Circuit, moved: reado
 
   // the rebuilt groups take the old groups' ids (extra ones are added at the end, ids left over
   // stay as empty groups): every other group keeps its id, so nothing else is renumbered
-  const components = renumbering ? prev.components.map((comp) => renumberedGroup(comp, toNew)) : prev.components.slice();
+  let components: Component[];
+  if (!renumbering) components = prev.components.slice();
+  else {
+    components = renumberedGroups(prev.components, switchMap!);
+  }
   const componentOf = prev.componentOf.slice();
   const freed = [...touched].sort((x, y) => x - y);
   const rebuilt: number[] = [];
@@ -289,7 +310,8 @@ export function patchSwitchNetwork(prev: SwitchNetwork, c: Circuit, moved: reado
   }
   rebuilt.sort((x, y) => x - y);
   const previousId = new Int32Array(components.length);
-  for (let id = 0; id < previousId.length; id++) previousId[id] = id < prev.components.length && !touched.has(id) ? id : -1;
+  for (let id = 0; id < previousId.length; id++) previousId[id] = id < prev.components.length ? id : -1;
+  for (const id of touched) previousId[id] = -1;
 
   // each net's gated groups, in the order a fresh build lists them (by the first switch it gates)
   const gatesToRedo = new Set<number>(oldGates);
@@ -339,14 +361,39 @@ export function mosfetOfSwitch(s: Switch, si: number): number {
   return s.kind === SwitchKind.On ? -1 : si;
 }
 
-/** A kept group with its switches under their new indices (itself when none moved). */
-function renumberedGroup(comp: Component, toNew: (si: number) => number): Component {
-  let out: number[] | undefined;
-  for (let k = 0; k < comp.switches.length; k++) {
-    const j = toNew(comp.switches[k]!);
-    if (j !== comp.switches[k]) (out ??= comp.switches.slice())[k] = j;
+/**
+ * A kept group whose switch list is read under a renumbering of the switches (old index to new,
+ * -1 for a deleted one), worked out when first read: an edit reads a few groups' lists. A
+ * group renumbered again composes the two renumberings over the list it started from.
+ */
+class RenumberedGroup implements Component {
+  private list: number[] | undefined;
+
+  constructor(
+    readonly id: number,
+    readonly nodes: number[],
+    readonly gates: number[],
+    readonly root: readonly number[],
+    readonly map: Int32Array,
+  ) {}
+
+  get switches(): number[] {
+    return (this.list ??= renumbered(this.root, this.map));
   }
-  return out ? { id: comp.id, nodes: comp.nodes, switches: out.filter((j) => j >= 0), gates: comp.gates } : comp;
+}
+
+function renumberedGroups(groups: readonly Component[], map: Int32Array): Component[] {
+  const composed = new Map<Int32Array, Int32Array>();
+  const over = (earlier: Int32Array) => {
+    let c = composed.get(earlier);
+    if (!c) {
+      c = new Int32Array(earlier.length);
+      for (let i = 0; i < c.length; i++) c[i] = earlier[i]! < 0 ? -1 : map[earlier[i]!]!;
+      composed.set(earlier, c);
+    }
+    return c;
+  };
+  return groups.map((g) => (g instanceof RenumberedGroup ? new RenumberedGroup(g.id, g.nodes, g.gates, g.root, over(g.map)) : new RenumberedGroup(g.id, g.nodes, g.gates, g.switches, map)));
 }
 
 /** Gates driven by each net (the counts behind `drivesGate`), for the next patch. */

@@ -433,34 +433,48 @@ function spliceCircuit(c: Circuit, e: SpliceEdit, limit: number): { circuit: Cir
   };
   const insertAt = inserts.map((x) => x.at);
   const deletedList = renumbering?.deleted ?? [];
-  const newSpan = (inst: Instance): [number, number] => {
-    const [s, t] = inst.below.mosfets;
-    if (!renumbering) return inst.below.mosfets;
-    if (e.deleting) return [s - before(deletedList, s), t - before(deletedList, t)];
-    // an insert where the span starts or ends is inside it when it belongs to the instance's subtree
-    const inside = (k: number) => inserts[k]!.prefix.startsWith(inst.name) && inserts[k]!.prefix[inst.name.length] === '.';
-    const bs = before(insertAt, s);
-    let ns = s + bs;
-    for (let k = bs; k < insertAt.length && insertAt[k] === s; k++) if (!inside(k)) ns++;
-    const bt = before(insertAt, t);
-    let nt = t + bt;
-    for (let k = bt; k < insertAt.length && insertAt[k] === t; k++) if (inside(k)) nt++;
-    return [ns, nt];
-  };
-  const instances = c.instances.map((inst) => {
+  // an insert where the span starts or ends is inside it when it belongs to the instance's subtree
+  const inside = (k: number, inst: Instance) => inserts[k]!.prefix.startsWith(inst.name) && inserts[k]!.prefix[inst.name.length] === '.';
+  let instances = c.instances;
+  for (let i = 0; i < c.instances.length; i++) {
+    const inst = c.instances[i]!;
     const origin = e.moveOrigin(inst.origin);
-    const span = newSpan(inst);
-    if (origin === inst.origin && span[0] === inst.below.mosfets[0] && span[1] === inst.below.mosfets[1]) return inst;
-    return { ...inst, origin, below: { mosfets: span, instances: inst.below.instances } };
-  });
-  const nets: Net[] = c.nets.map((n) => {
-    const to = n.origin.subckt === e.scope && !n.global ? e.netOrigins.get(n.origin.local) : undefined;
-    const origin = to ?? e.moveOrigin(n.origin);
-    return origin === n.origin ? n : { ...n, origin };
-  });
+    const span = inst.below.mosfets;
+    let ns = span[0];
+    let nt = span[1];
+    if (renumbering && e.deleting) {
+      ns -= before(deletedList, span[0]);
+      nt -= before(deletedList, span[1]);
+    } else if (renumbering) {
+      const bs = before(insertAt, span[0]);
+      ns += bs;
+      for (let k = bs; k < insertAt.length && insertAt[k] === span[0]; k++) if (!inside(k, inst)) ns++;
+      const bt = before(insertAt, span[1]);
+      nt += bt;
+      for (let k = bt; k < insertAt.length && insertAt[k] === span[1]; k++) if (inside(k, inst)) nt++;
+    }
+    if (origin === inst.origin && ns === span[0] && nt === span[1]) continue;
+    if (instances === c.instances) instances = c.instances.slice();
+    instances[i] = { name: inst.name, subckt: inst.subckt, ports: inst.ports, below: { mosfets: [ns, nt], instances: inst.below.instances }, origin };
+  }
+  // nets by where they were first written (every instance of a line shares the origin)
+  let nets: Net[] = c.nets;
+  const netIndex = originIndex(c.nets);
+  const nextNetIndex = new Map<Origin, number[]>();
+  for (const [o, at] of netIndex) {
+    const first = c.nets[at[0]!]!;
+    const to = o.subckt === e.scope && !first.global ? e.netOrigins.get(o.local) : undefined;
+    const origin = to ?? e.moveOrigin(o);
+    const known = nextNetIndex.get(origin);
+    nextNetIndex.set(origin, known ? [...known, ...at].sort((x, y) => x - y) : at);
+    if (origin === o) continue;
+    if (nets === c.nets) nets = c.nets.slice();
+    for (const i of at) nets[i] = { ...c.nets[i]!, origin };
+  }
+  if (nets !== c.nets) setOriginIndex(nets, nextNetIndex);
   const circuit: Circuit = {
     ...c,
-    nets: same(nets, c.nets),
+    nets,
     mosfets,
     capacitors: moveAll(c.capacitors, e.moveOrigin),
     resistors: moveAll(c.resistors, e.moveOrigin),
@@ -468,7 +482,7 @@ function spliceCircuit(c: Circuit, e: SpliceEdit, limit: number): { circuit: Cir
     sources: moveAll(c.sources, e.moveOrigin),
     diodes: moveAll(c.diodes, e.moveOrigin),
     others: moveAll(c.others, e.moveOrigin),
-    instances: same(instances, c.instances),
+    instances,
   };
   return { circuit, renumbering };
 }
@@ -485,10 +499,6 @@ function moveAll<T extends { origin: Origin }>(list: T[], move: (o: Origin) => O
     if (y !== list[i]) (out ??= list.slice())[i] = y;
   }
   return out ?? list;
-}
-
-function same<T>(next: T[], prev: T[]): T[] {
-  return next.every((x, i) => x === prev[i]) ? prev : next;
 }
 
 /** A list of device indices under their new numbers, deleted ones left out (the same list when none moved). */

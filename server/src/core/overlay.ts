@@ -30,6 +30,11 @@ export abstract class DerivedMap<K, V> extends Map<K, V> {
     return (this.whole ??= this.build());
   }
 
+  /** True when the whole map is made already. */
+  protected made(): boolean {
+    return this.whole !== undefined;
+  }
+
   override get size(): number {
     return this.all().size;
   }
@@ -140,7 +145,57 @@ export class OverlayMap<K, V> extends DerivedMap<K, V> {
     return this.count;
   }
 
+  /**
+   * The whole map from the first map below that is not an overlay (or whose whole map is made
+   * already) and every overlay's changes, in one pass: what building it level by level gives,
+   * without making each level's whole map on the way.
+   */
   protected build(): Map<K, V> {
+    const levels: Array<OverlayMap<K, V>> = [];
+    let bottom: ReadonlyMap<K, V> = this;
+    while (bottom instanceof OverlayMap && (bottom === this || !bottom.made())) {
+      levels.push(bottom);
+      bottom = bottom.base;
+    }
+    // each key's fate, lowest overlay first: replaced in place, removed, or added after the rest
+    const removed = new Set<K>();
+    const replaced = new Map<K, V>();
+    const added = new Map<K, V>();
+    let orderedAdds = false;
+    let plainAdds = false;
+    for (let i = levels.length - 1; i >= 0; i--) {
+      const level = levels[i]!;
+      for (const [k, v] of level.changes) {
+        if (v === undefined) {
+          if (!added.delete(k) && bottom.has(k)) {
+            removed.add(k);
+            replaced.delete(k);
+          }
+        } else if (added.has(k)) added.set(k, v);
+        else if (bottom.has(k) && !removed.has(k)) replaced.set(k, v);
+        else {
+          added.set(k, v);
+          if (level.ordered) orderedAdds = true;
+          else plainAdds = true;
+        }
+      }
+    }
+    if (orderedAdds && plainAdds) return this.buildLevel();
+    const m = new Map<K, V>();
+    bottom.forEach((v, k) => {
+      if (removed.has(k)) return;
+      const w = replaced.get(k);
+      m.set(k, w === undefined ? v : w);
+    });
+    if (!orderedAdds) {
+      for (const [k, v] of added) m.set(k, v);
+      return m;
+    }
+    return mergeByKey(m, added);
+  }
+
+  /** This level's whole map from its base's. */
+  private buildLevel(): Map<K, V> {
     const m = new Map<K, V>();
     const changes = this.changes;
     this.base.forEach((v, k) => {
@@ -150,23 +205,27 @@ export class OverlayMap<K, V> extends DerivedMap<K, V> {
         if (w !== undefined) m.set(k, w);
       }
     });
-    const added: Array<[K, V]> = [];
-    for (const [k, v] of changes) if (v !== undefined && !m.has(k)) added.push([k, v]);
-    if (!this.ordered || added.length === 0) {
+    const added = new Map<K, V>();
+    for (const [k, v] of changes) if (v !== undefined && !m.has(k)) added.set(k, v);
+    if (!this.ordered || added.size === 0) {
       for (const [k, v] of added) m.set(k, v);
       return m;
     }
-    // merged by key order with the earlier entries
-    added.sort((a, b) => (a[0] as number) - (b[0] as number));
-    const out = new Map<K, V>();
-    let i = 0;
-    for (const [k, v] of m) {
-      for (; i < added.length && (added[i]![0] as number) < (k as number); i++) out.set(added[i]![0], added[i]![1]);
-      out.set(k, v);
-    }
-    for (; i < added.length; i++) out.set(added[i]![0], added[i]![1]);
-    return out;
+    return mergeByKey(m, added);
   }
+}
+
+/** `m` (in ascending key order) with `added` merged in by key. */
+function mergeByKey<K, V>(m: Map<K, V>, added: Map<K, V>): Map<K, V> {
+  const list = [...added].sort((a, b) => (a[0] as number) - (b[0] as number));
+  const out = new Map<K, V>();
+  let i = 0;
+  for (const [k, v] of m) {
+    for (; i < list.length && (list[i]![0] as number) < (k as number); i++) out.set(list[i]![0], list[i]![1]);
+    out.set(k, v);
+  }
+  for (; i < list.length; i++) out.set(list[i]![0], list[i]![1]);
+  return out;
 }
 
 /**
