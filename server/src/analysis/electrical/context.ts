@@ -140,21 +140,25 @@ export function renumberedContext(ctx: ElectricalContext, circuit: Circuit, netw
  * deep, so lookups stay short after any number of edits; each net's list is worked out once.
  */
 class NetDeviceLists {
-  private readonly seen: Array<readonly number[] | undefined> = [];
+  /** Each net's list once worked out (only when renumbered: otherwise a list is read as it is). */
+  private readonly seen: Array<readonly number[] | undefined> | undefined;
 
   constructor(
     private readonly root: readonly (readonly number[])[],
     private readonly oldToNew: Int32Array | undefined,
     private readonly added: ReadonlyMap<number, readonly number[]>,
     private readonly rebuilt: ReadonlyMap<number, readonly number[]>,
-  ) {}
+  ) {
+    this.seen = oldToNew ? new Array<readonly number[] | undefined>(root.length) : undefined;
+  }
 
   at(x: number): readonly number[] {
+    if (!this.seen) return (this.rebuilt.size ? this.rebuilt.get(x) : undefined) ?? this.root[x]!;
     let l = this.seen[x];
     if (!l) {
       l = this.rebuilt.get(x);
       if (!l) {
-        const base = this.oldToNew ? renumbered(this.root[x]!, this.oldToNew) : this.root[x]!;
+        const base = renumbered(this.root[x]!, this.oldToNew!);
         const more = this.added.get(x);
         l = more ? [...base, ...more].sort((a, b) => a - b) : base;
       }
