@@ -1,7 +1,8 @@
 // The server under edits on a netlist large enough that an analysis takes many slices: edits that
 // change no meaning are answered by carrying the findings over (exactly what a re-analysis
 // gives), requests are served while an analysis runs, a burst of edits ends with the findings
-// of the last text, and hovers answer from the analysis of the current text.
+// of the last text, hovers answer from the analysis of the current text, and a run of device
+// edits followed by a pause ends as a fresh analysis would.
 
 import * as fs from 'node:fs';
 import * as os from 'node:os';
@@ -31,6 +32,8 @@ describe('incremental and responsive analysis over the real protocol', () => {
   let uri: string;
   const text = hierarchicalNetlist(30_000);
   let first: PublishedDiagnostics;
+  /** The document's text after the tests so far. */
+  let current = text;
   beforeAll(async () => {
     dir = fs.mkdtempSync(path.join(os.tmpdir(), 'tidemark-inc-'));
     file = path.join(dir, 'datapath.sp');
@@ -114,11 +117,39 @@ describe('incremental and responsive analysis over the real protocol', () => {
     const settled = client.diagnosticsFor(uri, (p) => published(p).join('\n') === engineFindings(file, edited).join('\n'));
     await client.change(uri, edited, 40);
     expect(published(await settled)).toEqual(engineFindings(file, edited));
+    current = edited;
     const position = { line: target, character: 5 };
     const hover = (await client.conn.sendRequest('textDocument/hover', { textDocument: { uri }, position })) as { contents: { value: string } } | null;
     const fresh = analyse(memoryHost({ [file]: edited }), file);
     const spot = locate(fresh.deck.files.find((x) => x.file === file)!, position);
     expect(spot?.kind).toBe('net');
+    expect(hover?.contents.value).toBe(netHover(fresh, file, spot as Extract<NonNullable<typeof spot>, { kind: 'net' }>));
+    expect(client.proc.exitCode).toBeNull();
+  }, 120_000);
+
+  it('transistor lines added and deleted: each edit ends with the findings of a fresh analysis, and after the editor is still (the idle-time analysis replaces the chain of quick answers) a hover answers as a fresh analysis does', async () => {
+    let version = 50;
+    let lines = current.split('\n');
+    const edits: string[] = [];
+    for (let k = 0; k < 6; k++) {
+      if (k % 3 === 2) lines = lines.filter((l) => !l.startsWith(`Mk${k - 2} `));
+      else lines.splice(lines.findIndex((l) => l.startsWith(`Xs${k + 2} `)) + 1, 0, `Mk${k} w${k + 2} clk vdd vdd bp w=0.2u l=0.1u`);
+      edits.push(lines.join('\n'));
+    }
+    for (const edited of edits) {
+      const expected = engineFindings(file, edited);
+      const answered = client.diagnosticsFor(uri, (p) => published(p).join('\n') === expected.join('\n'));
+      await client.change(uri, edited, version++);
+      expect(published(await answered)).toEqual(expected);
+    }
+    const last = edits[edits.length - 1]!;
+    // the server's idle-time analysis runs; a hover afterwards answers as a fresh analysis does
+    await new Promise((r) => setTimeout(r, 3_000));
+    const dynLine = last.split('\n').findIndex((l) => l.startsWith('Mpre dyn'));
+    const position = { line: dynLine, character: 6 };
+    const hover = (await client.conn.sendRequest('textDocument/hover', { textDocument: { uri }, position })) as { contents: { value: string } } | null;
+    const fresh = analyse(memoryHost({ [file]: last }), file);
+    const spot = locate(fresh.deck.files.find((x) => x.file === file)!, position);
     expect(hover?.contents.value).toBe(netHover(fresh, file, spot as Extract<NonNullable<typeof spot>, { kind: 'net' }>));
     expect(client.proc.exitCode).toBeNull();
   }, 120_000);
