@@ -8,12 +8,11 @@
 
 import * as fs from 'node:fs';
 import * as path from 'node:path';
-import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { analyse, readDeck, reanalyse } from '../server/src/engine';
 import { memoryHost, type FileHost } from '../server/src/core/host';
 import { overlay } from './support/edits';
-import { same } from './support/sameAnalysis';
+import { checkRandomEdits, same } from './support/sameAnalysis';
 import { addDevice, deleteDevice } from './support/deviceEdits';
 import { hierarchicalNetlist } from '../scripts/netlists';
 
@@ -25,27 +24,7 @@ function edit(text: string, kind: number, pick: number, where: number): string {
 }
 
 function check(file: string, original: string, hostFor: (t: string) => FileHost, runs: number): number {
-  const before = analyse(hostFor(original), file);
-  let taken = 0;
-  fc.assert(
-    fc.property(fc.nat(11), fc.nat(5000), fc.nat(500), fc.nat(11), fc.nat(5000), fc.nat(500), (k1, p1, w1, k2, p2, w2) => {
-      const first = edit(original, k1, p1, w1);
-      if (first === original) return;
-      const host = hostFor(first);
-      const fast = reanalyse(before, readDeck(host, file));
-      if (!fast) return;
-      taken++;
-      same(file, fast, analyse(host, file));
-      // a second edit from the first one's quick answer
-      const second = edit(first, k2, p2, w2);
-      if (second === first) return;
-      const host2 = hostFor(second);
-      const fast2 = reanalyse(fast, readDeck(host2, file));
-      if (fast2) same(file, fast2, analyse(host2, file));
-    }),
-    { numRuns: runs, seed: 17 },
-  );
-  return taken;
+  return checkRandomEdits(file, original, hostFor, runs, 17, edit);
 }
 
 describe('transistor lines added or deleted reuse the previous analysis and equal a fresh one', () => {

@@ -3,8 +3,10 @@
 // network equals a fresh build, and each stage's findings, revised from the previous ones, equal
 // those written afresh from the same results.
 
+import fc from 'fast-check';
 import { expect } from 'vitest';
-import type { AnalysisResult } from '../../server/src/engine';
+import { analyse, readDeck, reanalyse, type AnalysisResult } from '../../server/src/engine';
+import type { FileHost } from '../../server/src/core/host';
 import { buildSwitchNetwork, type SwitchNetwork } from '../../server/src/analysis/switchNetwork';
 import { classificationFindings } from '../../server/src/findings/classificationFindings';
 import { electricalFindings } from '../../server/src/findings/electricalFindings';
@@ -40,4 +42,32 @@ export function same(file: string, fast: AnalysisResult, full: AnalysisResult): 
 /** A circuit as plain data: model cards by name, the name index left out (it follows the nets). */
 function circuitData(c: AnalysisResult['circuits'][number]['circuit']): unknown {
   return JSON.parse(JSON.stringify(c, (k, v) => (k === 'card' ? (v as { name: string } | undefined)?.name : v instanceof Map ? undefined : v)));
+}
+
+/**
+ * Random edits of `original` (`edit` draws each from three numbers), each answered by
+ * `reanalyse` from the previous analysis and checked with `same`, then a second edit from the
+ * first one's quick answer. Returns how many first edits had a quick answer.
+ */
+export function checkRandomEdits(file: string, original: string, hostFor: (t: string) => FileHost, runs: number, seed: number, edit: (text: string, a: number, b: number, c: number) => string): number {
+  const before = analyse(hostFor(original), file);
+  let taken = 0;
+  fc.assert(
+    fc.property(fc.nat(11), fc.nat(5000), fc.nat(500), fc.nat(11), fc.nat(5000), fc.nat(500), (a1, b1, c1, a2, b2, c2) => {
+      const first = edit(original, a1, b1, c1);
+      if (first === original) return;
+      const host = hostFor(first);
+      const fast = reanalyse(before, readDeck(host, file));
+      if (!fast) return;
+      taken++;
+      same(file, fast, analyse(host, file));
+      const second = edit(first, a2, b2, c2);
+      if (second === first) return;
+      const host2 = hostFor(second);
+      const fast2 = reanalyse(fast, readDeck(host2, file));
+      if (fast2) same(file, fast2, analyse(host2, file));
+    }),
+    { numRuns: runs, seed },
+  );
+  return taken;
 }

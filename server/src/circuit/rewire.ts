@@ -37,13 +37,9 @@ export function rewireNets(previousDeck: Deck, previous: Design, deck: Deck, lim
   if (!edited || edited.length === 0) return undefined;
   const scope = scopeOfLines(deck, edited);
   if (scope === undefined) return undefined;
-  const globals = deckGlobals(deck);
-  const oldGlobals = deckGlobals(previousDeck);
-  if (globals.size !== oldGlobals.size || [...globals].some((g) => !oldGlobals.has(g))) return undefined;
-  const before = slotsOf(previousDeck, scope, globals);
-  const after = slotsOf(deck, scope, globals);
-  if (!before || !after || !sameList(before.slots.localNames, after.slots.localNames) || !sameList(before.slots.globalNames, after.slots.globalNames)) return undefined;
-  const portCount = scope === null ? 0 : deck.subckts.get(scope)!.ports.length;
+  const kept = sameNetSlots(previousDeck, deck, scope);
+  if (!kept) return undefined;
+  const { before, after, portCount } = kept;
   // an internal net first written on an edited line may now be first written elsewhere
   const netOrigins = new Map<string, Origin>();
   after.slots.localOrigins.forEach((o, i) => {
@@ -90,8 +86,25 @@ function scopeOfLines(deck: Deck, edited: readonly EditedLine[]): string | null 
   return scope;
 }
 
+/**
+ * The edited definition's (or the top level's) net slots before and after an edit, when they
+ * come out the same (the same globals, the same local names first used in the same order), so
+ * every flat net keeps its number; else undefined.
+ */
+export function sameNetSlots(previousDeck: Deck, deck: Deck, scope: string | null): { before: ScopeSlots; after: ScopeSlots; portCount: number } | undefined {
+  const globals = deckGlobals(deck);
+  const oldGlobals = deckGlobals(previousDeck);
+  if (globals.size !== oldGlobals.size || [...globals].some((g) => !oldGlobals.has(g))) return undefined;
+  const before = slotsOf(previousDeck, scope, globals);
+  const after = slotsOf(deck, scope, globals);
+  if (!before || !after || !sameList(before.slots.localNames, after.slots.localNames) || !sameList(before.slots.globalNames, after.slots.globalNames)) return undefined;
+  return { before, after, portCount: scope === null ? 0 : deck.subckts.get(scope)!.ports.length };
+}
+
+type ScopeSlots = { slots: NetSlots; refs: Map<Statement, number[]> };
+
 /** A definition's net slots and each element line's node slots, as its template reads them. */
-export function slotsOf(deck: Deck, scope: string | null, globals: ReadonlySet<string>): { slots: NetSlots; refs: Map<Statement, number[]> } | undefined {
+function slotsOf(deck: Deck, scope: string | null, globals: ReadonlySet<string>): ScopeSlots | undefined {
   const def = scope === null ? undefined : deck.subckts.get(scope);
   if (scope !== null && !def) return undefined;
   const slots = new NetSlots(scope, globals);
@@ -106,7 +119,7 @@ export function slotsOf(deck: Deck, scope: string | null, globals: ReadonlySet<s
   return { slots, refs };
 }
 
-export function sameList(a: readonly string[], b: readonly string[]): boolean {
+function sameList(a: readonly string[], b: readonly string[]): boolean {
   return a.length === b.length && a.every((x, i) => x === b[i]);
 }
 

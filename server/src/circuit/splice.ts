@@ -12,12 +12,12 @@ import { rangeOf, Span, startLineOf, type Range } from '../core/source';
 import type { Diagnostic } from '../core/diagnostics';
 import type { Circuit, Design, Instance, Mosfet, Net, Origin, Polarity } from './circuit';
 import type { Deck } from './deck';
-import { deckGlobals, elementNodeWords, guessMicronScale, type NetSlots } from './elaborate';
+import { elementNodeWords, guessMicronScale, type NetSlots } from './elaborate';
 import { selectModel } from './models';
 import { parseSpiceNumber } from './numbers';
 import { isPlainNumber, PLAUSIBLE_L_M, PLAUSIBLE_W_M, SIZE_PARAMS } from './patch';
 import { scopesOfStatements } from './rename';
-import { originIndex, sameList, setOriginIndex, slotsOf } from './rewire';
+import { originIndex, sameNetSlots, setOriginIndex } from './rewire';
 import { sameRange, sameStatement } from '../syntax/compare';
 import type { Statement, SyntaxFile } from '../syntax/tree';
 
@@ -91,13 +91,9 @@ export function spliceDevices(previousDeck: Deck, previous: Design, deck: Deck, 
   for (const l of lines) if (l.local.includes('.') || (counts.get(l.local) ?? 0) > (removed.length ? 0 : 1)) return undefined;
   if ([...bodyIndex.keys()].some((k) => k.includes('.'))) return undefined;
 
-  const globals = deckGlobals(deck);
-  const oldGlobals = deckGlobals(previousDeck);
-  if (globals.size !== oldGlobals.size || [...globals].some((g) => !oldGlobals.has(g))) return undefined;
-  const before = slotsOf(previousDeck, scope, globals);
-  const after = slotsOf(deck, scope, globals);
-  if (!before || !after || !sameList(before.slots.localNames, after.slots.localNames) || !sameList(before.slots.globalNames, after.slots.globalNames)) return undefined;
-  const portCount = scope === null ? 0 : deck.subckts.get(scope)!.ports.length;
+  const kept = sameNetSlots(previousDeck, deck, scope);
+  if (!kept) return undefined;
+  const { before, after, portCount } = kept;
   const moveRange = (f: string, r: Range): Range => (f === shift.file && startLineOf(r) >= shift.fromLine ? shiftedRange(r, shift.lines) : r);
   // a net first written on an edited line is now first written elsewhere (or the other way)
   const netOrigins = new Map<string, Origin>();

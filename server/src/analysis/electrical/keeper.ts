@@ -121,17 +121,20 @@ export function sizingBasis(c: Circuit): SizingBasis {
   let b = bases.get(c);
   if (b) return b;
   b = { n: undefined, p: undefined };
-  for (let i = 0; i < c.mosfets.length; i++) {
-    const m = c.mosfets[i]!;
-    const k = b[m.polarity];
-    if (!k) b[m.polarity] = { wMin: m.wM / m.nf, lMin: m.lM, first: i };
-    else {
-      k.wMin = Math.min(k.wMin, m.wM / m.nf);
-      k.lMin = Math.min(k.lMin, m.lM);
-    }
-  }
+  for (let i = 0; i < c.mosfets.length; i++) takeIn(b, c.mosfets[i]!, i);
   bases.set(c, b);
   return b;
+}
+
+/** A basis with device `i` taken in: its sizes among the smallest, its index among the first. */
+function takeIn(b: SizingBasis, m: Mosfet, i: number): void {
+  const k = b[m.polarity];
+  if (!k) b[m.polarity] = { wMin: m.wM / m.nf, lMin: m.lM, first: i };
+  else {
+    k.wMin = Math.min(k.wMin, m.wM / m.nf);
+    k.lMin = Math.min(k.lMin, m.lM);
+    k.first = Math.min(k.first, i);
+  }
 }
 
 /** `b`'s sizing basis is `a`'s (an edit that moved connections and kept every size): noted without a scan. */
@@ -258,16 +261,7 @@ export function sameSizingBasisRenumbered(a: Circuit, b: Circuit, r: MosfetRenum
   const above = (m: Mosfet, base: PolarityBasis) => m.wM / m.nf > base.wMin && m.lM > base.lMin;
   if (!bases.has(b) && r.deleted.every((k) => k !== x[a.mosfets[k]!.polarity]!.first && above(a.mosfets[k]!, x[a.mosfets[k]!.polarity]!))) {
     const y: SizingBasis = { n: x.n && { ...x.n, first: r.oldToNew[x.n.first]! }, p: x.p && { ...x.p, first: r.oldToNew[x.p.first]! } };
-    for (const j of r.added) {
-      const m = b.mosfets[j]!;
-      const k = y[m.polarity];
-      if (!k) y[m.polarity] = { wMin: m.wM / m.nf, lMin: m.lM, first: j };
-      else {
-        k.wMin = Math.min(k.wMin, m.wM / m.nf);
-        k.lMin = Math.min(k.lMin, m.lM);
-        k.first = Math.min(k.first, j);
-      }
-    }
+    for (const j of r.added) takeIn(y, b.mosfets[j]!, j);
     bases.set(b, y);
   }
   const y = sizingBasis(b);

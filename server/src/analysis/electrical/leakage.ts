@@ -242,6 +242,21 @@ export interface LeakageAt {
 }
 
 /** Currents at island voltage `v`, after solving the floating groups' voltages. */
+/** Devices whose currents a set of nets can receive: by channel and junction, and by gate tunnelling. */
+interface Near {
+  channels: readonly number[];
+  gates: readonly number[];
+}
+
+/** The devices of `all` with a terminal on `members`, in their order. */
+function nearDevices(c: ElectricalContext['circuit'], members: ReadonlySet<number>, all: Near): Near {
+  const on = (i: number, gate: boolean) => {
+    const m = c.mosfets[i]!;
+    return members.has(m.d) || members.has(m.s) || (gate && members.has(m.g));
+  };
+  return { channels: all.channels.filter((i) => on(i, false)), gates: all.gates.filter((i) => on(i, true)) };
+}
+
 export function leakageAt(ctx: ElectricalContext, ln: LeakageNetwork, v: number, tempK: number, storedLevel: 0 | 1, withContributors: boolean): LeakageAt {
   const c = ctx.circuit;
   const volts = (n: number, groupV: number[]): number => {
@@ -251,12 +266,13 @@ export function leakageAt(ctx: ElectricalContext, ln: LeakageNetwork, v: number,
     return ln.fixedVolts.get(n) ?? 0;
   };
   const groupV = ln.floatingGroups.map(() => v / 2);
+  const allDevices: Near = { channels: ln.devices, gates: [...new Set([...ln.gateDevices, ...ln.devices])] };
   let gateContributors: LeakageContributor[] = [];
   // net current into a set of nets from all devices, at the given voltages
-  const inflow = (members: ReadonlySet<number>, gv: number[], vOverride?: number): number => {
+  const inflow = (members: ReadonlySet<number>, gv: number[], vOverride?: number, near: Near = allDevices): number => {
     let total = 0;
     const at = (n: number) => (vOverride !== undefined && members.has(n) ? vOverride : volts(n, gv));
-    for (const i of ln.devices) {
+    for (const i of near.channels) {
       const m = c.mosfets[i]!;
       const inD = members.has(m.d);
       const inS = members.has(m.s);
@@ -272,16 +288,13 @@ export function leakageAt(ctx: ElectricalContext, ln: LeakageNetwork, v: number,
       if (inD) total += junctionCurrent(ctx, m, 'd', vd, vb, tempK);
       if (inS && m.s !== m.d) total += junctionCurrent(ctx, m, 's', vs, vb, tempK);
     }
-    total += gateInflow(members, at);
+    total += gateInflow(members, at, near.gates);
     return total;
   };
   /** Tunnelling currents into a set of nets: out through gates on it, in at drains and sources. */
-  const gateInflow = (members: ReadonlySet<number>, at: (n: number) => number): number => {
+  const gateInflow = (members: ReadonlySet<number>, at: (n: number) => number, gates: readonly number[]): number => {
     let total = 0;
-    const seenDev = new Set<number>();
-    for (const i of [...ln.gateDevices, ...ln.devices]) {
-      if (seenDev.has(i)) continue;
-      seenDev.add(i);
+    for (const i of gates) {
       const m = c.mosfets[i]!;
       const model = ctx.model(m);
       if (!model.gateLeakage) continue;
@@ -298,12 +311,14 @@ export function leakageAt(ctx: ElectricalContext, ln: LeakageNetwork, v: number,
   };
   // Gauss-Seidel with bisection per floating group: each group's inflow falls as its voltage rises
   const sets = ln.floatingGroups.map((g) => new Set(g));
+  // each group's solve reads only the devices on it (the same ones in the same order: the same sums)
+  const nearOf = sets.map((set) => nearDevices(c, set, allDevices));
   const lo = Math.min(0, v) - 0.2;
   const hi = Math.max(ctx.vddV, v) + 0.2;
   for (let pass = 0; pass < (sets.length > 1 ? 12 : 1); pass++) {
     let moved = 0;
     sets.forEach((set, k) => {
-      const root = solveMonotone((x) => inflow(set, groupV, x), lo, hi);
+      const root = solveMonotone((x) => inflow(set, groupV, x, nearOf[k]!), lo, hi);
       moved = Math.max(moved, Math.abs(groupV[k]! - root));
       groupV[k] = root;
     });
