@@ -8,6 +8,7 @@
 
 import * as fs from 'node:fs';
 import * as path from 'node:path';
+import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { analyse, readDeck, reanalyse } from '../server/src/engine';
 import { memoryHost, type FileHost } from '../server/src/core/host';
@@ -24,7 +25,7 @@ function edit(text: string, kind: number, pick: number, where: number): string {
 }
 
 function check(file: string, original: string, hostFor: (t: string) => FileHost, runs: number): number {
-  return checkRandomEdits(file, original, hostFor, runs, 17, edit);
+  return checkRandomEdits(file, original, hostFor, runs, 17, [fc.nat(11), fc.nat(5000), fc.nat(500)], (t, [kind, pick, where]) => edit(t, kind!, pick!, where!));
 }
 
 describe('transistor lines added or deleted reuse the previous analysis and equal a fresh one', () => {

@@ -13,34 +13,14 @@ import { describe, expect, it } from 'vitest';
 import { analyse, readDeck, reanalyse } from '../server/src/engine';
 import { memoryHost, type FileHost } from '../server/src/core/host';
 import { overlay } from './support/edits';
-import { same } from './support/sameAnalysis';
+import { checkRandomEdits, same } from './support/sameAnalysis';
 import { reconnect } from './support/reconnect';
 import { hierarchicalNetlist } from '../scripts/netlists';
 
 const SAMPLES = path.join(__dirname, '..', 'samples');
 
 function check(file: string, original: string, hostFor: (t: string) => FileHost, runs: number): number {
-  const before = analyse(hostFor(original), file);
-  let taken = 0;
-  fc.assert(
-    fc.property(fc.nat(5000), fc.nat(500), fc.nat(5000), fc.nat(500), (p1, t1, p2, t2) => {
-      const first = reconnect(original, p1, t1);
-      if (first === original) return;
-      const host = hostFor(first);
-      const fast = reanalyse(before, readDeck(host, file));
-      if (!fast) return;
-      taken++;
-      same(file, fast, analyse(host, file));
-      // a second reconnection from the first one's quick answer
-      const second = reconnect(first, p2, t2);
-      if (second === first) return;
-      const host2 = hostFor(second);
-      const fast2 = reanalyse(fast, readDeck(host2, file));
-      if (fast2) same(file, fast2, analyse(host2, file));
-    }),
-    { numRuns: runs, seed: 11 },
-  );
-  return taken;
+  return checkRandomEdits(file, original, hostFor, runs, 11, [fc.nat(5000), fc.nat(500)], (t, [pick, to]) => reconnect(t, pick!, to!));
 }
 
 describe('reconnections reuse the previous analysis and equal a fresh one', () => {

@@ -10,7 +10,7 @@ import { elaborate } from './circuit/elaborate';
 import type { Circuit, Design } from './circuit/circuit';
 import { findClocks } from './phases/clocks';
 import { buildPhases, type PhasePlan } from './phases/phases';
-import { buildSwitchNetwork, patchSwitchNetwork } from './analysis/switchNetwork';
+import { buildSwitchNetwork, patchSwitchNetwork, type NetworkPatch } from './analysis/switchNetwork';
 import { classifySteps, reclassify, renameStates, renumberDevices, type Classification } from './analysis/classify';
 import { classificationFindings, reviseClassificationFindings } from './findings/classificationFindings';
 import { applyAccepts } from './findings/accepts';
@@ -216,32 +216,16 @@ function afterRewire(previous: AnalysisResult, deck: Deck, rewired: Rewiring, op
     // switch indices: MOSFETs first, then resistors, then inductors (as the network lists them)
     const nm = circuit.mosfets.length;
     const switches = [...changed.mosfets, ...changed.resistors.map((k) => nm + k), ...changed.inductors.map((k) => nm + circuit.resistors.length + k)];
-    const { network, rebuilt, previousId } = patchSwitchNetwork(a.classification.network, circuit, switches);
-    // an edit in a cell used everywhere touches most of the circuit: a fresh analysis is faster
-    if (rebuilt.length > rewireLimit(network.components.length)) return undefined;
-    const reclassified = reclassify(a.classification, network, rebuilt, previousId);
-    if (!reclassified) return undefined;
-    const { classification } = reclassified;
     // keeper sizing reads device sizes only, which a reconnection keeps
     carrySizingBasis(a.circuit, circuit);
-    const ctx = rewiredContext(a.electrical!, circuit, network, classification, changed);
-    // what the classification's findings read that changed: every net whose value, storage
-    // flag or results changed, and the gates of the moved devices (their gate loads)
-    const touched = new Set<number>(reclassified.changedNets);
-    for (const k of changed.mosfets) touched.add(a.circuit.mosfets[k]!.g).add(circuit.mosfets[k]!.g);
-    // what the estimates read that changed: that, the rebuilt groups and the moved capacitors
-    const seeds = new Set<number>(touched);
-    for (const id of rebuilt) for (const x of network.components[id]!.nodes) seeds.add(x);
-    for (const k of changed.capacitors) for (const c of [a.circuit, circuit]) seeds.add(c.capacitors[k]!.a).add(c.capacitors[k]!.b);
-    const redo = nodesAround(ctx, seeds);
-    const estimates = reestimate(ctx, a.estimates!, redo);
-    const findings = {
-      phases: move(a.findings.phases),
-      classification: reviseClassificationFindings(circuit, classification, a.classification, touched, options),
-      electrical: reviseElectricalFindings(ctx, estimates, a.estimates!, redo),
-      models: move(a.findings.models),
-    };
-    circuits.push({ circuit, plan: a.plan, classification, electrical: ctx, estimates, findings });
+    const patched = regroup(a, patchSwitchNetwork(a.classification.network, circuit, switches), a, options, {
+      contextFor: (network, classification) => rewiredContext(a.electrical!, circuit, network, classification, changed),
+      // the moved devices' gate loads, and the moved capacitors' nets
+      gates: changed.mosfets.flatMap((k) => [a.circuit.mosfets[k]!.g, circuit.mosfets[k]!.g]),
+      seeds: changed.capacitors.flatMap((k) => [a.circuit, circuit].flatMap((c) => [c.capacitors[k]!.a, c.capacitors[k]!.b])),
+    });
+    if (!patched) return undefined;
+    circuits.push({ circuit, plan: a.plan, ...patched, findings: { phases: move(a.findings.phases), ...patched.findings, models: move(a.findings.models) } });
   }
   return finish(deck, rewired.design, circuits, previous.frontEnd, options);
 }
@@ -277,39 +261,63 @@ function afterSplice(previous: AnalysisResult, deck: Deck, sp: DeviceSplice, opt
       circuits.push({ circuit, plan: a.plan, classification, electrical: ctx, estimates: a.estimates!, findings });
       continue;
     }
-    const { network, rebuilt, previousId } = patchSwitchNetwork(a.classification.network, circuit, [], r);
-    if (rebuilt.length > rewireLimit(network.components.length)) return undefined;
-    const reclassified = reclassify(renumberDevices(a.classification, r.oldToNew), network, rebuilt, previousId);
-    if (!reclassified) return undefined;
-    const { classification } = reclassified;
-    const ctx = renumberedContext(a.electrical!, circuit, network, classification, r);
-    // what the classification's findings read that changed: the nets whose results changed and
-    // the gates of the added and deleted devices (their gate loads)
-    const touched = new Set<number>(reclassified.changedNets);
     const devices = [...r.added.map((k) => circuit.mosfets[k]!), ...r.deleted.map((k) => a.circuit.mosfets[k]!)];
-    for (const m of devices) touched.add(m.g);
-    // what the estimates read that changed: that, the rebuilt groups and the devices' terminals
-    const seeds = new Set<number>(touched);
-    for (const id of rebuilt) for (const x of network.components[id]!.nodes) seeds.add(x);
-    for (const m of devices) seeds.add(m.d).add(m.s).add(m.b);
-    let redo = nodesAround(ctx, seeds);
-    // keeper sizing reads the circuit's smallest devices: when those changed, every sized keeper is redone
-    if (!sameSizingBasisRenumbered(a.circuit, circuit, r)) {
-      const all = new Set(redo);
-      for (const [n, e] of a.estimates!) if (e.suggestedKeeper || e.suggestedHolder) all.add(n);
-      redo = [...all].sort((x, y) => x - y);
-    }
-    const estimates = reestimate(ctx, renumberEstimates(a.estimates!, r.oldToNew), redo);
+    const patched = regroup(a, patchSwitchNetwork(a.classification.network, circuit, [], r), { classification: renumberDevices(a.classification, r.oldToNew), estimates: renumberEstimates(a.estimates!, r.oldToNew) }, options, {
+      contextFor: (network, classification) => renumberedContext(a.electrical!, circuit, network, classification, r),
+      // the added and deleted devices' gate loads and terminals
+      gates: devices.map((m) => m.g),
+      seeds: devices.flatMap((m) => [m.d, m.s, m.b]),
+      // keeper sizing reads the circuit's smallest devices: when those changed, every sized keeper is redone
+      alsoRedo: () => (sameSizingBasisRenumbered(a.circuit, circuit, r) ? [] : [...a.estimates!].filter(([, e]) => e.suggestedKeeper || e.suggestedHolder).map(([n]) => n)),
+    });
+    if (!patched) return undefined;
     const unsupported = devices.some((m) => m.card?.family === 'unsupported');
-    const findings = {
-      phases: move(a.findings.phases),
-      classification: reviseClassificationFindings(circuit, classification, a.classification, touched, options),
-      electrical: reviseElectricalFindings(ctx, estimates, a.estimates!, redo),
-      models: unsupported ? modelNotes(circuit) : move(a.findings.models),
-    };
-    circuits.push({ circuit, plan: a.plan, classification, electrical: ctx, estimates, findings });
+    circuits.push({ circuit, plan: a.plan, ...patched, findings: { phases: move(a.findings.phases), ...patched.findings, models: unsupported ? modelNotes(circuit) : move(a.findings.models) } });
   }
   return finish(deck, sp.design, circuits, move(previous.frontEnd), options);
+}
+
+/**
+ * One circuit's later stages after an edit regrouped part of its network (`patch`): the
+ * classification again around the rebuilt groups, the estimates of the nodes near anything
+ * that changed (`nodesAround`), and the findings of the nets and nodes reached. `from` holds the
+ * earlier results under the new circuit's device numbers; `a` is the earlier analysis, whose
+ * findings' facts are revised. `gates` are nets whose gate loads changed (their findings and
+ * estimates are redone), `seeds` other nets whose estimates are. Undefined when a stage cannot
+ * be patched or the edit reaches too much of the circuit (a fresh analysis is faster).
+ */
+function regroup(
+  a: CircuitAnalysis,
+  patch: NetworkPatch,
+  from: { classification: Classification; estimates?: ReadonlyMap<number, NodeEstimate> },
+  options: EngineOptions,
+  edit: { contextFor(network: NetworkPatch['network'], classification: Classification): ElectricalContext; gates: Iterable<number>; seeds: Iterable<number>; alsoRedo?(): Iterable<number> },
+): { classification: Classification; electrical: ElectricalContext; estimates: Map<number, NodeEstimate>; findings: { classification: Diagnostic[]; electrical: Diagnostic[] } } | undefined {
+  const { network, rebuilt, previousId } = patch;
+  // an edit in a cell used everywhere touches most of the circuit: a fresh analysis is faster
+  if (rebuilt.length > rewireLimit(network.components.length)) return undefined;
+  const reclassified = reclassify(from.classification, network, rebuilt, previousId);
+  if (!reclassified) return undefined;
+  const { classification } = reclassified;
+  const ctx = edit.contextFor(network, classification);
+  // what the classification's findings read that changed: every net whose value, storage flag
+  // or results changed, and the changed gate loads
+  const touched = new Set<number>(reclassified.changedNets);
+  for (const g of edit.gates) touched.add(g);
+  // what the estimates read that changed: that, the rebuilt groups and the other seeds
+  const seeds = new Set<number>(touched);
+  for (const id of rebuilt) for (const x of network.components[id]!.nodes) seeds.add(x);
+  for (const x of edit.seeds) seeds.add(x);
+  let redo = nodesAround(ctx, seeds);
+  const also = [...(edit.alsoRedo?.() ?? [])];
+  if (also.length) redo = [...new Set([...redo, ...also])].sort((x, y) => x - y);
+  const estimates = reestimate(ctx, from.estimates ?? a.estimates!, redo);
+  return {
+    classification,
+    electrical: ctx,
+    estimates,
+    findings: { classification: reviseClassificationFindings(ctx.circuit, classification, a.classification, touched, options), electrical: reviseElectricalFindings(ctx, estimates, a.estimates!, redo) },
+  };
 }
 
 function onEditedLine(d: Diagnostic, moved: ReadonlyArray<{ file: string; from: Range }>): boolean {

@@ -45,23 +45,24 @@ function circuitData(c: AnalysisResult['circuits'][number]['circuit']): unknown 
 }
 
 /**
- * Random edits of `original` (`edit` draws each from three numbers), each answered by
- * `reanalyse` from the previous analysis and checked with `same`, then a second edit from the
- * first one's quick answer. Returns how many first edits had a quick answer.
+ * Random edits of `original` (`edit` makes each from numbers drawn by `draws`), each answered
+ * by `reanalyse` from the previous analysis and checked with `same`, then a second edit from
+ * the first one's quick answer. Returns how many first edits had a quick answer.
  */
-export function checkRandomEdits(file: string, original: string, hostFor: (t: string) => FileHost, runs: number, seed: number, edit: (text: string, a: number, b: number, c: number) => string): number {
+export function checkRandomEdits(file: string, original: string, hostFor: (t: string) => FileHost, runs: number, seed: number, draws: Array<fc.Arbitrary<number>>, edit: (text: string, drawn: number[]) => string): number {
   const before = analyse(hostFor(original), file);
   let taken = 0;
   fc.assert(
-    fc.property(fc.nat(11), fc.nat(5000), fc.nat(500), fc.nat(11), fc.nat(5000), fc.nat(500), (a1, b1, c1, a2, b2, c2) => {
-      const first = edit(original, a1, b1, c1);
+    fc.property(fc.tuple(...draws), fc.tuple(...draws), (d1, d2) => {
+      const first = edit(original, d1);
       if (first === original) return;
       const host = hostFor(first);
       const fast = reanalyse(before, readDeck(host, file));
       if (!fast) return;
       taken++;
       same(file, fast, analyse(host, file));
-      const second = edit(first, a2, b2, c2);
+      // a second edit from the first one's quick answer
+      const second = edit(first, d2);
       if (second === first) return;
       const host2 = hostFor(second);
       const fast2 = reanalyse(fast, readDeck(host2, file));

@@ -5,7 +5,7 @@
 // nets, traced back a few levels, so a net and its inverted or buffered copy are not treated as
 // independent, and feedback from the node itself (keepers, static latches) is recognised.
 
-import { renumbered } from '../circuit/splice';
+import { renumbered } from '../core/renumber';
 import type { PhasePlan, Phase } from '../phases/phases';
 import { floatWindow } from '../phases/phases';
 import { evaluateComponent, newScratch, propagateConstants, repropagateConstants, X, type Scratch } from './constants';

@@ -5,7 +5,8 @@
 
 import type { Circuit } from '../circuit/circuit';
 import type { Clock } from '../phases/clocks';
-import { renumbered, type MosfetRenumbering } from '../circuit/splice';
+import type { MosfetRenumbering } from '../circuit/splice';
+import { composeRenumberings, renumbered } from '../core/renumber';
 
 export const enum NetRole {
   Internal = 0,
@@ -386,11 +387,7 @@ function renumberedGroups(groups: readonly Component[], map: Int32Array): Compon
   const composed = new Map<Int32Array, Int32Array>();
   const over = (earlier: Int32Array) => {
     let c = composed.get(earlier);
-    if (!c) {
-      c = new Int32Array(earlier.length);
-      for (let i = 0; i < c.length; i++) c[i] = earlier[i]! < 0 ? -1 : map[earlier[i]!]!;
-      composed.set(earlier, c);
-    }
+    if (!c) composed.set(earlier, (c = composeRenumberings(earlier, map)));
     return c;
   };
   return groups.map((g) => (g instanceof RenumberedGroup ? new RenumberedGroup(g.id, g.nodes, g.gates, g.root, over(g.map)) : new RenumberedGroup(g.id, g.nodes, g.gates, g.switches, map)));

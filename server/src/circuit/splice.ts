@@ -496,13 +496,3 @@ function moveAll<T extends { origin: Origin }>(list: T[], move: (o: Origin) => O
   }
   return out ?? list;
 }
-
-/** A list of device indices under their new numbers, deleted ones left out (the same list when none moved). */
-export function renumbered(list: readonly number[], oldToNew: Int32Array): number[] {
-  let out: number[] | undefined;
-  for (let k = 0; k < list.length; k++) {
-    const j = oldToNew[list[k]!]!;
-    if (j !== list[k]) (out ??= list.slice())[k] = j;
-  }
-  return out ? out.filter((j) => j >= 0) : (list as number[]);
-}

@@ -3,6 +3,8 @@
 // to the earlier map; the rarely walked whole map is made once, on demand. Chains of them are
 // folded into a plain map after a few edits, so lookups stay short.
 
+import { composeRenumberings } from './renumber';
+
 const MAX_DEPTH = 24;
 
 /**
@@ -249,9 +251,7 @@ export class RenumberedMap<K, V> extends DerivedMap<K, V> {
 
   static over<K, V>(map: ReadonlyMap<K, V>, oldToNew: Int32Array, renumber: (v: V, oldToNew: Int32Array) => V): Map<K, V> {
     if (map instanceof RenumberedMap && map.renumber === renumber) {
-      const composed = new Int32Array(map.oldToNew.length);
-      for (let i = 0; i < composed.length; i++) composed[i] = map.oldToNew[i]! < 0 ? -1 : oldToNew[map.oldToNew[i]!]!;
-      return new RenumberedMap(map.base, composed, renumber, map.depth);
+      return new RenumberedMap(map.base, composeRenumberings(map.oldToNew, oldToNew), renumber, map.depth);
     }
     if (map instanceof OverlayMap) {
       const o = map as OverlayMap<K, V>;

@@ -8,7 +8,8 @@ import { NetRole } from '../switchNetwork';
 import type { PhasePlan } from '../../phases/phases';
 import { modelFor } from '../devices/catalogue';
 import type { MosModel } from '../devices/mosModel';
-import { renumbered, type MosfetRenumbering } from '../../circuit/splice';
+import type { MosfetRenumbering } from '../../circuit/splice';
+import { composeRenumberings, renumbered } from '../../core/renumber';
 
 export interface Corner {
   tempC: number;
@@ -194,13 +195,6 @@ class NetDeviceLists {
     for (const x of rebuilt.keys()) added.delete(x);
     return new NetDeviceLists(this.root, oldToNew, added, rebuilt);
   }
-}
-
-/** `first` then `second`: old index to newest, -1 for a device either one deleted. */
-function composeRenumberings(first: Int32Array, second: Int32Array): Int32Array {
-  const out = new Int32Array(first.length);
-  for (let i = 0; i < first.length; i++) out[i] = first[i]! < 0 ? -1 : second[first[i]!]!;
-  return out;
 }
 
 const listsOfContext = new WeakMap<(x: number) => readonly number[], { channels: NetDeviceLists; gates: NetDeviceLists }>();

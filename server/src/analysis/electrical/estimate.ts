@@ -2,7 +2,7 @@
 // stored level and corner, retention to the droop budget, charge sharing, coupling, critical
 // charge and, where one is needed, a sized keeper. Pure: reads the context, returns records.
 
-import { renumbered } from '../../circuit/splice';
+import { renumbered } from '../../core/renumber';
 import { floatsIn, nodeFloatWindow, type NodePhaseResult } from '../classify';
 import { evaluateComponent, newScratch, type Scratch } from '../constants';
 import { mosfetOfSwitch, NetRole, SwitchKind } from '../switchNetwork';

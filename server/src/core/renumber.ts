@@ -1,0 +1,19 @@
+// Device renumberings (old index to new, -1 for a deleted one), as every stage applies them to
+// the indices it keeps when devices are put in or taken out.
+
+/** A list of indices under their new numbers, deleted ones left out (the same list when none moved). */
+export function renumbered(list: readonly number[], oldToNew: Int32Array): number[] {
+  let out: number[] | undefined;
+  for (let k = 0; k < list.length; k++) {
+    const j = oldToNew[list[k]!]!;
+    if (j !== list[k]) (out ??= list.slice())[k] = j;
+  }
+  return out ? out.filter((j) => j >= 0) : (list as number[]);
+}
+
+/** `first` then `second`: old index to newest, -1 for one either of them deleted. */
+export function composeRenumberings(first: Int32Array, second: Int32Array): Int32Array {
+  const out = new Int32Array(first.length);
+  for (let i = 0; i < first.length; i++) out[i] = first[i]! < 0 ? -1 : second[first[i]!]!;
+  return out;
+}
