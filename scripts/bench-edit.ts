@@ -12,8 +12,11 @@ import { pathToFileURL } from 'node:url';
 import { createMessageConnection, StreamMessageReader, StreamMessageWriter } from 'vscode-jsonrpc/node';
 import { hierarchicalNetlist } from './netlists';
 
-/** What, which line, its change, and (when the undo is worth a figure of its own) what the undo is. */
-type Edit = [string, (l: string) => boolean, (l: string) => string, string?];
+/**
+ * What, which line, its change, when the undo is worth a figure of its own what the undo is,
+ * and how long the editor is left still before each edit (none: the edits follow each other).
+ */
+type Edit = [string, (l: string) => boolean, (l: string) => string, string?, number?];
 
 const RECONNECTION: Edit = ['a reconnection (a block input moved to another net)', (l) => l.startsWith('Xb7 '), (l) => l.replace('Xb7 a7 ', 'Xb7 a9 ')];
 
@@ -28,6 +31,9 @@ async function main(): Promise<void> {
     RECONNECTION,
     // new devices: spliced into the previous analysis, up to a limit on the copies
     ['a device added at the top level', (l) => l.startsWith('Xb7 '), (l) => `${l}\nMx y7 clk vdd vdd bp w=0.2u l=0.1u`, 'the device at the top level deleted'],
+    // the server's idle-time analysis starts after 2 s still (it replaces the chain of quick
+    // answers): an edit 2.3 s after the last one arrives while it runs and waits for its step
+    ['a device added at the top level while the idle-time analysis runs', (l) => l.startsWith('Xb7 '), (l) => `${l}\nMx y7 clk vdd vdd bp w=0.2u l=0.1u`, undefined, 2300],
     ['a device added in the block cell (105 copies)', (l) => l.startsWith('Xs3 '), (l) => `${l}\nMx w3 clk vdd vdd bp w=0.2u l=0.1u`, 'the device in the block cell deleted (105 copies)'],
     // a device in a cell with 4,200 copies: over the splice's limit, the full analysis runs
     ['a device added to the domino cell (full analysis)', (l) => l.startsWith('Mkp dyn out'), (l) => `${l}\nMx dyn clk vdd vdd bp w=0.1u l=0.1u`],
@@ -72,10 +78,11 @@ async function measure(transistors: number, edits: Edit[]): Promise<string[]> {
     // the first edits of a kind run code the JavaScript engine has not compiled yet
     return `${what}, ${size}: first ${times[0]!.toFixed(0)} ms, median ${sorted[sorted.length >> 1]!.toFixed(0)} ms, fastest ${sorted[0]!.toFixed(0)} ms, slowest ${sorted[sorted.length - 1]!.toFixed(0)} ms over ${ROUNDS} edits`;
   };
-  for (const [what, find, change, undoWhat] of edits) {
+  for (const [what, find, change, undoWhat, pauseMs] of edits) {
     const times: number[] = [];
     const undoTimes: number[] = [];
     for (let round = 0; round < ROUNDS; round++) {
+      if (pauseMs) await new Promise((r) => setTimeout(r, pauseMs));
       const i = lines.findIndex(find);
       const original = lines[i]!;
       lines[i] = change(original);

@@ -12,6 +12,7 @@ import { buildSwitchNetwork } from '../server/src/analysis/switchNetwork';
 import { classify } from '../server/src/analysis/classify';
 import { buildContext } from '../server/src/analysis/electrical/context';
 import { estimateNodes } from '../server/src/analysis/electrical/estimate';
+import { analyseSteps } from '../server/src/engine';
 import { flatNetlist, hierarchicalNetlist } from './netlists';
 
 function measure(label: string, text: string): void {
@@ -44,6 +45,26 @@ function measure(label: string, text: string): void {
   );
 }
 
+/**
+ * The full analysis as the editor runs it, in slices between protocol messages: the longest
+ * stretch between two yields is how long an edit can wait behind an analysis under way.
+ */
+function measureSteps(label: string, text: string): void {
+  const host = memoryHost({ '/bench.sp': text });
+  const steps = analyseSteps(host, '/bench.sp');
+  const gaps: number[] = [];
+  let t = performance.now();
+  const t0 = t;
+  for (let r = steps.next(); ; r = steps.next()) {
+    const now = performance.now();
+    gaps.push(now - t);
+    t = now;
+    if (r.done) break;
+  }
+  gaps.sort((a, b) => a - b);
+  const at = (q: number) => gaps[Math.min(gaps.length - 1, Math.floor(q * gaps.length))]!.toFixed(0);
+  console.log(`${label.padEnd(13)} full analysis in steps: ${(t - t0).toFixed(0)} ms in ${gaps.length} steps | longest step ${at(1)} ms, 99th percentile ${at(0.99)} ms, median ${at(0.5)} ms`);
+}
 
 function main(): void {
   const large = process.argv.includes('--large');
@@ -53,6 +74,7 @@ function main(): void {
   for (const n of sizes) {
     measure('hierarchical', hierarchicalNetlist(n));
     measure('flat', flatNetlist(n));
+    measureSteps('hierarchical', hierarchicalNetlist(n));
   }
   console.log(`peak RSS ${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MB (node ${process.version}, ${require('node:os').cpus().length} cores)`);
 }

@@ -6,15 +6,15 @@ import type { Diagnostic } from './core/diagnostics';
 import type { FileHost } from './core/host';
 import type { EngineOptions } from './core/options';
 import { loadDeck, type Deck } from './circuit/deck';
-import { elaborate } from './circuit/elaborate';
+import { elaborateSteps } from './circuit/elaborate';
 import type { Circuit, Design } from './circuit/circuit';
 import { findClocks } from './phases/clocks';
 import { buildPhases, type PhasePlan } from './phases/phases';
-import { buildSwitchNetwork, patchSwitchNetwork, type NetworkPatch } from './analysis/switchNetwork';
+import { buildSwitchNetworkSteps, patchSwitchNetwork, type NetworkPatch } from './analysis/switchNetwork';
 import { classifySteps, reclassify, renameStates, renumberDevices, type Classification } from './analysis/classify';
 import { classificationFindings, reviseClassificationFindings } from './findings/classificationFindings';
 import { applyAccepts } from './findings/accepts';
-import { buildContext, renumberedContext, rewiredContext, type ElectricalContext } from './analysis/electrical/context';
+import { buildContextSteps, renumberedContext, rewiredContext, type ElectricalContext } from './analysis/electrical/context';
 import { estimateNodeSteps, nodesAround, nodesReading, reestimate, renameEstimates, renumberEstimates, updateEstimates, type NodeEstimate } from './analysis/electrical/estimate';
 import { patchSizes } from './circuit/patch';
 import { renameNets, type NetRename } from './circuit/rename';
@@ -90,7 +90,7 @@ export function analyse(host: FileHost, file: string, options: EngineOptions = {
 export function* analyseSteps(host: FileHost, file: string, options: EngineOptions = {}): Steps<AnalysisResult> {
   const deck = readDeck(host, file, options);
   yield;
-  const { design, diagnostics } = elaborate(deck, options);
+  const { design, diagnostics } = yield* elaborateSteps(deck, options);
   yield;
   const frontEnd = [...deck.diagnostics, ...diagnostics];
   const circuits: CircuitAnalysis[] = [];
@@ -98,13 +98,14 @@ export function* analyseSteps(host: FileHost, file: string, options: EngineOptio
     for (const circuit of design.circuits) {
       const clocks = findClocks(circuit, design.directives, options);
       const plan = buildPhases(circuit, clocks.clocks, design.directives, options);
-      const network = buildSwitchNetwork(circuit, clocks.clocks);
+      const network = yield* buildSwitchNetworkSteps(circuit, clocks.clocks);
       yield;
       const classification = yield* classifySteps(network, plan);
       const analysis: CircuitAnalysis = { circuit, plan, classification, findings: { phases: [...clocks.diagnostics, ...plan.diagnostics], classification: classificationFindings(circuit, classification, options), electrical: [], models: [] } };
       circuits.push(analysis);
       if (options.skipEstimates !== true) {
-        const ctx = electricalContext(circuit, design, plan, classification, options);
+        yield;
+        const ctx = yield* electricalContext(circuit, design, plan, classification, options);
         analysis.electrical = ctx;
         analysis.estimates = yield* estimateNodeSteps(ctx);
         analysis.findings.electrical = electricalFindings(ctx, analysis.estimates);
@@ -346,14 +347,14 @@ function finish(deck: Deck, design: Design, circuits: CircuitAnalysis[], frontEn
 }
 
 /** Supply, corners and budget: directives win over settings, settings over defaults. */
-function electricalContext(circuit: Circuit, design: Design, plan: PhasePlan, classification: Classification, options: EngineOptions): ElectricalContext {
+function* electricalContext(circuit: Circuit, design: Design, plan: PhasePlan, classification: Classification, options: EngineOptions): Steps<ElectricalContext> {
   const known = circuit.supplies.map((s) => s.volts).filter((v): v is number => v !== null && v > 0);
   const vddV = known.length ? Math.max(...known) : (options.defaultSupplyVolts ?? FALLBACK_SUPPLY_V);
   const vddFrom = known.length ? 'netlist' : options.defaultSupplyVolts !== undefined ? 'setting' : 'fallback';
   const temps = design.directives.tempsC?.values ?? options.tempsC ?? DEFAULT_TEMPS_C;
   const corners = temps.map((t) => ({ tempC: t, tempK: celsiusToKelvin(t) }));
   const b = design.directives.budget ?? options.budget ?? {};
-  const base = buildContext(circuit, buildNetworkOf(classification), plan, classification, { vddV, vddFrom, corners, budgetV: DEFAULT_BUDGET_FRACTION * vddV });
+  const base = yield* buildContextSteps(circuit, buildNetworkOf(classification), plan, classification, { vddV, vddFrom, corners, budgetV: DEFAULT_BUDGET_FRACTION * vddV });
   let budgetV = b.volts ?? (b.fraction !== undefined ? b.fraction * vddV : DEFAULT_BUDGET_FRACTION * vddV);
   if (b.receiver) {
     // the first storage node's receiving inverter sets the threshold

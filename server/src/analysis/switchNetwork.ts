@@ -6,7 +6,8 @@
 import type { Circuit } from '../circuit/circuit';
 import type { Clock } from '../phases/clocks';
 import type { MosfetRenumbering } from '../circuit/splice';
-import { composeRenumberings, renumbered } from '../core/renumber';
+import { composeRenumberings, renumbered, splicedList } from '../core/renumber';
+import { ITEMS_PER_SLICE, runToEnd, type Steps } from '../core/steps';
 
 export const enum NetRole {
   Internal = 0,
@@ -61,7 +62,13 @@ export interface SwitchNetwork {
 }
 
 export function buildSwitchNetwork(c: Circuit, clocks: Clock[]): SwitchNetwork {
+  return runToEnd(buildSwitchNetworkSteps(c, clocks));
+}
+
+/** `buildSwitchNetwork` in slices: it yields between its passes and inside the long ones. */
+export function* buildSwitchNetworkSteps(c: Circuit, clocks: Clock[]): Steps<SwitchNetwork> {
   const n = c.nets.length;
+  const STEP = 4 * ITEMS_PER_SLICE;
   const role = new Uint8Array(n);
   for (const net of c.nets) {
     if (net.kind === 'ground') role[net.id] = NetRole.Rail0;
@@ -76,10 +83,12 @@ export function buildSwitchNetwork(c: Circuit, clocks: Clock[]): SwitchNetwork {
 
   const switches: Switch[] = [];
   const drivesGate = new Uint8Array(n);
-  c.mosfets.forEach((m, i) => {
+  for (let i = 0; i < c.mosfets.length; i++) {
+    const m = c.mosfets[i]!;
     switches.push({ a: m.d, b: m.s, gate: m.g, kind: m.polarity === 'n' ? SwitchKind.N : SwitchKind.P, other: -1 });
     drivesGate[m.g] = 1;
-  });
+    if (i % STEP === STEP - 1) yield;
+  }
   c.resistors.forEach((r, i) => switches.push({ a: r.a, b: r.b, gate: -1, kind: SwitchKind.On, other: i }));
   c.inductors.forEach((l, i) => switches.push({ a: l.a, b: l.b, gate: -1, kind: SwitchKind.On, other: i }));
 
@@ -97,6 +106,7 @@ export function buildSwitchNetwork(c: Circuit, clocks: Clock[]): SwitchNetwork {
     if (s.a === s.b) continue;
     if (role[s.a] === NetRole.Internal && role[s.b] === NetRole.Internal) parent[find(s.a)] = find(s.b);
   }
+  yield;
   const componentOf = new Int32Array(n).fill(-1);
   const components: Component[] = [];
   for (let i = 0; i < n; i++) {
@@ -111,31 +121,52 @@ export function buildSwitchNetwork(c: Circuit, clocks: Clock[]): SwitchNetwork {
     componentOf[i] = id;
   }
   for (let i = 0; i < n; i++) if (role[i] === NetRole.Internal) components[componentOf[i]!]!.nodes.push(i);
+  yield;
   const gatedComponents: number[][] = Array.from({ length: n }, () => []);
-  switches.forEach((s, si) => {
+  yield;
+  for (let si = 0; si < switches.length; si++) {
+    if (si % STEP === STEP - 1) yield;
+    const s = switches[si]!;
     const ca = componentOf[s.a]!;
     const cb = componentOf[s.b]!;
     const owner = ca >= 0 ? ca : cb;
-    if (owner < 0) return; // rail-to-rail device (a decap, a tie): no internal node
+    if (owner < 0) continue; // rail-to-rail device (a decap, a tie): no internal node
     const comp = components[owner]!;
     comp.switches.push(si);
     if (s.gate >= 0 && !comp.gates.includes(s.gate)) {
       comp.gates.push(s.gate);
       gatedComponents[s.gate]!.push(owner);
     }
-  });
+  }
+  yield;
 
   // Structural reachability from strong nets, ignoring gates.
+  // (the neighbours as compressed rows: one array for all, not one per net)
   const unreachable = new Uint8Array(n);
-  const adj: number[][] = Array.from({ length: n }, () => []);
+  const start = new Int32Array(n + 1);
   for (const s of switches) {
-    adj[s.a]!.push(s.b);
-    adj[s.b]!.push(s.a);
+    start[s.a + 1]!++;
+    start[s.b + 1]!++;
   }
+  for (let i = 0; i < n; i++) start[i + 1]! += start[i]!;
+  const fill = start.slice(0, n);
+  const adj = new Int32Array(start[n]!);
+  for (const s of switches) {
+    adj[fill[s.a]!++] = s.b;
+    adj[fill[s.b]!++] = s.a;
+  }
+  yield;
   const seen = new Uint8Array(n);
-  const queue: number[] = [];
-  for (let i = 0; i < n; i++) if (role[i] !== NetRole.Internal) (seen[i] = 1), queue.push(i);
-  for (let q = 0; q < queue.length; q++) for (const x of adj[queue[q]!]!) if (!seen[x]) (seen[x] = 1), queue.push(x);
+  const queue = new Int32Array(n);
+  let tail = 0;
+  for (let i = 0; i < n; i++) if (role[i] !== NetRole.Internal) (seen[i] = 1), (queue[tail++] = i);
+  for (let q = 0; q < tail; q++) {
+    const x = queue[q]!;
+    for (let k = start[x]!; k < start[x + 1]!; k++) {
+      const y = adj[k]!;
+      if (!seen[y]) (seen[y] = 1), (queue[tail++] = y);
+    }
+  }
   for (let i = 0; i < n; i++) if (!seen[i]) unreachable[i] = 1;
 
   return { circuit: c, role, switches, componentOf, components, gatedComponents, drivesGate, unreachable };
@@ -174,29 +205,8 @@ export function patchSwitchNetwork(prev: SwitchNetwork, c: Circuit, moved: reado
     switchMap = new Int32Array(prev.switches.length);
     switchMap.set(renumbering.oldToNew);
     for (let si = nmBefore; si < switchMap.length; si++) switchMap[si] = si + nm - nmBefore;
-    // a switch names no index of its own, so the kept ones are carried as they are, in runs
-    const runs: Switch[][] = [];
-    let from = 0;
-    for (const i of renumbering.deleted) {
-      runs.push(prev.switches.slice(from, i));
-      from = i + 1;
-    }
-    runs.push(prev.switches.slice(from));
-    const kept = ([] as Switch[]).concat(...runs);
-    if (renumbering.added.length === 0) switches = kept;
-    else {
-      switches = [];
-      let at = 0;
-      const pieces: Switch[][] = [];
-      for (const j of renumbering.added) {
-        // j - (added before it) kept switches come before the j-th position
-        const upTo = j - pieces.length / 2;
-        pieces.push(kept.slice(at, upTo), [addedSwitch(c, j)]);
-        at = upTo;
-      }
-      pieces.push(kept.slice(at));
-      switches = switches.concat(...pieces);
-    }
+    // a switch names no index of its own, so the kept ones are carried as they are
+    switches = splicedList(prev.switches, renumbering.deleted, renumbering.added, (j) => addedSwitch(c, j));
   }
   const toNew = (si: number) => (switchMap ? switchMap[si]! : si);
   for (const si of moved) {

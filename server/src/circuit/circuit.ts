@@ -102,8 +102,8 @@ export interface Instance {
   subckt: string;
   /** The flat nets its ports are bound to, in port order. */
   ports: number[];
-  /** Where the elements below it sit in the circuit's lists: [first, end) of each (depth first, so contiguous). */
-  below: { mosfets: [number, number]; instances: [number, number] };
+  /** Where the instances below it sit in the circuit's list: [first, end) (depth first, so contiguous). Its MOSFETs: `Circuit.instanceMosfets`. */
+  below: { instances: [number, number] };
   origin: Origin;
 }
 
@@ -138,6 +138,12 @@ export interface Circuit {
   diodes: Diode[];
   others: OtherElement[];
   instances: Instance[];
+  /**
+   * Where each instance's MOSFETs sit in `mosfets`: [first, end) of instance i at 2i and 2i + 1
+   * (depth first, so contiguous). Kept apart from the instances so that devices put in or taken
+   * out move these numbers and leave the instance objects as they are.
+   */
+  instanceMosfets: Int32Array;
   ports: Port[];
   supplies: Supply[];
   grounds: number[];

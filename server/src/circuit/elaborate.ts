@@ -16,6 +16,7 @@ import { interpretElement, MODELLED_LETTERS, splitItems, type ElementSyntax } fr
 import { modelKindOf, mosFamilyOf, selectModel, splitBinName, type ModelCard } from './models';
 import { evaluateValue, ParamScope } from './params';
 import { parseSpiceNumber } from './numbers';
+import { ITEMS_PER_SLICE, runToEnd, type Steps } from '../core/steps';
 
 const GROUND_ALIASES = new Set(['0', 'gnd', 'gnd!']);
 
@@ -180,6 +181,11 @@ export function guessMicronScale(deck: Deck): { median: number; first: { file: s
 }
 
 export function elaborate(deck: Deck, options: EngineOptions = {}): ElaborateResult {
+  return runToEnd(elaborateSteps(deck, options));
+}
+
+/** `elaborate` in slices: it yields every few thousand elements copied into the circuit. */
+export function elaborateSteps(deck: Deck, options: EngineOptions = {}): Steps<ElaborateResult> {
   return new Elaborator(deck, options).run();
 }
 
@@ -193,6 +199,10 @@ class Elaborator {
   private readonly directives: DirectiveSet = emptyDirectives();
   private readonly deviceRules: { re: RegExp; kind: DeviceKind }[] = [];
   private scale = 1;
+  /** The circuit being elaborated: its instances' MOSFET spans (Circuit.instanceMosfets). */
+  private spans: number[] = [];
+  /** Elements copied since the last yield. */
+  private copied = 0;
   private scaleFrom: Design['geometryScale']['from'] = 'default';
   private tempC: number | undefined;
   private defL = 100e-6;
@@ -221,7 +231,7 @@ class Elaborator {
     this.report(diag('param-error', file, range, message));
   };
 
-  run(): ElaborateResult {
+  *run(): Steps<ElaborateResult> {
     const deck = this.deck;
     // Directives anywhere in the deck apply to the whole design.
     // An `accept` written inside a subcircuit names the node as the cell knows it (every instance).
@@ -264,11 +274,11 @@ class Elaborator {
       if (!def) {
         const f = deck.files[0];
         this.report(diag('unknown-subckt', f?.file ?? '', { start: { line: 0, character: 0 }, end: { line: 0, character: 0 } }, `--top names '${this.options.top}', which the netlist does not define`));
-      } else circuits.push(this.elaborateStandalone(def));
+      } else circuits.push(yield* this.elaborateStandalone(def));
     } else if (topHasDevices || deck.subckts.size === 0) {
-      circuits.push(this.elaborateTop());
+      circuits.push(yield* this.elaborateTop());
     } else {
-      for (const def of deck.subckts.values()) circuits.push(this.elaborateStandalone(def));
+      for (const def of deck.subckts.values()) circuits.push(yield* this.elaborateStandalone(def));
     }
     this.reportMissingModels();
     this.checkPlausibleGeometry(circuits);
@@ -640,6 +650,7 @@ class Elaborator {
   // ---- flattening --------------------------------------------------------------------------
 
   private newCircuit(name: string, standalone: boolean): Circuit {
+    this.spans = [];
     return {
       name,
       standalone,
@@ -653,6 +664,7 @@ class Elaborator {
       diodes: [],
       others: [],
       instances: [],
+      instanceMosfets: new Int32Array(0),
       ports: [],
       supplies: [],
       grounds: [],
@@ -675,16 +687,17 @@ class Elaborator {
     return this.addNet(c, name, { ...origin, local: name }, true);
   }
 
-  private elaborateTop(): Circuit {
+  private *elaborateTop(): Steps<Circuit> {
     const c = this.newCircuit('(top)', false);
     const t = this.template(undefined);
     const netMap = t.localNames.map((n, i) => this.addNet(c, n, t.localOrigins[i]!, false));
-    this.instantiate(c, t, netMap, '', this.globalScope, 'top', []);
+    yield* this.instantiate(c, t, netMap, '', this.globalScope, 'top', []);
+    c.instanceMosfets = Int32Array.from(this.spans);
     this.assignRails(c, c.nets.filter((n) => !n.name.includes('.')).map((n) => n.id));
     return c;
   }
 
-  private elaborateStandalone(def: SubcktDefinition): Circuit {
+  private *elaborateStandalone(def: SubcktDefinition): Steps<Circuit> {
     const c = this.newCircuit(def.name, true);
     const t = this.template(def);
     const scope = new ParamScope(this.globalScope);
@@ -697,7 +710,8 @@ class Elaborator {
         return v === undefined ? 'x' : String(v);
       })
       .join(',');
-    this.instantiate(c, t, netMap, '', scope, key, [def]);
+    yield* this.instantiate(c, t, netMap, '', scope, key, [def]);
+    c.instanceMosfets = Int32Array.from(this.spans);
     const portNets = def.ports.map((_, i) => netMap[i]!);
     this.assignRails(c, [...portNets, ...c.nets.filter((n) => n.global).map((n) => n.id)]);
     this.assignPorts(c, def, portNets);
@@ -705,7 +719,7 @@ class Elaborator {
   }
 
   /** Copies a template into the circuit with its nets bound by `netMap` (local index -> flat id). */
-  private instantiate(c: Circuit, t: Template, netMap: number[], prefix: string, scope: ParamScope, key: string, defStack: SubcktDefinition[]): void {
+  private *instantiate(c: Circuit, t: Template, netMap: number[], prefix: string, scope: ParamScope, key: string, defStack: SubcktDefinition[]): Steps<void> {
     // Internal nets: the first ports.length slots are bound by the caller.
     const bound = netMap.length;
     for (let i = bound; i < t.localNames.length; i++) {
@@ -715,6 +729,10 @@ class Elaborator {
     const net = (k: number) => (k >= 0 ? netMap[k]! : globalIds[-k - 1]!);
     const vals = this.values(t, scope, key, defStack);
     for (let i = 0; i < t.elements.length; i++) {
+      if (++this.copied === ITEMS_PER_SLICE) {
+        this.copied = 0;
+        yield;
+      }
       const el = t.elements[i]!;
       const v = vals[i]!;
       const name = prefix + el.origin.local;
@@ -761,10 +779,12 @@ class Elaborator {
         case 'instance': {
           const child = this.template(v.target);
           const childMap = el.nodes.map(net);
-          const inst: Instance = { name, subckt: v.target.name, ports: childMap.slice(), below: { mosfets: [c.mosfets.length, 0], instances: [c.instances.length + 1, 0] }, origin: el.origin };
+          const inst: Instance = { name, subckt: v.target.name, ports: childMap.slice(), below: { instances: [c.instances.length + 1, 0] }, origin: el.origin };
+          const at = c.instances.length;
           c.instances.push(inst);
-          this.instantiate(c, child, childMap, name + '.', v.scope, v.key, [...defStack, v.target]);
-          inst.below.mosfets[1] = c.mosfets.length;
+          this.spans[2 * at] = c.mosfets.length;
+          yield* this.instantiate(c, child, childMap, name + '.', v.scope, v.key, [...defStack, v.target]);
+          this.spans[2 * at + 1] = c.mosfets.length;
           inst.below.instances[1] = c.instances.length;
           break;
         }

@@ -170,7 +170,7 @@ function rewireCircuit(
 
   // instance lines first: their subtrees' devices follow the moved ports
   const below = new Map<string, Map<number, number>>();
-  const spans: Array<Instance['below']> = [];
+  const spans: Array<{ instances: readonly [number, number]; mosfets: readonly [number, number] }> = [];
   const flagged = new Uint8Array(c.nets.length);
   let instances: Instance[] | undefined;
   const instanceIndex = originIndex(c.instances);
@@ -195,7 +195,7 @@ function rewireCircuit(
     instances[i] = lines.move({ ...inst, ports: nets });
     if (remap.size) {
       below.set(q, remap);
-      spans.push(inst.below);
+      spans.push({ instances: inst.below.instances, mosfets: [c.instanceMosfets[2 * i]!, c.instanceMosfets[2 * i + 1]!] });
     }
   }
   /** The remap of the edited instance whose subtree holds `name`, if any. */

@@ -10,6 +10,7 @@
 
 import { rangeOf, Span, startLineOf, type Range } from '../core/source';
 import type { Diagnostic } from '../core/diagnostics';
+import { splicedList } from '../core/renumber';
 import type { Circuit, Design, Instance, Mosfet, Net, Origin, Polarity } from './circuit';
 import type { Deck } from './deck';
 import { elementNodeWords, guessMicronScale, type NetSlots } from './elaborate';
@@ -301,7 +302,9 @@ function spliceCircuit(c: Circuit, e: SpliceEdit, limit: number): { circuit: Cir
   // where the edited definition sits in this circuit, in instance order
   const contexts: Array<{ prefix: string; ports: readonly number[] | null; span: readonly [number, number] }> = [];
   if ((e.scope === null && !c.standalone) || (e.scope !== null && c.standalone && c.name === e.scope)) contexts.push({ prefix: '', ports: null, span: [0, c.mosfets.length] });
-  for (const inst of c.instances) if (inst.subckt === e.scope) contexts.push({ prefix: inst.name + '.', ports: inst.ports, span: inst.below.mosfets });
+  c.instances.forEach((inst, i) => {
+    if (inst.subckt === e.scope) contexts.push({ prefix: inst.name + '.', ports: inst.ports, span: [c.instanceMosfets[2 * i]!, c.instanceMosfets[2 * i + 1]!] });
+  });
   if (contexts.length && c.standalone && c.ports.some((p) => p.from === 'inferred')) return undefined;
   if (contexts.length * e.lines.length > limit) return undefined;
   const flatNet = (prefix: string, ports: readonly number[] | null, slot: number): number | undefined => {
@@ -367,32 +370,30 @@ function spliceCircuit(c: Circuit, e: SpliceEdit, limit: number): { circuit: Cir
         }
       }
     }
-    // the list is copied in runs between the changes (the devices themselves are not read)
-    const runs: Mosfet[][] = [];
+    // the list is copied once with the changes (the devices themselves are not read)
     let from = 0;
     let shift = 0;
-    const copyTo = (to: number) => {
-      runs.push(c.mosfets.slice(from, to));
+    const renumberTo = (to: number) => {
       for (let i = from; i < to; i++) oldToNew[i] = i + shift;
       from = to;
     };
     if (e.deleting) {
       for (const i of deleted) {
-        copyTo(i);
+        renumberTo(i);
         oldToNew[i] = -1;
         from = i + 1;
         shift--;
       }
     } else {
-      inserts.forEach((x, q) => {
-        copyTo(x.at);
+      for (const x of inserts) {
+        renumberTo(x.at);
         addedAt.push(x.at + shift);
-        runs.push([added[q]!]);
         shift++;
-      });
+      }
     }
-    copyTo(nm);
-    mosfets = ([] as Mosfet[]).concat(...runs);
+    renumberTo(nm);
+    let q = 0;
+    mosfets = splicedList(c.mosfets, deleted, addedAt, () => added[q++]!);
     // the devices of lines after the edit take their lines' new places
     const next = new Map<Origin, number[]>();
     for (const [o, at] of index) {
@@ -432,26 +433,34 @@ function spliceCircuit(c: Circuit, e: SpliceEdit, limit: number): { circuit: Cir
   // an insert where the span starts or ends is inside it when it belongs to the instance's subtree
   const inside = (k: number, inst: Instance) => inserts[k]!.prefix.startsWith(inst.name) && inserts[k]!.prefix[inst.name.length] === '.';
   let instances = c.instances;
+  // (the spans live in one typed array, so most instances keep their objects)
+  let instanceMosfets = c.instanceMosfets;
   for (let i = 0; i < c.instances.length; i++) {
     const inst = c.instances[i]!;
     const origin = e.moveOrigin(inst.origin);
-    const span = inst.below.mosfets;
-    let ns = span[0];
-    let nt = span[1];
+    const s0 = c.instanceMosfets[2 * i]!;
+    const s1 = c.instanceMosfets[2 * i + 1]!;
+    let ns = s0;
+    let nt = s1;
     if (renumbering && e.deleting) {
-      ns -= before(deletedList, span[0]);
-      nt -= before(deletedList, span[1]);
+      ns -= before(deletedList, s0);
+      nt -= before(deletedList, s1);
     } else if (renumbering) {
-      const bs = before(insertAt, span[0]);
+      const bs = before(insertAt, s0);
       ns += bs;
-      for (let k = bs; k < insertAt.length && insertAt[k] === span[0]; k++) if (!inside(k, inst)) ns++;
-      const bt = before(insertAt, span[1]);
+      for (let k = bs; k < insertAt.length && insertAt[k] === s0; k++) if (!inside(k, inst)) ns++;
+      const bt = before(insertAt, s1);
       nt += bt;
-      for (let k = bt; k < insertAt.length && insertAt[k] === span[1]; k++) if (inside(k, inst)) nt++;
+      for (let k = bt; k < insertAt.length && insertAt[k] === s1; k++) if (inside(k, inst)) nt++;
     }
-    if (origin === inst.origin && ns === span[0] && nt === span[1]) continue;
+    if (ns !== s0 || nt !== s1) {
+      if (instanceMosfets === c.instanceMosfets) instanceMosfets = c.instanceMosfets.slice();
+      instanceMosfets[2 * i] = ns;
+      instanceMosfets[2 * i + 1] = nt;
+    }
+    if (origin === inst.origin) continue;
     if (instances === c.instances) instances = c.instances.slice();
-    instances[i] = { name: inst.name, subckt: inst.subckt, ports: inst.ports, below: { mosfets: [ns, nt], instances: inst.below.instances }, origin };
+    instances[i] = { ...inst, origin };
   }
   // nets by where they were first written (every instance of a line shares the origin)
   let nets: Net[] = c.nets;
@@ -479,6 +488,7 @@ function spliceCircuit(c: Circuit, e: SpliceEdit, limit: number): { circuit: Cir
     diodes: moveAll(c.diodes, e.moveOrigin),
     others: moveAll(c.others, e.moveOrigin),
     instances,
+    instanceMosfets,
   };
   return { circuit, renumbering };
 }

@@ -10,6 +10,7 @@ import { modelFor } from '../devices/catalogue';
 import type { MosModel } from '../devices/mosModel';
 import type { MosfetRenumbering } from '../../circuit/splice';
 import { composeRenumberings, renumbered } from '../../core/renumber';
+import { ITEMS_PER_SLICE, runToEnd, type Steps } from '../../core/steps';
 
 export interface Corner {
   tempC: number;
@@ -36,7 +37,15 @@ export interface ElectricalContext {
   capsOf: number[][];
 }
 
-export function buildContext(circuit: Circuit, network: SwitchNetwork, plan: PhasePlan, classification: Classification, opts: { vddV: number; vddFrom: ElectricalContext['vddFrom']; corners: Corner[]; budgetV: number }): ElectricalContext {
+export type ContextOptions = { vddV: number; vddFrom: ElectricalContext['vddFrom']; corners: Corner[]; budgetV: number };
+
+export function buildContext(circuit: Circuit, network: SwitchNetwork, plan: PhasePlan, classification: Classification, opts: ContextOptions): ElectricalContext {
+  return runToEnd(buildContextSteps(circuit, network, plan, classification, opts));
+}
+
+/** `buildContext` in slices: the per-net device lists are long loops on a large circuit. */
+export function* buildContextSteps(circuit: Circuit, network: SwitchNetwork, plan: PhasePlan, classification: Classification, opts: ContextOptions): Steps<ElectricalContext> {
+  const STEP = 4 * ITEMS_PER_SLICE;
   const railVolts = new Float64Array(circuit.nets.length).fill(NaN);
   for (let i = 0; i < circuit.nets.length; i++) {
     const r = network.role[i];
@@ -45,13 +54,18 @@ export function buildContext(circuit: Circuit, network: SwitchNetwork, plan: Pha
   }
   for (const s of circuit.supplies) if (s.volts !== null) railVolts[s.net] = s.volts;
   const channelOf: number[][] = Array.from({ length: circuit.nets.length }, () => []);
+  yield;
   const gateOf: number[][] = Array.from({ length: circuit.nets.length }, () => []);
-  circuit.mosfets.forEach((m, i) => {
+  yield;
+  for (let i = 0; i < circuit.mosfets.length; i++) {
+    const m = circuit.mosfets[i]!;
     channelOf[m.d]!.push(i);
     if (m.s !== m.d) channelOf[m.s]!.push(i);
     gateOf[m.g]!.push(i);
-  });
+    if (i % STEP === STEP - 1) yield;
+  }
   const capsOf: number[][] = Array.from({ length: circuit.nets.length }, () => []);
+  yield;
   circuit.capacitors.forEach((cap, i) => {
     capsOf[cap.a]!.push(i);
     if (cap.b !== cap.a) capsOf[cap.b]!.push(i);

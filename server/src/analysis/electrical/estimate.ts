@@ -7,7 +7,7 @@ import { floatsIn, nodeFloatWindow, type NodePhaseResult } from '../classify';
 import { evaluateComponent, newScratch, type Scratch } from '../constants';
 import { mosfetOfSwitch, NetRole, SwitchKind } from '../switchNetwork';
 import { carryToTwin, familyOf, type Family } from './family';
-import { ITEMS_PER_SLICE, runToEnd, type Steps } from '../../core/steps';
+import { HEAVY_ITEMS_PER_SLICE, runToEnd, type Steps } from '../../core/steps';
 import { OverlayMap, RenumberedMap } from '../../core/overlay';
 import type { ElectricalContext } from './context';
 import { capacitanceSignature, islandCapacitance, type CapacitanceBreakdown } from './capacitance';
@@ -88,7 +88,7 @@ export function* estimateNodeSteps(ctx: ElectricalContext, how: { twins?: boolea
   const run = new EstimateRun(ctx, how.twins !== false);
   const out = new Map<number, NodeEstimate>();
   for (let n = 0; n < ctx.circuit.nets.length; n++) {
-    if (n % ITEMS_PER_SLICE === ITEMS_PER_SLICE - 1) yield;
+    if (n % HEAVY_ITEMS_PER_SLICE === HEAVY_ITEMS_PER_SLICE - 1) yield;
     const e = run.estimate(n);
     if (e) out.set(n, e);
   }
