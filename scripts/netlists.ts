@@ -21,8 +21,8 @@ Mkp dyn out vdd vdd bp w=0.15u l=0.1u
 Xo dyn out vdd vss b_inv
 .ends
 .subckt b_dlatch d clk clkb q vdd vss
-Mtn d clk st vss bn w=0.3u l=0.05u
-Mtp d clkb st vdd bp w=0.6u l=0.05u
+Mtn d clk st vss bn w=0.3u l=lpass
+Mtp d clkb st vdd bp w=0.6u l=lpass
 Xr st q vdd vss b_inv
 .ends
 `;
@@ -49,7 +49,7 @@ export function hierarchicalNetlist(transistors: number): string {
   const perBlock = 20;
   const blocks = Math.ceil(slices / perBlock);
   // bnl, bpl: low-threshold flavours, unused until an edit swaps a device to one
-  const lines = ['benchmark: hierarchical datapath', '.model bn nmos level=1 vto=0.4 kp=200u', '.model bp pmos level=1 vto=-0.4 kp=80u', '.model bnl nmos level=1 vto=0.3 kp=220u', '.model bpl pmos level=1 vto=-0.3 kp=90u', LEAF_CELLS, SLICE];
+  const lines = ['benchmark: hierarchical datapath', '.model bn nmos level=1 vto=0.4 kp=200u', '.model bp pmos level=1 vto=-0.4 kp=80u', '.model bnl nmos level=1 vto=0.3 kp=220u', '.model bpl pmos level=1 vto=-0.3 kp=90u', '.param lpass=0.05u', LEAF_CELLS, SLICE];
   lines.push('.subckt b_block ' + Array.from({ length: 4 }, (_, i) => `in${i}`).join(' ') + ' clk clkb out vdd vss');
   for (let s = 0; s < perBlock; s++) {
     const a = s === 0 ? 'in0' : `w${s - 1}`;

@@ -16,7 +16,8 @@ import { classificationFindings, reviseClassificationFindings } from './findings
 import { applyAccepts } from './findings/accepts';
 import { buildContextSteps, renumberedContext, rewiredContext, type ElectricalContext } from './analysis/electrical/context';
 import { estimateNodeSteps, nodesAround, nodesReading, reestimate, renameEstimates, renumberEstimates, updateEstimates, type NodeEstimate } from './analysis/electrical/estimate';
-import { patchSizes } from './circuit/patch';
+import { patchSizes, type SizePatch } from './circuit/patch';
+import { reelaborateValues } from './circuit/valueEdit';
 import { renameNets, type NetRename } from './circuit/rename';
 import { rewireNets, type Rewiring } from './circuit/rewire';
 import { shiftDiagnostics, spliceDevices, type DeviceSplice } from './circuit/splice';
@@ -137,10 +138,21 @@ export function reanalyse(previous: AnalysisResult, deck: Deck, options: EngineO
     const rewired = rewireNets(previous.deck, previous.design, deck, limit);
     if (rewired) return afterRewire(previous, deck, rewired, options);
     const spliced = spliceDevices(previous.deck, previous.design, deck, limit);
-    return spliced && afterSplice(previous, deck, spliced, options);
+    if (spliced) return afterSplice(previous, deck, spliced, options);
+    const values = reelaborateValues(previous.deck, previous.design, deck, options);
+    return values && afterSizes(previous, deck, { design: values.design, changed: values.changed, moved: [] }, [...deck.diagnostics, ...values.elaborationFindings], options);
   }
   // a front-end finding on an edited line may change with it (a parameter, a bin, the scale)
   if (previous.frontEnd.some((d) => onEditedLine(d, patch.moved))) return undefined;
+  return afterSizes(previous, deck, patch, previous.frontEnd, options);
+}
+
+/**
+ * After devices took new sizes, models or cards (`patch`: the same nets and connections): the
+ * phases and classification stand, the estimates of the nodes that read a changed device are
+ * redone. `frontEnd`: the new text's front-end findings.
+ */
+function afterSizes(previous: AnalysisResult, deck: Deck, patch: SizePatch, frontEnd: Diagnostic[], options: EngineOptions): AnalysisResult {
   const move = (list: Diagnostic[]) => moveEditedRanges(list, patch.moved);
   const circuits = previous.circuits.map((a, i): CircuitAnalysis => {
     const changed = patch.changed[i]!;
@@ -163,7 +175,7 @@ export function reanalyse(previous: AnalysisResult, deck: Deck, options: EngineO
       },
     };
   });
-  return finish(deck, patch.design, circuits, previous.frontEnd, options);
+  return finish(deck, patch.design, circuits, frontEnd, options);
 }
 
 /**
