@@ -188,6 +188,8 @@ function parser(): StatementParser {
 export interface ParseOptions {
   /** A top-level deck's first line is its title; an included file has none. */
   hasTitle: boolean;
+  /** False: every chunk through the lexer and the parser (the test of the plain-line reader). */
+  plainLines?: boolean;
 }
 
 const DIRECTIVE_PREFIX = /^\*\s*tidemark\s*:\s*/i;
@@ -255,6 +257,17 @@ export function parseNetlist(file: string, text: string, options: ParseOptions =
   // collector) instead of a million of them living until the whole file is read.
   let lineCount = 1;
   for (const chunk of chunksOf(lexText)) {
+    // most chunks of an extracted netlist are plain element lines: read without the lexer
+    const plain = !inControl && !ended && !nonAscii && options.plainLines !== false ? readPlainChunk(text, chunk, titleLine) : undefined;
+    if (plain) {
+      for (const stmt of plain.statements) {
+        statements.push(stmt);
+        statementStartLines.push(stmt.range.start.line);
+      }
+      for (const c of plain.comments) comments.push(c);
+      lineCount += plain.lineBreaks;
+      continue;
+    }
     const lexed = netlistLexer.tokenize(chunk.start === 0 && chunk.end === lexText.length ? lexText : lexText.slice(chunk.start, chunk.end));
     const adjust = (t: IToken) => {
       if (chunk.start) {
@@ -307,6 +320,99 @@ export function parseNetlist(file: string, text: string, options: ParseOptions =
 }
 
 const CHUNK_CHARS = 1 << 16;
+
+// Character classes of the plain-line reader (ASCII codes).
+const PLAIN_OTHER = 0;
+const PLAIN_WORD = 1;
+const PLAIN_SPACE = 2;
+const PLAIN_EQUALS = 3;
+const plainClass = new Uint8Array(128);
+for (let c = 33; c < 127; c++) plainClass[c] = PLAIN_WORD;
+for (const ch of '=(),{}\'";$') plainClass[ch.charCodeAt(0)] = PLAIN_OTHER;
+plainClass[61] = PLAIN_EQUALS;
+for (const c of [32, 9, 11, 12]) plainClass[c] = PLAIN_SPACE;
+
+/**
+ * A chunk read without the lexer and the parser, when every line in it is blank, a comment line
+ * or a plain statement: words, and `name=value` pairs of words, with spaces between (no '+'
+ * continuation, brace, quote, parenthesis, comma, ';' or '$' anywhere, no line break but LF and
+ * CRLF, no `.control`, `.endc` or `.end`). The statements, the comment lines and the line breaks
+ * are what the lexer and the parser make of the same text (`test/parser-plain.test.ts` holds
+ * it); undefined for any other chunk, which takes the usual way. An extracted netlist is mostly
+ * such lines, and this reads them several times faster.
+ */
+function readPlainChunk(text: string, chunk: { start: number; end: number; line: number }, titleLine: number): { statements: Statement[]; comments: IToken[]; lineBreaks: number } | undefined {
+  const statements: Statement[] = [];
+  const comments: IToken[] = [];
+  let line = chunk.line;
+  let i = chunk.start;
+  const end = chunk.end;
+  const words: Array<WordItem | '='> = [];
+  while (i < end) {
+    // one physical line: [i, eol)
+    let eol = i;
+    while (eol < end && text.charCodeAt(eol) !== 10) eol++;
+    let stop = eol;
+    // CRLF is one line break; a lone CR (a line break too) takes the usual way
+    if (eol < end && stop > i && text.charCodeAt(stop - 1) === 13) stop--;
+    if (line !== titleLine - 1) {
+      // a line start, for '*' and '+', is what only spaces and tabs precede (as in the lexer)
+      let k = i;
+      while (k < stop && (text.charCodeAt(k) === 32 || text.charCodeAt(k) === 9)) k++;
+      const first = text.charCodeAt(k);
+      if (k < stop && first === 42 /* * */) {
+        const image = text.slice(k, stop);
+        if (image.indexOf('\r') >= 0) return undefined;
+        comments.push({ image, startOffset: k, endOffset: stop - 1, startLine: line + 1, endLine: line + 1, startColumn: k - i + 1, endColumn: stop - i, tokenType: CommentLine, tokenTypeIdx: CommentLine.tokenTypeIdx! });
+      } else if (k < stop) {
+        if (first === 43 /* + */) return undefined;
+        words.length = 0;
+        while (k < stop) {
+          const c = text.charCodeAt(k);
+          const cls = c < 128 ? plainClass[c]! : PLAIN_OTHER;
+          if (cls === PLAIN_SPACE) k++;
+          else if (cls === PLAIN_EQUALS) {
+            words.push('=');
+            k++;
+          } else if (cls === PLAIN_WORD) {
+            const from = k;
+            while (k < stop && text.charCodeAt(k) < 128 && plainClass[text.charCodeAt(k)] === PLAIN_WORD) k++;
+            words.push(new ParsedWord(text.slice(from, k), line, from - i, line, k - i));
+          } else return undefined;
+        }
+        const stmt = plainStatement(words);
+        if (!stmt) return undefined;
+        const head = stmt.head.text.toLowerCase();
+        if (head === '.control' || head === '.endc' || head === '.end') return undefined;
+        statements.push(stmt);
+      }
+    } else if (text.charCodeAt(stop) === 13 || text.slice(i, stop).indexOf('\r') >= 0) return undefined;
+    if (eol < end) line++;
+    i = eol + 1;
+  }
+  return { statements, comments, lineBreaks: line - chunk.line };
+}
+
+/** A head word, then words and `name=value` pairs; undefined for anything else (the parser reports it). */
+function plainStatement(words: ReadonlyArray<WordItem | '='>): Statement | undefined {
+  const head = words[0];
+  if (head === undefined || head === '=') return undefined;
+  const items: Item[] = [];
+  for (let k = 1; k < words.length; k++) {
+    const w = words[k]!;
+    if (w === '=') return undefined;
+    if (words[k + 1] !== '=') {
+      items.push(w);
+      continue;
+    }
+    const value = words[k + 2];
+    if (value === undefined || value === '=' || words[k + 3] === '=') return undefined;
+    items.push(new ParsedAssign(w, value));
+    k += 2;
+  }
+  const last = items.length > 0 ? items[items.length - 1]!.range : head.range;
+  return { head, items, range: spanRanges(head.range, last) };
+}
 
 /**
  * Splits the text at line starts roughly every 64 KiB, never before a '+' continuation, so each

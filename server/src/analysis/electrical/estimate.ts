@@ -117,7 +117,8 @@ const sharedSolves = new WeakMap<ReadonlyMap<number, NodeEstimate>, Int32Array>(
  */
 export function updateEstimates(ctx: ElectricalContext, previous: ReadonlyMap<number, NodeEstimate>, affected: readonly number[]): Map<number, NodeEstimate> {
   const run = new EstimateRun(ctx);
-  const out = new Map(previous);
+  // the redone nodes laid over the previous map (no node comes or goes: the classification stands)
+  const changes = new Map<number, NodeEstimate | undefined>();
   const before = sharedSolves.get(previous);
   const shareOf = before ? before.slice() : new Int32Array(ctx.circuit.nets.length).fill(-1);
   const affectedSet = new Set(affected);
@@ -137,14 +138,14 @@ export function updateEstimates(ctx: ElectricalContext, previous: ReadonlyMap<nu
       if (ctx.classification.storage[n]) twin = carryToTwin(ctx, (first.family ??= familyOf(ctx, first.estimate)), n, devices);
       else twin = copyEstimate(first.estimate, n, devices);
       if (twin) {
-        out.set(n, twin);
+        changes.set(n, twin);
         shareOf[n] = first.estimate.node;
         continue;
       }
     }
     const e = run.estimate(n);
     if (e) {
-      out.set(n, e);
+      changes.set(n, e);
       shareOf[n] = run.shareOf.get(n) ?? n;
       if (family !== undefined && !solvedFor.has(family)) {
         solvedFor.set(family, { estimate: e });
@@ -152,10 +153,11 @@ export function updateEstimates(ctx: ElectricalContext, previous: ReadonlyMap<nu
         if (family === n && sameValue(e, previous.get(n))) unchangedFamilies.add(family);
       }
     } else {
-      out.delete(n);
+      changes.set(n, undefined);
       shareOf[n] = -1;
     }
   }
+  const out = OverlayMap.over(previous, changes);
   sharedSolves.set(out, shareOf);
   return out;
 }
