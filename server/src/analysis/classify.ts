@@ -10,7 +10,7 @@ import type { PhasePlan, Phase } from '../phases/phases';
 import { floatWindow } from '../phases/phases';
 import { evaluateComponent, newScratch, propagateConstants, repropagateConstants, X, type Scratch } from './constants';
 import { mosfetOfSwitch, NetRole, SwitchKind, type Component, type SwitchNetwork } from './switchNetwork';
-import { HEAVY_ITEMS_PER_SLICE, runToEnd, type Steps } from '../core/steps';
+import { HEAVY_ITEMS_PER_SLICE, stepDue, runToEnd, type Steps } from '../core/steps';
 import { OverlayMap, RenumberedMap } from '../core/overlay';
 
 export type NodeStateName = 'driven' | 'conditional' | 'floating' | 'kept' | 'contention' | 'undriven';
@@ -234,6 +234,7 @@ export function* classifySteps(net: SwitchNetwork, plan: PhasePlan, how: { twins
   const local = new Int32Array(c.nets.length).fill(-1);
   const result: Classification = { network: net, plan, perPhase: [], phaseValues: [], storage, wideComponents: 0, uncheckedComponents: 0, componentFlags: [] };
   const buffers = newBuffers(c.nets.length, how.twins !== false);
+  const due = stepDue();
   for (const phase of plan.phases) {
     const values = propagateConstants(net, phase.clocks, scratch);
     result.phaseValues.push(values);
@@ -247,7 +248,7 @@ export function* classifySteps(net: SwitchNetwork, plan: PhasePlan, how: { twins
       const comp = net.components[k]!;
       for (let i = 0; i < comp.nodes.length; i++) local[comp.nodes[i]!] = i;
       classifyComponent(pass, comp);
-      if (k % HEAVY_ITEMS_PER_SLICE === HEAVY_ITEMS_PER_SLICE - 1) yield;
+      if (due() || k % HEAVY_ITEMS_PER_SLICE === HEAVY_ITEMS_PER_SLICE - 1) yield;
     }
     for (let i = 0; i < c.nets.length; i++) if (net.unreachable[i]) states.set(i, { state: 'undriven', exact: true });
     result.perPhase.push(states);

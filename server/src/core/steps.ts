@@ -16,6 +16,21 @@ export const ITEMS_PER_SLICE = 1500;
  */
 export const HEAVY_ITEMS_PER_SLICE = 200;
 
+/**
+ * For loops of uneven items (one floating node's leakage solve may cost a thousand times
+ * another's): true once about `budgetMs` of work has passed since it last said so. Reading the
+ * clock changes no result; it only decides where the loop yields.
+ */
+export function stepDue(budgetMs = 5): () => boolean {
+  let last = performance.now();
+  return () => {
+    const now = performance.now();
+    if (now - last < budgetMs) return false;
+    last = now;
+    return true;
+  };
+}
+
 export function runToEnd<T>(steps: Steps<T>): T {
   for (;;) {
     const r = steps.next();

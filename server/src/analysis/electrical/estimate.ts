@@ -7,11 +7,11 @@ import { floatsIn, nodeFloatWindow, type NodePhaseResult } from '../classify';
 import { evaluateComponent, newScratch, type Scratch } from '../constants';
 import { mosfetOfSwitch, NetRole, SwitchKind } from '../switchNetwork';
 import { carryToTwin, familyOf, type Family } from './family';
-import { HEAVY_ITEMS_PER_SLICE, runToEnd, type Steps } from '../../core/steps';
+import { HEAVY_ITEMS_PER_SLICE, stepDue, runToEnd, type Steps } from '../../core/steps';
 import { OverlayMap, RenumberedMap } from '../../core/overlay';
 import type { ElectricalContext } from './context';
 import { capacitanceSignature, islandCapacitance, type CapacitanceBreakdown } from './capacitance';
-import { buildLeakageNetwork, leakageAt, leakageSignature, type LeakageContributor } from './leakage';
+import { buildLeakageNetwork, leakageAt, leakageSignature, MAX_SOLVED_GROUPS, type LeakageContributor } from './leakage';
 import { retentionTime } from './retention';
 import { chargeSharing, type ChargeSharingResult } from './chargeSharing';
 import { couplingDroop, type CouplingResult } from './coupling';
@@ -73,6 +73,8 @@ export interface NodeEstimate {
 }
 
 /** Results of identical leakage problems (repeated cells), keyed by their structure. */
+const HELD_NOTE = 'its leakage network has';
+
 type LeakCache = Map<string, { corners: Array<{ leakageA: number; retentionS: number | null; held: boolean; contributors: Array<{ pos: number; mechanism: LeakageContributor['mechanism']; currentA: number }> }> }>;
 
 /**
@@ -87,8 +89,9 @@ export function estimateNodes(ctx: ElectricalContext, how: { twins?: boolean } =
 export function* estimateNodeSteps(ctx: ElectricalContext, how: { twins?: boolean } = {}): Steps<Map<number, NodeEstimate>> {
   const run = new EstimateRun(ctx, how.twins !== false);
   const out = new Map<number, NodeEstimate>();
+  const due = stepDue();
   for (let n = 0; n < ctx.circuit.nets.length; n++) {
-    if (n % HEAVY_ITEMS_PER_SLICE === HEAVY_ITEMS_PER_SLICE - 1) yield;
+    if (due() || n % HEAVY_ITEMS_PER_SLICE === HEAVY_ITEMS_PER_SLICE - 1) yield;
     const e = run.estimate(n);
     if (e) out.set(n, e);
   }
@@ -313,6 +316,7 @@ class EstimateRun {
         ? {
             capacitance: prior.estimate.capacitance,
             stored: prior.estimate.stored,
+            notes: prior.estimate.notes,
             keeper: prior.estimate.keeper ? { ...prior.estimate.keeper, devices: prior.estimate.keeper.devices.map(remap), against: [] as number[] } : undefined,
           }
         : undefined;
@@ -338,6 +342,7 @@ class EstimateRun {
 interface Reuse {
   capacitance: CapacitanceBreakdown;
   stored: StoredEstimate[];
+  notes: readonly string[];
   keeper: NodeEstimate['keeper'] | undefined;
 }
 
@@ -348,7 +353,8 @@ function estimateNode(ctx: ElectricalContext, n: number, devices: number[], floa
   const storage = cl.storage[n] === 1;
   const positionOf = new Map(devices.map((d, k) => [d, k]));
   const positional = (list: readonly LeakageContributor[]): NodeContributor[] => list.map((x) => ({ pos: positionOf.get(x.device)!, mechanism: x.mechanism, currentA: x.currentA }));
-  const notes: string[] = [];
+  // a twin's figures come with the bound they were solved under
+  const notes: string[] = reuse ? reuse.notes.filter((x) => x.startsWith(HELD_NOTE)) : [];
   const keptState = floating.find((f) => f.s.state === 'kept')?.s;
   // the level a dynamic node is meant to keep: what other phases drive it to, else its keeper's
   const drivenTo = values.map((v, i) => (floating.some((f) => f.i === i) ? 2 : v[n]!)).find((v) => v !== 2);
@@ -384,6 +390,10 @@ function estimateNode(ctx: ElectricalContext, n: number, devices: number[], floa
       }
     }
     const { i, ln, keepers, assignment } = pick!;
+    if (ln.heldGroups > 0) {
+      const note = `${HELD_NOTE} ${ln.heldGroups + ln.floatingGroups.length} floating groups: the ${MAX_SOLVED_GROUPS} nearest are solved, the other ${ln.heldGroups} held at the worst-case level (a bound, conservative)`;
+      if (!notes.includes(note)) notes.push(note);
+    }
     const key = `${storage ? 'S' : 'I'}${level}|${leakageSignature(ctx, ln)}|${capacitanceSignature(ctx, island)}`;
     const hit = cache.get(key);
     if (hit) {

@@ -38,7 +38,18 @@ export interface LeakageNetwork {
   gateDevices: number[];
   /** An on channel joins the island to a driven net: the node does not float under these inputs. */
   driven: boolean;
+  /** Floating groups beyond the solve's bound, held at the worst-case level instead (0 in any usual cell). */
+  heldGroups: number;
 }
+
+/**
+ * The floating groups whose voltages are solved, nearest the island first (by off devices
+ * between them). Cells have a few (a stack's inner nodes; two at most in the samples and
+ * fixtures); a net wired across a whole block (a data net on a cell's supply port) made
+ * networks of 60-80, each solve reading all of them for every node, which took a 2k-transistor
+ * netlist about 20 s. Farther ones are held at the worst-case level, a conservative bound.
+ */
+export const MAX_SOLVED_GROUPS = 8;
 
 function gateVolts(ctx: ElectricalContext, net: number, phaseValues: Uint8Array, assignment: Map<number, 0 | 1>): number | undefined {
   const rail = ctx.railVolts[net]!;
@@ -121,6 +132,49 @@ export function buildLeakageNetwork(ctx: ElectricalContext, node: number, phaseV
       floatingGroups.push(members);
     }
   }
+  let heldGroups = 0;
+  if (floatingGroups.length > MAX_SOLVED_GROUPS) {
+    // hops from the island over off devices, group to group; the nearest are kept, in their order
+    const hops = new Map<number, number>([[-1, 0]]);
+    const queue = [-1];
+    const membersOf = (g: number) => (g === -1 ? [...island] : floatingGroups[g]!);
+    const neighbours = new Map<number, number[]>();
+    for (const si of offDevices) {
+      const sw = net.switches[si]!;
+      for (const [x, y] of [[sw.a, sw.b], [sw.b, sw.a]] as const) {
+        const list = neighbours.get(x) ?? neighbours.set(x, []).get(x)!;
+        list.push(y);
+      }
+    }
+    for (let q = 0; q < queue.length; q++) {
+      const g = queue[q]!;
+      for (const n of membersOf(g)) {
+        for (const y of neighbours.get(n) ?? []) {
+          const h = groupOf.get(y);
+          if (h === undefined || h === -2 || hops.has(h)) continue;
+          hops.set(h, hops.get(g)! + 1);
+          queue.push(h);
+        }
+      }
+    }
+    const order = floatingGroups.map((_, k) => k).sort((a, b) => (hops.get(a) ?? Infinity) - (hops.get(b) ?? Infinity) || a - b);
+    const kept = new Set(order.slice(0, MAX_SOLVED_GROUPS));
+    const solved: number[][] = [];
+    floatingGroups.forEach((members, k) => {
+      if (kept.has(k)) {
+        for (const m of members) groupOf.set(m, solved.length);
+        solved.push(members);
+      } else {
+        for (const m of members) {
+          groupOf.set(m, -2);
+          fixedVolts.set(m, worstInput);
+        }
+      }
+    });
+    heldGroups = floatingGroups.length - solved.length;
+    floatingGroups.length = 0;
+    floatingGroups.push(...solved);
+  }
   for (const i of offDevices) {
     const m = c.mosfets[i]!;
     for (const t of [m.d, m.s, m.g, m.b]) if (!groupOf.has(t)) fixedVolts.set(t, gateOrStrong(ctx, t, phaseValues, assignment, worstInput));
@@ -150,7 +204,7 @@ export function buildLeakageNetwork(ctx: ElectricalContext, node: number, phaseV
     }
   }
   const driven = [...island].some((m) => strongOf.has(m));
-  return { island, floatingGroups, groupOf, fixedVolts, devices: [...devices].filter((i) => !keeperSet.has(i)), keepers, gateDevices, driven };
+  return { island, floatingGroups, groupOf, fixedVolts, devices: [...devices].filter((i) => !keeperSet.has(i)), keepers, gateDevices, driven, heldGroups };
 }
 
 function isActive(groupOf: Map<number, number>, n: number): boolean {
