@@ -10,7 +10,7 @@ import * as path from 'node:path';
 import { performance } from 'node:perf_hooks';
 import { pathToFileURL } from 'node:url';
 import { createMessageConnection, StreamMessageReader, StreamMessageWriter } from 'vscode-jsonrpc/node';
-import { hierarchicalNetlist } from './netlists';
+import { flatNetlist, hierarchicalNetlist } from './netlists';
 
 /**
  * What, which line, its change, when the undo is worth a figure of its own what the undo is,
@@ -43,16 +43,22 @@ async function main(): Promise<void> {
   ]);
   // the same on a netlist of the size most blocks have
   const small = await measure(10_000, [RECONNECTION]);
+  // a flat extracted netlist of 100k lines: the parse of the new text reads again only the
+  // chunk of lines the edit is in (when the line count stays), then the quick answers as above
+  const flat = await measure(100_000, [
+    ['a width in the flat netlist', (l) => l.startsWith('MN50000 '), (l) => l.replace('w=0.3u', 'w=0.32u')],
+    ['a comment line in the flat netlist', (l) => l.startsWith('MN50000 '), (l) => `* stage 25000\n${l}`],
+  ], true);
   console.log('edit latency, change notification to published diagnostics (comment, size, rename, reconnection, added or deleted device and card value edits are answered from the previous analysis; others run the full analysis after a 40 ms debounce):');
-  for (const line of [...big, ...small]) console.log('  ' + line);
+  for (const line of [...big, ...small, ...flat]) console.log('  ' + line);
 }
 
 /** Opens a generated netlist of about `transistors` in the server, times each kind of edit. */
-async function measure(transistors: number, edits: Edit[]): Promise<string[]> {
+async function measure(transistors: number, edits: Edit[], flat = false): Promise<string[]> {
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'tidemark-edit-'));
   const file = path.join(dir, 'datapath.sp');
-  let text = hierarchicalNetlist(transistors);
-  const size = `${(Math.ceil(transistors / 48 / 20) * 20 * 48).toLocaleString('en-US')} transistors`;
+  let text = flat ? flatNetlist(transistors) : hierarchicalNetlist(transistors);
+  const size = flat ? `${transistors.toLocaleString('en-US')} transistors, flat` : `${(Math.ceil(transistors / 48 / 20) * 20 * 48).toLocaleString('en-US')} transistors`;
   fs.writeFileSync(file, text);
   const uri = pathToFileURL(file).toString();
   const proc = spawn(process.execPath, ['--max-old-space-size=4096', path.join(__dirname, '..', 'dist', 'server.js'), '--stdio'], { stdio: ['pipe', 'pipe', 'inherit'] });
@@ -88,11 +94,14 @@ async function measure(transistors: number, edits: Edit[]): Promise<string[]> {
       if (pauseMs) await new Promise((r) => setTimeout(r, pauseMs));
       const i = lines.findIndex(find);
       const original = lines[i]!;
-      lines[i] = change(original);
+      const changed = change(original);
+      lines[i] = changed;
       text = lines.join('\n');
       t = performance.now();
       next = published();
-      conn.sendNotification('textDocument/didChange', { textDocument: { uri, version: version++ }, contentChanges: [{ text }] });
+      // the one line replaced, as an editor sends a change
+      const lineRange = (len: number) => ({ start: { line: i, character: 0 }, end: { line: i, character: len } });
+      conn.sendNotification('textDocument/didChange', { textDocument: { uri, version: version++ }, contentChanges: [{ range: lineRange(original.length), text: changed }] });
       // a request that needs only the parse is answered before the re-analysis
       const symbols = (await conn.sendRequest('textDocument/documentSymbol', { textDocument: { uri } })) as unknown[];
       const outlineMs = performance.now() - t;
@@ -102,7 +111,9 @@ async function measure(transistors: number, edits: Edit[]): Promise<string[]> {
       text = lines.join('\n');
       next = published();
       const undoStart = performance.now();
-      conn.sendNotification('textDocument/didChange', { textDocument: { uri, version: version++ }, contentChanges: [{ text }] });
+      // the undo: the edited lines (one or two) replaced by the original line
+      const added = changed.split('\n');
+      conn.sendNotification('textDocument/didChange', { textDocument: { uri, version: version++ }, contentChanges: [{ range: { start: { line: i, character: 0 }, end: { line: i + added.length - 1, character: added[added.length - 1]!.length } }, text: original }] });
       await next;
       undoTimes.push(performance.now() - undoStart);
       times.push(ms);

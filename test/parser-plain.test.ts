@@ -66,3 +66,62 @@ describe('the plain-line reader reads what the lexer and the parser read', () =>
     );
   });
 });
+
+describe('a parse from the previous parse of the file reads what a fresh parse reads', () => {
+  // edits that keep the line count (most typing) and ones that do not, and the lines that change
+  // the parser's state for the rest of the file
+  const inserts = ['.control', '.endc', '.end', '+ w=1u', '* a comment', '* tidemark: clock clk period=2n high=1n', 'M9 a b c d nch w={wn} l=1u', 'x', ''];
+  function edit(text: string, where: number, kind: number, pick: number): string {
+    const lines = text.split('\n');
+    const at = where % lines.length;
+    const l = lines[at]!;
+    switch (kind % 4) {
+      case 0: // a character typed in the line
+        lines[at] = l.slice(0, pick % (l.length + 1)) + 'z' + l.slice(pick % (l.length + 1));
+        break;
+      case 1: // the line replaced
+        lines[at] = inserts[pick % inserts.length]!;
+        break;
+      case 2: // a line put in
+        lines.splice(at, 0, inserts[pick % inserts.length]!);
+        break;
+      default: // the line deleted
+        lines.splice(at, 1);
+    }
+    return lines.join('\n');
+  }
+  const long = flatNetlist(2_500);
+  const texts: Array<[string, string]> = [
+    ['the flat netlist (2.5k lines)', long],
+    ['the hierarchical netlist', hierarchicalNetlist(5_000)],
+    ...fs.readdirSync(path.join(ROOT, 'samples')).filter((f) => f.endsWith('.sp')).map((f): [string, string] => [f, fs.readFileSync(path.join(ROOT, 'samples', f), 'utf8')]),
+  ];
+  for (const [name, text] of texts) {
+    it(`${name}: random edits, one and two in a row`, () => {
+      const first = parseNetlist('/x.sp', text, { hasTitle: true });
+      fc.assert(
+        fc.property(fc.nat(100_000), fc.nat(3), fc.nat(1000), fc.nat(100_000), fc.nat(3), fc.nat(1000), (w1, k1, p1, w2, k2, p2) => {
+          const once = edit(text, w1, k1, p1);
+          const fromFirst = parseNetlist('/x.sp', once, { hasTitle: true }, first);
+          expect(JSON.stringify(fromFirst)).toBe(JSON.stringify(parseNetlist('/x.sp', once, { hasTitle: true })));
+          const twice = edit(once, w2, k2, p2);
+          expect(JSON.stringify(parseNetlist('/x.sp', twice, { hasTitle: true }, fromFirst))).toBe(JSON.stringify(parseNetlist('/x.sp', twice, { hasTitle: true })));
+        }),
+        { numRuns: name.startsWith('the flat') ? 12 : 25, seed: 37 },
+      );
+    }, 120_000);
+  }
+  it('an edit that keeps the line count re-reads only its chunk: the other statements are the same objects', () => {
+    const first = parseNetlist('/x.sp', long, { hasTitle: true });
+    const lines = long.split('\n');
+    const at = lines.length - 10;
+    const edited = lines[at]!.replace(/w=([\d.]+)u/, 'w=$11u');
+    expect(edited).not.toBe(lines[at]);
+    lines[at] = edited;
+    const next = parseNetlist('/x.sp', lines.join('\n'), { hasTitle: true }, first);
+    expect(next.statements.length).toBe(first.statements.length);
+    const same = next.statements.filter((s, k) => s === first.statements[k]).length;
+    expect(same).toBeGreaterThan(first.statements.length - 2_100);
+    expect(same).toBeLessThan(first.statements.length);
+  });
+});

@@ -60,12 +60,15 @@ export interface AnalysisResult {
 const parseCache = new Map<string, { text: string; result: SyntaxFile }>();
 const PARSE_CACHE_LIMIT = 2000;
 
-/** Parses with a cache keyed by path, title mode and exact content. */
+/**
+ * Parses with a cache keyed by path, title mode and exact content. A new text of a cached file
+ * is parsed from the old parse: its unchanged chunks are taken as they are.
+ */
 export function parseCached(file: string, text: string, hasTitle: boolean): SyntaxFile {
   const key = `${hasTitle ? 'T' : 'I'}:${file}`;
   const hit = parseCache.get(key);
   if (hit && hit.text === text) return hit.result;
-  const result = parseNetlist(file, text, { hasTitle });
+  const result = parseNetlist(file, text, { hasTitle }, hit?.result);
   if (parseCache.size >= PARSE_CACHE_LIMIT) parseCache.clear();
   parseCache.set(key, { text, result });
   return result;

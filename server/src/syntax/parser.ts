@@ -197,10 +197,12 @@ const PININFO_PREFIX = /^\*\.pininfo\b/i;
 
 /**
  * Parses one file. Never throws: anything it cannot read becomes a `syntax` diagnostic with the
- * range of the offending text, and the rest of the file is read as usual.
+ * range of the offending text, and the rest of the file is read as usual. With `previous` (an
+ * earlier parse of the same file), every chunk whose text, first line and parser state are
+ * unchanged is taken from it as it is (the same statement objects), so an edit that keeps the
+ * line count re-reads only its own chunk of a long file.
  */
-export function parseNetlist(file: string, text: string, options: ParseOptions = { hasTitle: true }): SyntaxFile {
-  const diagnostics: Diagnostic[] = [];
+export function parseNetlist(file: string, text: string, options: ParseOptions = { hasTitle: true }, previous?: SyntaxFile): SyntaxFile {
   // The optimised lexer knows only ASCII first characters: lex a copy with every other UTF-16
   // unit replaced by '~' (same length, so offsets, lines and columns hold), then restore images.
   const nonAscii = /[^\x00-\x7f]/.test(text);
@@ -212,13 +214,63 @@ export function parseNetlist(file: string, text: string, options: ParseOptions =
     const eol = text.search(/\r|\n/);
     title = (eol < 0 ? text : text.slice(0, eol)).trim();
   }
+  const plainLines = options.plainLines !== false;
+  const earlier = new Map<number, ChunkParse>();
+  if (previous && previous.file === file) for (const r of chunkParses.get(previous) ?? []) earlier.set(r.line, r);
 
+  const records: ChunkParse[] = [];
+  let state: ChunkParse['stateIn'] = { inControl: false, ended: false };
+  for (const chunk of chunksOf(lexText)) {
+    const chunkText = text.slice(chunk.start, chunk.end);
+    const old = earlier.get(chunk.line);
+    const reuse = old && old.text === chunkText && old.titleLine === titleLine && old.stateIn.inControl === state.inControl && old.stateIn.ended === state.ended;
+    const r = reuse ? old : parseChunk(file, text, lexText, chunk, chunkText, titleLine, state, !nonAscii && plainLines);
+    records.push(r);
+    state = r.stateOut;
+  }
   const statements: Statement[] = [];
   const statementStartLines: number[] = [];
   const comments: IToken[] = [];
+  const diagnostics: Diagnostic[] = [];
+  let lineCount = 1;
+  for (const r of records) {
+    for (const x of r.statements) statements.push(x);
+    for (const x of r.statements) statementStartLines.push(x.range.start.line);
+    for (const x of r.comments) comments.push(x);
+    for (const x of r.diagnostics) diagnostics.push(x);
+    lineCount += r.lineBreaks;
+  }
+  const { directives, pinInfos } = readSpecialComments(file, comments, statementStartLines, titleLine, diagnostics);
+  const out: SyntaxFile = { file, title, statements, directives, pinInfos, diagnostics, lineCount };
+  chunkParses.set(out, records);
+  return out;
+}
+
+/** One chunk's reading: what it adds to the file, and the parser state before and after it. */
+interface ChunkParse {
+  text: string;
+  /** The 0-based line the chunk starts on. */
+  line: number;
+  titleLine: number;
+  stateIn: { inControl: boolean; ended: boolean };
+  stateOut: { inControl: boolean; ended: boolean };
+  statements: Statement[];
+  comments: IToken[];
+  diagnostics: Diagnostic[];
+  lineBreaks: number;
+}
+
+/** Each parse's chunks, for the next parse of the same file. */
+const chunkParses = new WeakMap<SyntaxFile, ChunkParse[]>();
+
+function parseChunk(file: string, text: string, lexText: string, chunk: { start: number; end: number; line: number }, chunkText: string, titleLine: number, stateIn: ChunkParse['stateIn'], plainLines: boolean): ChunkParse {
+  const statements: Statement[] = [];
+  const comments: IToken[] = [];
+  const diagnostics: Diagnostic[] = [];
+  const record = (lineBreaks: number): ChunkParse => ({ text: chunkText, line: chunk.line, titleLine, stateIn, stateOut: { inControl, ended }, statements, comments, diagnostics, lineBreaks });
   const p = parser();
-  let inControl = false;
-  let ended = false;
+  let inControl = stateIn.inControl;
+  let ended = stateIn.ended;
 
   const parseLogicalLine = (tokens: IToken[]): void => {
     const first = tokens[0]!;
@@ -250,76 +302,67 @@ export function parseNetlist(file: string, text: string, options: ParseOptions =
       return;
     }
     statements.push(stmt);
-    statementStartLines.push(stmt.range.start.line);
   };
 
-  // Lexed in chunks of whole logical lines, so tokens die young (cheap for the garbage
-  // collector) instead of a million of them living until the whole file is read.
-  let lineCount = 1;
-  for (const chunk of chunksOf(lexText)) {
-    // most chunks of an extracted netlist are plain element lines: read without the lexer
-    const plain = !inControl && !ended && !nonAscii && options.plainLines !== false ? readPlainChunk(text, chunk, titleLine) : undefined;
-    if (plain) {
-      for (const stmt of plain.statements) {
-        statements.push(stmt);
-        statementStartLines.push(stmt.range.start.line);
-      }
-      for (const c of plain.comments) comments.push(c);
-      lineCount += plain.lineBreaks;
+  // most chunks of an extracted netlist are plain element lines: read without the lexer
+  const plain = !inControl && !ended && plainLines ? readPlainChunk(text, chunk, titleLine) : undefined;
+  if (plain) {
+    for (const stmt of plain.statements) statements.push(stmt);
+    for (const c of plain.comments) comments.push(c);
+    return record(plain.lineBreaks);
+  }
+  // (lexed a chunk at a time, so tokens die young: cheap for the garbage collector)
+  let lineBreaks = 0;
+  const lexed = netlistLexer.tokenize(chunk.start === 0 && chunk.end === lexText.length ? lexText : lexText.slice(chunk.start, chunk.end));
+  const adjust = (t: IToken) => {
+    if (chunk.start) {
+      t.startOffset += chunk.start;
+      t.endOffset! += chunk.start;
+      t.startLine! += chunk.line;
+      t.endLine! += chunk.line;
+    }
+    if (lexText !== text) t.image = text.slice(t.startOffset, t.endOffset! + 1);
+  };
+  for (const e of lexed.errors) {
+    // Unreachable by construction (every character matches a token); kept as a guard.
+    diagnostics.push(diag('syntax', file, rangeOf(e.line! - 1 + chunk.line, e.column! - 1, e.line! - 1 + chunk.line, e.column! - 1 + e.length), e.message));
+  }
+  for (const t of lexed.groups['comments'] ?? []) {
+    adjust(t);
+    if (t.tokenType === CommentLine) comments.push(t);
+  }
+  // Logical lines: join '+' continuations, even across comment lines in between.
+  let current: IToken[] = [];
+  let lineEnded = false;
+  for (const t of lexed.tokens) {
+    adjust(t);
+    const type = t.tokenType;
+    if (type === LineBreak) lineBreaks++;
+    if (t.startLine === titleLine) continue;
+    if (type === LineBreak) {
+      if (current.length > 0) lineEnded = true;
       continue;
     }
-    const lexed = netlistLexer.tokenize(chunk.start === 0 && chunk.end === lexText.length ? lexText : lexText.slice(chunk.start, chunk.end));
-    const adjust = (t: IToken) => {
-      if (chunk.start) {
-        t.startOffset += chunk.start;
-        t.endOffset! += chunk.start;
-        t.startLine! += chunk.line;
-        t.endLine! += chunk.line;
+    if (type === Continuation) {
+      if (current.length === 0 && !lineEnded) {
+        diagnostics.push(diag('syntax', file, tokenRange(t), "'+' continues a line, but there is no line before it to continue", 'warning'));
       }
-      if (nonAscii) t.image = text.slice(t.startOffset, t.endOffset! + 1);
-    };
-    for (const e of lexed.errors) {
-      // Unreachable by construction (every character matches a token); kept as a guard.
-      diagnostics.push(diag('syntax', file, rangeOf(e.line! - 1 + chunk.line, e.column! - 1, e.line! - 1 + chunk.line, e.column! - 1 + e.length), e.message));
+      lineEnded = false;
+      continue;
     }
-    for (const t of lexed.groups['comments'] ?? []) {
-      adjust(t);
-      if (t.tokenType === CommentLine) comments.push(t);
+    if (lineEnded) {
+      parseLogicalLine(current);
+      current = [];
+      lineEnded = false;
     }
-    // Logical lines: join '+' continuations, even across comment lines in between.
-    let current: IToken[] = [];
-    let lineEnded = false;
-    for (const t of lexed.tokens) {
-      adjust(t);
-      const type = t.tokenType;
-      if (type === LineBreak) lineCount++;
-      if (t.startLine === titleLine) continue;
-      if (type === LineBreak) {
-        if (current.length > 0) lineEnded = true;
-        continue;
-      }
-      if (type === Continuation) {
-        if (current.length === 0 && !lineEnded) {
-          diagnostics.push(diag('syntax', file, tokenRange(t), "'+' continues a line, but there is no line before it to continue", 'warning'));
-        }
-        lineEnded = false;
-        continue;
-      }
-      if (lineEnded) {
-        parseLogicalLine(current);
-        current = [];
-        lineEnded = false;
-      }
-      current.push(t);
-    }
-    if (current.length > 0) parseLogicalLine(current);
+    current.push(t);
   }
-
-  const { directives, pinInfos } = readSpecialComments(file, comments, statementStartLines, titleLine, diagnostics);
-  return { file, title, statements, directives, pinInfos, diagnostics, lineCount };
+  if (current.length > 0) parseLogicalLine(current);
+  return record(lineBreaks);
 }
 
-const CHUNK_CHARS = 1 << 16;
+/** Lines per chunk: small enough that an edit re-reads little, large enough that tokens die young. */
+const CHUNK_LINES = 1024;
 
 // Character classes of the plain-line reader (ASCII codes).
 const PLAIN_OTHER = 0;
@@ -415,26 +458,28 @@ function plainStatement(words: ReadonlyArray<WordItem | '='>): Statement | undef
 }
 
 /**
- * Splits the text at line starts roughly every 64 KiB, never before a '+' continuation, so each
- * chunk holds whole logical lines. `line` is the 0-based line the chunk starts on.
+ * Splits the text into chunks of about CHUNK_LINES lines, each ending where a statement starts
+ * (never before a '+' continuation, a comment line or a blank line, which may belong to the
+ * statement before). Boundaries follow line counts, not offsets, so an edit that keeps the line
+ * count leaves every other chunk's text and first line as they were. `line` is the 0-based line
+ * the chunk starts on.
  */
 function* chunksOf(text: string): Generator<{ start: number; end: number; line: number }> {
   let start = 0;
   let line = 0;
+  const nextLine = (from: number) => {
+    const nl = text.indexOf('\n', from);
+    return nl < 0 ? text.length : nl + 1;
+  };
   while (start < text.length || start === 0) {
-    let end = Math.min(text.length, start + CHUNK_CHARS);
+    let end = start;
+    for (let lines = 0; end < text.length && lines < CHUNK_LINES; lines++) end = nextLine(end);
     while (end < text.length) {
-      // advance to just after a line break
-      const nl = text.indexOf('\n', end);
-      if (nl < 0) {
-        end = text.length;
-        break;
-      }
-      end = nl + 1;
       let k = end;
       while (k < text.length && (text.charCodeAt(k) === 32 || text.charCodeAt(k) === 9)) k++;
       const c = text.charCodeAt(k);
-      if (k < text.length && c !== 43 /* + */ && c !== 10 && c !== 13) break;
+      if (k < text.length && c !== 43 /* + */ && c !== 42 /* * */ && c !== 10 && c !== 13) break;
+      end = nextLine(end);
     }
     yield { start, end, line };
     if (end >= text.length) return;
