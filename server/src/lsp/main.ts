@@ -193,7 +193,7 @@ function analysisOf(uri: string): Promise<Cached | undefined> {
   return promise;
 }
 
-async function runAnalysis(uri: string, gen: number): Promise<Cached | undefined> {
+async function runAnalysis(uri: string, gen: number, compacting = false): Promise<Cached | undefined> {
   const file = fileURLToPath(uri);
   // every text the run reads, as it read it (all reads happen in its first slice)
   const { texts, noting } = notingHost();
@@ -220,6 +220,13 @@ async function runAnalysis(uri: string, gen: number): Promise<Cached | undefined
     if (genOf(uri) !== gen) {
       steps.return(undefined as never);
       return undefined;
+    }
+    // a quick answer for these texts arrived meanwhile: it stands for this run (a compaction,
+    // which replaces the quick chain, keeps going)
+    const cached = results.get(uri);
+    if (!compacting && cached && fresh(cached)) {
+      steps.return(undefined as never);
+      return cached;
     }
   }
 }
@@ -321,19 +328,26 @@ function schedule(uri: string, delayMs = EDIT_DEBOUNCE_MS): void {
   generation.set(uri, gen);
   // after the messages already received: the protocol library takes one message per turn of
   // the event loop, so two turns let a request sent right behind the edit (an outline) go first
-  if (delayMs > 0)
-    setImmediate(() =>
-      setImmediate(() => {
-        if (genOf(uri) === gen) guard('quick re-analysis', () => quickAnswer(uri), undefined);
-      }),
-    );
+  const quick = () => {
+    if (genOf(uri) !== gen || quickTried.get(uri) === gen) return;
+    quickTried.set(uri, gen);
+    guard('quick re-analysis', () => quickAnswer(uri), undefined);
+  };
+  if (delayMs > 0) setImmediate(() => setImmediate(quick));
   timers.set(
     uri,
     setTimeout(() => {
-      if (genOf(uri) === gen) void publish(uri);
+      if (genOf(uri) !== gen) return;
+      // a request that read a long file may have held the thread past the debounce: the quick
+      // answer still goes first, so no full analysis starts that it would have made needless
+      if (delayMs > 0) quick();
+      void publish(uri);
     }, delayMs),
   );
 }
+
+/** The generation each document's quick answer was tried for (once per edit). */
+const quickTried = new Map<string, number>();
 
 function quickAnswer(uri: string): void {
   if (rootFor(uri) !== uri) return;
@@ -366,7 +380,7 @@ function quickAnswer(uri: string): void {
       void guardAsync(
         'compaction',
         () =>
-          runAnalysis(uri, gen).then((c) => {
+          runAnalysis(uri, gen, true).then((c) => {
             const sent = sentFrom.get(uri);
             if (c && genOf(uri) === gen && sent && JSON.stringify(sent) !== JSON.stringify(c.result.diagnostics)) {
               connection.console.warn('a quick answer differed from the full analysis; the full one is published');

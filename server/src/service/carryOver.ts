@@ -83,6 +83,11 @@ function fileMap(a: SyntaxFile, b: SyntaxFile): LineMap | undefined {
   for (let i = 0; i < a.statements.length; i++) {
     const x = a.statements[i]!;
     const y = b.statements[i]!;
+    // a statement the parse took from the previous one as it was (see parseNetlist)
+    if (x === y) {
+      spans.push([x.range.start.line, x.range.end.line, 0]);
+      continue;
+    }
     const shift = y.range.start.line - x.range.start.line;
     if (x.range.start.character !== y.range.start.character || !sameItem(x.head, y.head, shift)) return undefined;
     if (x.items.length !== y.items.length) return undefined;

@@ -203,11 +203,6 @@ const PININFO_PREFIX = /^\*\.pininfo\b/i;
  * line count re-reads only its own chunk of a long file.
  */
 export function parseNetlist(file: string, text: string, options: ParseOptions = { hasTitle: true }, previous?: SyntaxFile): SyntaxFile {
-  // The optimised lexer knows only ASCII first characters: lex a copy with every other UTF-16
-  // unit replaced by '~' (same length, so offsets, lines and columns hold), then restore images.
-  const nonAscii = /[^\x00-\x7f]/.test(text);
-  const lexText = nonAscii ? text.replace(/[^\x00-\x7f]/g, '~') : text;
-
   const titleLine = options.hasTitle ? 1 : 0;
   let title: string | undefined;
   if (options.hasTitle) {
@@ -220,26 +215,21 @@ export function parseNetlist(file: string, text: string, options: ParseOptions =
 
   const records: ChunkParse[] = [];
   let state: ChunkParse['stateIn'] = { inControl: false, ended: false };
-  for (const chunk of chunksOf(lexText)) {
+  for (const chunk of chunksOf(text)) {
     const chunkText = text.slice(chunk.start, chunk.end);
     const old = earlier.get(chunk.line);
     const reuse = old && old.text === chunkText && old.titleLine === titleLine && old.stateIn.inControl === state.inControl && old.stateIn.ended === state.ended;
-    const r = reuse ? old : parseChunk(file, text, lexText, chunk, chunkText, titleLine, state, !nonAscii && plainLines);
+    const r = reuse ? old : parseChunk(file, text, chunk, chunkText, titleLine, state, plainLines);
     records.push(r);
     state = r.stateOut;
   }
-  const statements: Statement[] = [];
-  const statementStartLines: number[] = [];
-  const comments: IToken[] = [];
-  const diagnostics: Diagnostic[] = [];
+  // (joined natively: a long file has a hundred chunks)
+  const statements = ([] as Statement[]).concat(...records.map((r) => r.statements));
+  const statementStartLines = ([] as number[]).concat(...records.map((r) => r.startLines));
+  const comments = ([] as IToken[]).concat(...records.map((r) => r.comments));
+  const diagnostics = ([] as Diagnostic[]).concat(...records.map((r) => r.diagnostics));
   let lineCount = 1;
-  for (const r of records) {
-    for (const x of r.statements) statements.push(x);
-    for (const x of r.statements) statementStartLines.push(x.range.start.line);
-    for (const x of r.comments) comments.push(x);
-    for (const x of r.diagnostics) diagnostics.push(x);
-    lineCount += r.lineBreaks;
-  }
+  for (const r of records) lineCount += r.lineBreaks;
   const { directives, pinInfos } = readSpecialComments(file, comments, statementStartLines, titleLine, diagnostics);
   const out: SyntaxFile = { file, title, statements, directives, pinInfos, diagnostics, lineCount };
   chunkParses.set(out, records);
@@ -255,6 +245,8 @@ interface ChunkParse {
   stateIn: { inControl: boolean; ended: boolean };
   stateOut: { inControl: boolean; ended: boolean };
   statements: Statement[];
+  /** Each statement's first line. */
+  startLines: number[];
   comments: IToken[];
   diagnostics: Diagnostic[];
   lineBreaks: number;
@@ -263,11 +255,14 @@ interface ChunkParse {
 /** Each parse's chunks, for the next parse of the same file. */
 const chunkParses = new WeakMap<SyntaxFile, ChunkParse[]>();
 
-function parseChunk(file: string, text: string, lexText: string, chunk: { start: number; end: number; line: number }, chunkText: string, titleLine: number, stateIn: ChunkParse['stateIn'], plainLines: boolean): ChunkParse {
+function parseChunk(file: string, text: string, chunk: { start: number; end: number; line: number }, chunkText: string, titleLine: number, stateIn: ChunkParse['stateIn'], plainLines: boolean): ChunkParse {
   const statements: Statement[] = [];
   const comments: IToken[] = [];
   const diagnostics: Diagnostic[] = [];
-  const record = (lineBreaks: number): ChunkParse => ({ text: chunkText, line: chunk.line, titleLine, stateIn, stateOut: { inControl, ended }, statements, comments, diagnostics, lineBreaks });
+  const record = (lineBreaks: number): ChunkParse => ({ text: chunkText, line: chunk.line, titleLine, stateIn, stateOut: { inControl, ended }, statements, startLines: statements.map((x) => x.range.start.line), comments, diagnostics, lineBreaks });
+  // The optimised lexer knows only ASCII first characters: lex a copy with every other UTF-16
+  // unit replaced by '~' (same length, so offsets, lines and columns hold), then restore images.
+  const nonAscii = /[^\x00-\x7f]/.test(chunkText);
   const p = parser();
   let inControl = stateIn.inControl;
   let ended = stateIn.ended;
@@ -305,7 +300,7 @@ function parseChunk(file: string, text: string, lexText: string, chunk: { start:
   };
 
   // most chunks of an extracted netlist are plain element lines: read without the lexer
-  const plain = !inControl && !ended && plainLines ? readPlainChunk(text, chunk, titleLine) : undefined;
+  const plain = !inControl && !ended && plainLines && !nonAscii ? readPlainChunk(text, chunk, titleLine) : undefined;
   if (plain) {
     for (const stmt of plain.statements) statements.push(stmt);
     for (const c of plain.comments) comments.push(c);
@@ -313,7 +308,7 @@ function parseChunk(file: string, text: string, lexText: string, chunk: { start:
   }
   // (lexed a chunk at a time, so tokens die young: cheap for the garbage collector)
   let lineBreaks = 0;
-  const lexed = netlistLexer.tokenize(chunk.start === 0 && chunk.end === lexText.length ? lexText : lexText.slice(chunk.start, chunk.end));
+  const lexed = netlistLexer.tokenize(nonAscii ? chunkText.replace(/[^\x00-\x7f]/g, '~') : chunkText);
   const adjust = (t: IToken) => {
     if (chunk.start) {
       t.startOffset += chunk.start;
@@ -321,7 +316,7 @@ function parseChunk(file: string, text: string, lexText: string, chunk: { start:
       t.startLine! += chunk.line;
       t.endLine! += chunk.line;
     }
-    if (lexText !== text) t.image = text.slice(t.startOffset, t.endOffset! + 1);
+    if (nonAscii) t.image = text.slice(t.startOffset, t.endOffset! + 1);
   };
   for (const e of lexed.errors) {
     // Unreachable by construction (every character matches a token); kept as a guard.
@@ -467,26 +462,34 @@ function plainStatement(words: ReadonlyArray<WordItem | '='>): Statement | undef
 function* chunksOf(text: string): Generator<{ start: number; end: number; line: number }> {
   let start = 0;
   let line = 0;
+  const anyCR = text.indexOf('\r') >= 0;
   const nextLine = (from: number) => {
     const nl = text.indexOf('\n', from);
     return nl < 0 ? text.length : nl + 1;
   };
   while (start < text.length || start === 0) {
     let end = start;
-    for (let lines = 0; end < text.length && lines < CHUNK_LINES; lines++) end = nextLine(end);
+    let breaks = 0;
+    for (; end < text.length && breaks < CHUNK_LINES; breaks++) end = nextLine(end);
     while (end < text.length) {
       let k = end;
       while (k < text.length && (text.charCodeAt(k) === 32 || text.charCodeAt(k) === 9)) k++;
       const c = text.charCodeAt(k);
       if (k < text.length && c !== 43 /* + */ && c !== 42 /* * */ && c !== 10 && c !== 13) break;
       end = nextLine(end);
+      breaks++;
     }
     yield { start, end, line };
     if (end >= text.length) return;
-    for (let i = start; i < end; i++) {
-      const c = text.charCodeAt(i);
-      if (c === 10 || (c === 13 && text.charCodeAt(i + 1) !== 10)) line++;
+    if (anyCR) {
+      // a lone CR breaks a line too
+      breaks = 0;
+      for (let i = start; i < end; i++) {
+        const c = text.charCodeAt(i);
+        if (c === 10 || (c === 13 && text.charCodeAt(i + 1) !== 10)) breaks++;
+      }
     }
+    line += breaks;
     start = end;
   }
 }
