@@ -35,9 +35,11 @@ async function main(): Promise<void> {
     // answers): an edit 2.3 s after the last one arrives while it runs and waits for its step
     ['a device added at the top level while the idle-time analysis runs', (l) => l.startsWith('Xb7 '), (l) => `${l}\nMx y7 clk vdd vdd bp w=0.2u l=0.1u`, undefined, 2300],
     ['a device added in the block cell (105 copies)', (l) => l.startsWith('Xs3 '), (l) => `${l}\nMx w3 clk vdd vdd bp w=0.2u l=0.1u`, 'the device in the block cell deleted (105 copies)'],
-    // values on cards: the deck elaborated afresh, phases and classification kept
+    // values on cards: a model card put in place of the old one, a .param by elaborating afresh;
+    // the phases and classification kept
     ['a parameter every latch pass gate reads (.param lpass, 8,400 devices)', (l) => l.startsWith('.param lpass='), (l) => l.replace('0.05u', '0.06u')],
-    ['a model card value the low-threshold flavours read (no device uses them)', (l) => l.startsWith('.model bpl '), (l) => l.replace('kp=90u', 'kp=95u')],
+    ['a value on the low-threshold p-channel .model card (no device uses it)', (l) => l.startsWith('.model bpl '), (l) => l.replace('kp=90u', 'kp=95u')],
+    ['a value on the p-channel .model card (every p-channel device)', (l) => l.startsWith('.model bp '), (l) => l.replace('kp=80u', 'kp=85u')],
     // a device in a cell with 4,200 copies: over the splice's limit, the full analysis runs
     ['a device added to the domino cell (full analysis)', (l) => l.startsWith('Mkp dyn out'), (l) => `${l}\nMx dyn clk vdd vdd bp w=0.1u l=0.1u`],
   ]);

@@ -1,7 +1,8 @@
 // The card-value path (circuit/valueEdit.ts, engine `reanalyse`): after a value on a `.param` or
-// `.model` card is edited, the analysis built from the previous one (the deck elaborated afresh,
-// the phases and classification kept, the estimates of the nodes that read a changed device
-// redone) must equal a fresh analysis of the new text, finding for finding and figure for figure.
+// `.model` card is edited, the analysis built from the previous one (a model card with plain
+// numbers put in place of the old one, else the deck elaborated afresh; the phases and
+// classification kept, the estimates of the nodes that read a changed device redone) must equal
+// a fresh analysis of the new text, finding for finding and figure for figure.
 // Random value edits over every sample (its own cards and the model library it reads), the
 // fixtures and a generated datapath, one and two in a row; edits that reach a supply or a
 // capacitor are declined.

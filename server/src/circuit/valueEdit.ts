@@ -1,4 +1,6 @@
 // The elaboration stage's answer to an edit of parameter and model cards: when every edited
+// statement is a `.model` card whose values are plain numbers (same name, type and bin bounds),
+// the devices on each card take the new one, with no elaboration. Otherwise, when every edited
 // statement is a `.param` or `.model` card that stays on its lines, the deck is elaborated
 // afresh and compared with the previous design. When only MOSFET sizes, models or model cards
 // differ (every net, connection, source, passive value, directive and line the same), the
@@ -11,28 +13,33 @@ import type { EngineOptions } from '../core/options';
 import type { Circuit, Design, Mosfet, Origin } from './circuit';
 import type { Deck } from './deck';
 import { elaborate } from './elaborate';
-import type { ModelCard } from './models';
+import { modelKindOf, mosFamilyOf, splitBinName, type ModelCard } from './models';
+import { splitItems } from './elements';
+import { parseSpiceNumber } from './numbers';
 import { editedStatements } from '../syntax/compare';
-import type { Statement } from '../syntax/tree';
+import type { AssignItem, Statement } from '../syntax/tree';
 
 export interface ValueEdit {
   design: Design;
   /** Per circuit of the design: indices of the MOSFETs that took new values or cards. */
   changed: number[][];
   /** The front end's findings of the new text (parameter errors follow the parameters). */
-  elaborationFindings: Diagnostic[];
+  frontEnd: Diagnostic[];
 }
 
 const CARD_HEADS = new Set(['.param', '.params', '.parameter', '.parameters', '.model']);
 
-export function reelaborateValues(previousDeck: Deck, previous: Design, deck: Deck, options: EngineOptions): ValueEdit | undefined {
-  const edited = editedStatements(previousDeck.files, deck.files, (_file, before: Statement, after: Statement) => {
+export function reelaborateValues(previousDeck: Deck, previous: Design, deck: Deck, previousFrontEnd: readonly Diagnostic[], options: EngineOptions): ValueEdit | undefined {
+  const edited = editedStatements(previousDeck.files, deck.files, (file, before: Statement, after: Statement) => {
     const head = before.head.text.toLowerCase();
     if (head !== after.head.text.toLowerCase() || !CARD_HEADS.has(head)) return undefined;
     // on the same lines, so that nothing after it moves
-    return before.range.start.line === after.range.start.line && before.range.end.line === after.range.end.line ? true : undefined;
+    return before.range.start.line === after.range.start.line && before.range.end.line === after.range.end.line ? { file, before, after } : undefined;
   });
   if (!edited || edited.length === 0) return undefined;
+  // model cards with plain numbers: the cards are replaced, with no elaboration
+  const replaced = replaceModelCards(previous, edited, previousFrontEnd);
+  if (replaced) return replaced;
   const { design, diagnostics } = elaborate(deck, options);
   if (design.circuits.length !== previous.circuits.length || !sameDesignFacts(previous, design)) return undefined;
   const same = new Sameness();
@@ -56,7 +63,72 @@ export function reelaborateValues(previousDeck: Deck, previous: Design, deck: De
     changed.push(indices);
     circuits.push(mosfets ? { ...before, mosfets } : before);
   }
-  return { design: { ...previous, circuits, modelCards: design.modelCards }, changed, elaborationFindings: diagnostics };
+  return { design: { ...previous, circuits, modelCards: design.modelCards }, changed, frontEnd: [...deck.diagnostics, ...diagnostics] };
+}
+
+/**
+ * Edited `.model` cards whose values are all plain numbers, with the same name, type and bin
+ * bounds: the devices on each old card take the new one (read as the elaborator reads a card).
+ * Undefined for anything else, or when a front-end finding stands on an edited card.
+ */
+function replaceModelCards(previous: Design, edited: ReadonlyArray<{ file: string; before: Statement; after: Statement }>, previousFrontEnd: readonly Diagnostic[]): ValueEdit | undefined {
+  const swap = new Map<ModelCard, ModelCard>();
+  for (const { file, before, after } of edited) {
+    if (before.head.text.toLowerCase() !== '.model') return undefined;
+    if (previousFrontEnd.some((d) => d.file === file && d.range.start.line >= before.range.start.line && d.range.start.line <= before.range.end.line)) return undefined;
+    const next = plainCard(file, after);
+    if (!next) return undefined;
+    const old = [...previous.modelCards.values()].flat().find((c) => c.file === file && c.range.start.line === before.range.start.line && c.range.start.character === before.range.start.character);
+    if (!old || old.name !== next.name || old.type !== next.type) return undefined;
+    // the bin a device takes reads these
+    for (const k of ['lmin', 'lmax', 'wmin', 'wmax']) if (old.params[k] !== next.params[k]) return undefined;
+    if (Object.keys(old.textParams).length) return undefined;
+    swap.set(old, next);
+  }
+  const modelCards = new Map<string, ModelCard[]>();
+  for (const [k, list] of previous.modelCards) modelCards.set(k, list.map((c) => swap.get(c) ?? c));
+  const changed: number[][] = [];
+  const circuits = previous.circuits.map((c) => {
+    const indices: number[] = [];
+    let mosfets: Mosfet[] | undefined;
+    for (let k = 0; k < c.mosfets.length; k++) {
+      const m = c.mosfets[k]!;
+      const card = m.card && swap.get(m.card);
+      if (!card) continue;
+      (mosfets ??= c.mosfets.slice())[k] = { ...m, card };
+      indices.push(k);
+    }
+    changed.push(indices);
+    return mosfets ? { ...c, mosfets } : c;
+  });
+  return { design: { ...previous, circuits, modelCards }, changed, frontEnd: [...previousFrontEnd] };
+}
+
+/** A `.model` card read as the elaborator reads it, when every value on it is a plain number. */
+function plainCard(file: string, stmt: Statement): ModelCard | undefined {
+  const { positional, params } = splitItems(stmt.items);
+  const nameItem = positional[0];
+  const typeItem = positional[1];
+  if (nameItem?.kind !== 'word' || typeItem?.kind !== 'word') return undefined;
+  const all: AssignItem[] = [...params];
+  for (const p of positional.slice(2)) {
+    if (p.kind !== 'group') return undefined;
+    for (const g of p.items) if (g.kind === 'assign') all.push(g);
+  }
+  const numeric: Record<string, number> = {};
+  for (const a of all) {
+    if (!a.value) continue;
+    // a word that is no number names a parameter or is text: the elaborator decides with its scope
+    if (a.value.kind !== 'word') return undefined;
+    const v = parseSpiceNumber(a.value.text);
+    if (v === undefined) return undefined;
+    numeric[a.name.text.toLowerCase()] = v;
+  }
+  const name = nameItem.text.toLowerCase();
+  const type = typeItem.text.toLowerCase();
+  const kind = modelKindOf(type);
+  const level = numeric['level'] ?? 1;
+  return { name, baseName: splitBinName(name).baseName, kind, type, level, family: kind === 'nmos' || kind === 'pmos' ? mosFamilyOf(level) : undefined, params: numeric, textParams: {}, file, range: stmt.range };
 }
 
 function sameValues(m: Mosfet, n: Mosfet): boolean {
