@@ -103,6 +103,11 @@ export function loadDeck(host: FileHost, roots: { file: string; text: string }[]
         si++;
       }
       const stmt = f.statements[i]!;
+      // an element line (most of a long file) is passed on as it is
+      if (stmt.head.text.charCodeAt(0) !== 46 /* . */) {
+        if (inWantedSection && !skippingLib) stream.push({ kind: 'stmt', file: f.file, stmt });
+        continue;
+      }
       const head = stmt.head.text.toLowerCase();
       const { positional } = splitItems(stmt.items);
       const args = positional.map((p) => (p.kind === 'word' || p.kind === 'string' ? p.text : ''));
@@ -183,7 +188,7 @@ function buildDefinitions(stream: StreamEntry[], deck: Deck): void {
       continue;
     }
     const stmt = e.stmt;
-    const head = stmt.head.text.toLowerCase();
+    const head = stmt.head.text.charCodeAt(0) === 46 /* . */ ? stmt.head.text.toLowerCase() : '';
     if (head === '.subckt' || head === '.macro') {
       const { positional, params } = splitItems(stmt.items);
       const ws = positional.filter((p): p is WordItem => p.kind === 'word');
