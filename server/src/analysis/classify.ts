@@ -10,7 +10,7 @@ import type { PhasePlan, Phase } from '../phases/phases';
 import { floatWindow } from '../phases/phases';
 import { evaluateComponent, newScratch, propagateConstants, repropagateConstants, X, type Scratch } from './constants';
 import { mosfetOfSwitch, NetRole, SwitchKind, type Component, type SwitchNetwork } from './switchNetwork';
-import { HEAVY_ITEMS_PER_SLICE, stepDue, runToEnd, type Steps } from '../core/steps';
+import { stepDue, runToEnd, type Steps } from '../core/steps';
 import { OverlayMap, RenumberedMap } from '../core/overlay';
 
 export type NodeStateName = 'driven' | 'conditional' | 'floating' | 'kept' | 'contention' | 'undriven';
@@ -248,7 +248,7 @@ export function* classifySteps(net: SwitchNetwork, plan: PhasePlan, how: { twins
       const comp = net.components[k]!;
       for (let i = 0; i < comp.nodes.length; i++) local[comp.nodes[i]!] = i;
       classifyComponent(pass, comp);
-      if (due() || k % HEAVY_ITEMS_PER_SLICE === HEAVY_ITEMS_PER_SLICE - 1) yield;
+      if (due()) yield;
     }
     for (let i = 0; i < c.nets.length; i++) if (net.unreachable[i]) states.set(i, { state: 'undriven', exact: true });
     result.perPhase.push(states);

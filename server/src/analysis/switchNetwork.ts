@@ -7,7 +7,7 @@ import type { Circuit } from '../circuit/circuit';
 import type { Clock } from '../phases/clocks';
 import type { MosfetRenumbering } from '../circuit/splice';
 import { composeRenumberings, renumbered, splicedList } from '../core/renumber';
-import { ITEMS_PER_SLICE, runToEnd, type Steps } from '../core/steps';
+import { LIST_ITEMS_PER_SLICE, runToEnd, type Steps } from '../core/steps';
 
 export const enum NetRole {
   Internal = 0,
@@ -68,7 +68,6 @@ export function buildSwitchNetwork(c: Circuit, clocks: Clock[]): SwitchNetwork {
 /** `buildSwitchNetwork` in slices: it yields between its passes and inside the long ones. */
 export function* buildSwitchNetworkSteps(c: Circuit, clocks: Clock[]): Steps<SwitchNetwork> {
   const n = c.nets.length;
-  const STEP = 4 * ITEMS_PER_SLICE;
   const role = new Uint8Array(n);
   for (const net of c.nets) {
     if (net.kind === 'ground') role[net.id] = NetRole.Rail0;
@@ -87,7 +86,7 @@ export function* buildSwitchNetworkSteps(c: Circuit, clocks: Clock[]): Steps<Swi
     const m = c.mosfets[i]!;
     switches.push({ a: m.d, b: m.s, gate: m.g, kind: m.polarity === 'n' ? SwitchKind.N : SwitchKind.P, other: -1 });
     drivesGate[m.g] = 1;
-    if (i % STEP === STEP - 1) yield;
+    if (i % LIST_ITEMS_PER_SLICE === LIST_ITEMS_PER_SLICE - 1) yield;
   }
   c.resistors.forEach((r, i) => switches.push({ a: r.a, b: r.b, gate: -1, kind: SwitchKind.On, other: i }));
   c.inductors.forEach((l, i) => switches.push({ a: l.a, b: l.b, gate: -1, kind: SwitchKind.On, other: i }));
@@ -125,7 +124,7 @@ export function* buildSwitchNetworkSteps(c: Circuit, clocks: Clock[]): Steps<Swi
   const gatedComponents: number[][] = Array.from({ length: n }, () => []);
   yield;
   for (let si = 0; si < switches.length; si++) {
-    if (si % STEP === STEP - 1) yield;
+    if (si % LIST_ITEMS_PER_SLICE === LIST_ITEMS_PER_SLICE - 1) yield;
     const s = switches[si]!;
     const ca = componentOf[s.a]!;
     const cb = componentOf[s.b]!;

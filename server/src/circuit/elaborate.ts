@@ -13,7 +13,7 @@ import type { Circuit, Design, Instance, Mosfet, Net, NetKind, Origin, Polarity,
 import type { Deck, Located, SubcktDefinition } from './deck';
 import { emptyDirectives, readDirectives, type DeviceKind, type DirectiveSet } from './directives';
 import { interpretElement, MODELLED_LETTERS, splitItems, type ElementSyntax } from './elements';
-import { modelKindOf, mosFamilyOf, selectModel, splitBinName, type ModelCard } from './models';
+import { readModelCard, selectModel, type ModelCard } from './models';
 import { evaluateValue, ParamScope } from './params';
 import { parseSpiceNumber } from './numbers';
 import { ITEMS_PER_SLICE, runToEnd, type Steps } from '../core/steps';
@@ -346,45 +346,16 @@ class Elaborator {
   }
 
   private modelCard(file: string, stmt: Statement): void {
-    const { positional, params } = splitItems(stmt.items);
-    const nameItem = positional[0];
-    const typeItem = positional[1];
-    if (nameItem?.kind !== 'word' || typeItem?.kind !== 'word') {
+    // a word that is no number and no parameter is text
+    const read = readModelCard(file, stmt, (v) =>
+      v.kind === 'word' && parseSpiceNumber(v.text) === undefined && !this.globalScope.has(v.text.toLowerCase()) ? v.text : evaluateValue(v, file, this.globalScope, this.paramReport),
+    );
+    if (!read) {
       this.report(diag('syntax', file, stmt.range, '.model needs a name and a type, e.g. `.model nch nmos level=54 ...`'));
       return;
     }
-    // Parameters may sit inside parentheses after the type.
-    const all: AssignItem[] = [...params];
-    for (const p of positional.slice(2)) if (p.kind === 'group') for (const g of p.items) if (g.kind === 'assign') all.push(g);
-    const numeric: Record<string, number> = {};
-    const text: Record<string, string> = {};
-    for (const a of all) {
-      if (!a.value) continue;
-      const k = a.name.text.toLowerCase();
-      if (a.value.kind === 'word' && parseSpiceNumber(a.value.text) === undefined && !this.globalScope.has(a.value.text.toLowerCase())) {
-        text[k] = a.value.text;
-        continue;
-      }
-      const v = evaluateValue(a.value, file, this.globalScope, this.paramReport);
-      if (v !== undefined) numeric[k] = v;
-    }
-    const name = nameItem.text.toLowerCase();
-    const type = typeItem.text.toLowerCase();
-    const kind = modelKindOf(type);
-    const level = numeric['level'] ?? 1;
-    const { baseName } = splitBinName(name);
-    const card: ModelCard = {
-      name,
-      baseName,
-      kind,
-      type,
-      level,
-      family: kind === 'nmos' || kind === 'pmos' ? mosFamilyOf(level) : undefined,
-      params: numeric,
-      textParams: text,
-      file,
-      range: stmt.range,
-    };
+    const { card, nameItem } = read;
+    const { name, baseName } = card;
     const list = this.models.get(baseName) ?? [];
     const dup = list.find((c) => c.name === name);
     if (dup) {

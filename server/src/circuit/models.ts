@@ -2,6 +2,8 @@
 // `nch.2`, ... with LMIN/LMAX/WMIN/WMAX) by a device's L and W.
 
 import type { Range } from '../core/source';
+import type { AssignItem, Statement, ValueItem, WordItem } from '../syntax/tree';
+import { splitItems } from './elements';
 
 export type ModelKind = 'nmos' | 'pmos' | 'diode' | 'resistor' | 'capacitor' | 'bjt' | 'other';
 
@@ -24,6 +26,45 @@ export interface ModelCard {
   textParams: Readonly<Record<string, string>>;
   file: string;
   range: Range;
+}
+
+/**
+ * A `.model` statement read as a card, each parameter's value given by `valueOf`: a number, text
+ * (kept for display), or undefined (left out). Undefined when the statement has no name and type
+ * words. Parameters may sit inside parentheses after the type.
+ */
+export function readModelCard(file: string, stmt: Statement, valueOf: (value: ValueItem) => number | string | undefined): { card: ModelCard; nameItem: WordItem } | undefined {
+  const { positional, params } = splitItems(stmt.items);
+  const nameItem = positional[0];
+  const typeItem = positional[1];
+  if (nameItem?.kind !== 'word' || typeItem?.kind !== 'word') return undefined;
+  const all: AssignItem[] = [...params];
+  for (const p of positional.slice(2)) if (p.kind === 'group') for (const g of p.items) if (g.kind === 'assign') all.push(g);
+  const numeric: Record<string, number> = {};
+  const text: Record<string, string> = {};
+  for (const a of all) {
+    if (!a.value) continue;
+    const v = valueOf(a.value);
+    if (typeof v === 'string') text[a.name.text.toLowerCase()] = v;
+    else if (v !== undefined) numeric[a.name.text.toLowerCase()] = v;
+  }
+  const name = nameItem.text.toLowerCase();
+  const type = typeItem.text.toLowerCase();
+  const kind = modelKindOf(type);
+  const level = numeric['level'] ?? 1;
+  const card: ModelCard = {
+    name,
+    baseName: splitBinName(name).baseName,
+    kind,
+    type,
+    level,
+    family: kind === 'nmos' || kind === 'pmos' ? mosFamilyOf(level) : undefined,
+    params: numeric,
+    textParams: text,
+    file,
+    range: stmt.range,
+  };
+  return { card, nameItem };
 }
 
 export function modelKindOf(type: string): ModelKind {

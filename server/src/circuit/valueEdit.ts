@@ -13,11 +13,10 @@ import type { EngineOptions } from '../core/options';
 import type { Circuit, Design, Mosfet, Origin } from './circuit';
 import type { Deck } from './deck';
 import { elaborate } from './elaborate';
-import { modelKindOf, mosFamilyOf, splitBinName, type ModelCard } from './models';
-import { splitItems } from './elements';
+import { readModelCard, type ModelCard } from './models';
 import { parseSpiceNumber } from './numbers';
 import { editedStatements } from '../syntax/compare';
-import type { AssignItem, Statement } from '../syntax/tree';
+import type { Statement } from '../syntax/tree';
 
 export interface ValueEdit {
   design: Design;
@@ -76,8 +75,14 @@ function replaceModelCards(previous: Design, edited: ReadonlyArray<{ file: strin
   for (const { file, before, after } of edited) {
     if (before.head.text.toLowerCase() !== '.model') return undefined;
     if (previousFrontEnd.some((d) => d.file === file && d.range.start.line >= before.range.start.line && d.range.start.line <= before.range.end.line)) return undefined;
-    const next = plainCard(file, after);
-    if (!next) return undefined;
+    // plain numbers only: any other value is read with the parameter scope, by the elaborator
+    let plain = true;
+    const next = readModelCard(file, after, (v) => {
+      const n = v.kind === 'word' ? parseSpiceNumber(v.text) : undefined;
+      if (n === undefined) plain = false;
+      return n;
+    })?.card;
+    if (!next || !plain) return undefined;
     const old = [...previous.modelCards.values()].flat().find((c) => c.file === file && c.range.start.line === before.range.start.line && c.range.start.character === before.range.start.character);
     if (!old || old.name !== next.name || old.type !== next.type) return undefined;
     // the bin a device takes reads these
@@ -102,33 +107,6 @@ function replaceModelCards(previous: Design, edited: ReadonlyArray<{ file: strin
     return mosfets ? { ...c, mosfets } : c;
   });
   return { design: { ...previous, circuits, modelCards }, changed, frontEnd: [...previousFrontEnd] };
-}
-
-/** A `.model` card read as the elaborator reads it, when every value on it is a plain number. */
-function plainCard(file: string, stmt: Statement): ModelCard | undefined {
-  const { positional, params } = splitItems(stmt.items);
-  const nameItem = positional[0];
-  const typeItem = positional[1];
-  if (nameItem?.kind !== 'word' || typeItem?.kind !== 'word') return undefined;
-  const all: AssignItem[] = [...params];
-  for (const p of positional.slice(2)) {
-    if (p.kind !== 'group') return undefined;
-    for (const g of p.items) if (g.kind === 'assign') all.push(g);
-  }
-  const numeric: Record<string, number> = {};
-  for (const a of all) {
-    if (!a.value) continue;
-    // a word that is no number names a parameter or is text: the elaborator decides with its scope
-    if (a.value.kind !== 'word') return undefined;
-    const v = parseSpiceNumber(a.value.text);
-    if (v === undefined) return undefined;
-    numeric[a.name.text.toLowerCase()] = v;
-  }
-  const name = nameItem.text.toLowerCase();
-  const type = typeItem.text.toLowerCase();
-  const kind = modelKindOf(type);
-  const level = numeric['level'] ?? 1;
-  return { name, baseName: splitBinName(name).baseName, kind, type, level, family: kind === 'nmos' || kind === 'pmos' ? mosFamilyOf(level) : undefined, params: numeric, textParams: {}, file, range: stmt.range };
 }
 
 function sameValues(m: Mosfet, n: Mosfet): boolean {

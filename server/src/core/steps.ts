@@ -5,21 +5,18 @@
 /** A stage that yields (nothing) at safe points and returns its result. */
 export type Steps<T> = Generator<void, T, void>;
 
-/** Light items (an element copied, a device listed) a loop handles between yields. */
+/** Elements copied into a circuit between yields. */
 export const ITEMS_PER_SLICE = 1500;
 
-/**
- * Heavy items (a group classified, a node estimated) between yields. A dynamic cell's group or
- * a floating node's leakage solve costs tens of microseconds, and they come in runs, so a step
- * of 1,500 of them held the editor for up to 100 ms on 100k transistors; at 200 a step stays
- * under about 10 ms there.
- */
-export const HEAVY_ITEMS_PER_SLICE = 200;
+/** Entries put on per-net lists (a device listed, a switch grouped) between yields. */
+export const LIST_ITEMS_PER_SLICE = 6000;
 
 /**
- * For loops of uneven items (one floating node's leakage solve may cost a thousand times
- * another's): true once about `budgetMs` of work has passed since it last said so. Reading the
- * clock changes no result; it only decides where the loop yields.
+ * For loops of uneven items (a group classified, a node estimated: one floating node's leakage
+ * solve may cost a thousand times another's, and costly ones come in runs, so a count of them
+ * held the editor for up to 100 ms on 100k transistors): true once about `budgetMs` of work has
+ * passed since it last said so. Reading the clock changes no result; it only decides where the
+ * loop yields.
  */
 export function stepDue(budgetMs = 5): () => boolean {
   let last = performance.now();

@@ -424,7 +424,11 @@ function readPlainChunk(text: string, chunk: { start: number; end: number; line:
         if (head === '.control' || head === '.endc' || head === '.end') return undefined;
         statements.push(stmt);
       }
-    } else if (text.charCodeAt(stop) === 13 || text.slice(i, stop).indexOf('\r') >= 0) return undefined;
+    } else {
+      // the title is not read, but a lone CR in it would break the line
+      const cr = text.indexOf('\r', i);
+      if (cr >= 0 && cr < stop) return undefined;
+    }
     if (eol < end) line++;
     i = eol + 1;
   }

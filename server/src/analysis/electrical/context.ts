@@ -10,7 +10,7 @@ import { modelFor } from '../devices/catalogue';
 import type { MosModel } from '../devices/mosModel';
 import type { MosfetRenumbering } from '../../circuit/splice';
 import { composeRenumberings, renumbered } from '../../core/renumber';
-import { ITEMS_PER_SLICE, runToEnd, type Steps } from '../../core/steps';
+import { LIST_ITEMS_PER_SLICE, runToEnd, type Steps } from '../../core/steps';
 
 export interface Corner {
   tempC: number;
@@ -45,7 +45,6 @@ export function buildContext(circuit: Circuit, network: SwitchNetwork, plan: Pha
 
 /** `buildContext` in slices: the per-net device lists are long loops on a large circuit. */
 export function* buildContextSteps(circuit: Circuit, network: SwitchNetwork, plan: PhasePlan, classification: Classification, opts: ContextOptions): Steps<ElectricalContext> {
-  const STEP = 4 * ITEMS_PER_SLICE;
   const railVolts = new Float64Array(circuit.nets.length).fill(NaN);
   for (let i = 0; i < circuit.nets.length; i++) {
     const r = network.role[i];
@@ -62,7 +61,7 @@ export function* buildContextSteps(circuit: Circuit, network: SwitchNetwork, pla
     channelOf[m.d]!.push(i);
     if (m.s !== m.d) channelOf[m.s]!.push(i);
     gateOf[m.g]!.push(i);
-    if (i % STEP === STEP - 1) yield;
+    if (i % LIST_ITEMS_PER_SLICE === LIST_ITEMS_PER_SLICE - 1) yield;
   }
   const capsOf: number[][] = Array.from({ length: circuit.nets.length }, () => []);
   yield;

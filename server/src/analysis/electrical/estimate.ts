@@ -7,7 +7,7 @@ import { floatsIn, nodeFloatWindow, type NodePhaseResult } from '../classify';
 import { evaluateComponent, newScratch, type Scratch } from '../constants';
 import { mosfetOfSwitch, NetRole, SwitchKind } from '../switchNetwork';
 import { carryToTwin, familyOf, type Family } from './family';
-import { HEAVY_ITEMS_PER_SLICE, stepDue, runToEnd, type Steps } from '../../core/steps';
+import { stepDue, runToEnd, type Steps } from '../../core/steps';
 import { OverlayMap, RenumberedMap } from '../../core/overlay';
 import type { ElectricalContext } from './context';
 import { capacitanceSignature, islandCapacitance, type CapacitanceBreakdown } from './capacitance';
@@ -73,8 +73,6 @@ export interface NodeEstimate {
 }
 
 /** Results of identical leakage problems (repeated cells), keyed by their structure. */
-const HELD_NOTE = 'its leakage network has';
-
 type LeakCache = Map<string, { corners: Array<{ leakageA: number; retentionS: number | null; held: boolean; contributors: Array<{ pos: number; mechanism: LeakageContributor['mechanism']; currentA: number }> }> }>;
 
 /**
@@ -91,7 +89,7 @@ export function* estimateNodeSteps(ctx: ElectricalContext, how: { twins?: boolea
   const out = new Map<number, NodeEstimate>();
   const due = stepDue();
   for (let n = 0; n < ctx.circuit.nets.length; n++) {
-    if (due() || n % HEAVY_ITEMS_PER_SLICE === HEAVY_ITEMS_PER_SLICE - 1) yield;
+    if (due()) yield;
     const e = run.estimate(n);
     if (e) out.set(n, e);
   }
@@ -353,8 +351,9 @@ function estimateNode(ctx: ElectricalContext, n: number, devices: number[], floa
   const storage = cl.storage[n] === 1;
   const positionOf = new Map(devices.map((d, k) => [d, k]));
   const positional = (list: readonly LeakageContributor[]): NodeContributor[] => list.map((x) => ({ pos: positionOf.get(x.device)!, mechanism: x.mechanism, currentA: x.currentA }));
-  // a twin's figures come with the bound they were solved under
-  const notes: string[] = reuse ? reuse.notes.filter((x) => x.startsWith(HELD_NOTE)) : [];
+  // a twin's figures come with the notes they were worked out under (the same wiring gives the same ones)
+  const notes: string[] = reuse ? [...reuse.notes] : [];
+  const note = (x: string) => notes.includes(x) || notes.push(x);
   const keptState = floating.find((f) => f.s.state === 'kept')?.s;
   // the level a dynamic node is meant to keep: what other phases drive it to, else its keeper's
   const drivenTo = values.map((v, i) => (floating.some((f) => f.i === i) ? 2 : v[n]!)).find((v) => v !== 2);
@@ -390,10 +389,7 @@ function estimateNode(ctx: ElectricalContext, n: number, devices: number[], floa
       }
     }
     const { i, ln, keepers, assignment } = pick!;
-    if (ln.heldGroups > 0) {
-      const note = `${HELD_NOTE} ${ln.heldGroups + ln.floatingGroups.length} floating groups: the ${MAX_SOLVED_GROUPS} nearest are solved, the other ${ln.heldGroups} held at the worst-case level (a bound, conservative)`;
-      if (!notes.includes(note)) notes.push(note);
-    }
+    if (ln.heldGroups > 0) note(`its leakage network has ${ln.heldGroups + ln.floatingGroups.length} floating groups: the ${MAX_SOLVED_GROUPS} nearest are solved, the other ${ln.heldGroups} held at the worst-case level (a bound, conservative)`);
     const key = `${storage ? 'S' : 'I'}${level}|${leakageSignature(ctx, ln)}|${capacitanceSignature(ctx, island)}`;
     const hit = cache.get(key);
     if (hit) {
@@ -470,8 +466,8 @@ function estimateNode(ctx: ElectricalContext, n: number, devices: number[], floa
       if (needsHolder) holder = sizeHolder(ctx, n, hotOf(1).leakageA, hotOf(0).leakageA, ctx.corners[hotIndex]!.tempK);
     } else if (needsKeeper) suggested = sizeKeeper(ctx, n, primaryLevel, primary.corners[hotIndex]!.leakageA, ctx.corners[hotIndex]!.tempK);
   }
-  if (capacitance.estimatedGeometry) notes.push('drain/source areas not given: estimated as W x 2.5L (common practice)');
-  for (const i of ctx.channelOf(n)) for (const note of ctx.model(c.mosfets[i]!).notes) if (!notes.includes(note)) notes.push(note);
+  if (capacitance.estimatedGeometry) note('drain/source areas not given: estimated as W x 2.5L (common practice)');
+  for (const i of ctx.channelOf(n)) for (const x of ctx.model(c.mosfets[i]!).notes) note(x);
   const est: NodeEstimate = {
     node: n,
     devices,

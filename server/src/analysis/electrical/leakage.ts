@@ -295,7 +295,6 @@ export interface LeakageAt {
   contributors: LeakageContributor[];
 }
 
-/** Currents at island voltage `v`, after solving the floating groups' voltages. */
 /** Devices whose currents a set of nets can receive: by channel and junction, and by gate tunnelling. */
 interface Near {
   channels: readonly number[];
@@ -311,6 +310,7 @@ function nearDevices(c: ElectricalContext['circuit'], members: ReadonlySet<numbe
   return { channels: all.channels.filter((i) => on(i, false)), gates: all.gates.filter((i) => on(i, true)) };
 }
 
+/** Currents at island voltage `v`, after solving the floating groups' voltages. */
 export function leakageAt(ctx: ElectricalContext, ln: LeakageNetwork, v: number, tempK: number, storedLevel: 0 | 1, withContributors: boolean): LeakageAt {
   const c = ctx.circuit;
   const volts = (n: number, groupV: number[]): number => {
