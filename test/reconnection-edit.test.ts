@@ -4,7 +4,8 @@
 // equal a fresh analysis of the new text, finding for finding and figure for figure, and the
 // patched switch network must equal a fresh build, and each stage's findings, revised from the
 // previous ones, those written afresh from the same results. Random reconnections over every sample and
-// a generated hierarchical datapath, one and two in a row.
+// a generated hierarchical datapath, one and two in a row: to nets the scope has, and to new
+// names (circuit/newNets: every stage's results under the new net numbers first).
 
 import * as fs from 'node:fs';
 import * as path from 'node:path';
@@ -14,7 +15,7 @@ import { analyse, readDeck, reanalyse } from '../server/src/engine';
 import { memoryHost, type FileHost } from '../server/src/core/host';
 import { overlay } from './support/edits';
 import { checkRandomEdits, same } from './support/sameAnalysis';
-import { reconnect } from './support/reconnect';
+import { reconnect, reconnectToNewNet } from './support/reconnect';
 import { hierarchicalNetlist } from '../scripts/netlists';
 
 const SAMPLES = path.join(__dirname, '..', 'samples');
@@ -56,4 +57,54 @@ describe('reconnections reuse the previous analysis and equal a fresh one', () =
     expect(taken).toBeGreaterThan(2);
     expect(total).toBeGreaterThan(20);
   }, 120_000);
+});
+
+describe('reconnections to a new net name reuse the previous analysis and equal a fresh one', () => {
+  const toNew = (file: string, original: string, hostFor: (t: string) => FileHost, runs: number) =>
+    checkRandomEdits(file, original, hostFor, runs, 23, [fc.nat(5000), fc.nat(90)], (t, [pick, tag]) => reconnectToNewNet(t, pick!, tag!));
+  let total = 0;
+  for (const name of fs.readdirSync(SAMPLES).filter((f) => f.endsWith('.sp'))) {
+    it(`${name}: random words moved to new nets`, () => {
+      const file = path.join(SAMPLES, name);
+      total += toNew(file, fs.readFileSync(file, 'utf8'), (t) => overlay(file, t), 25);
+    });
+  }
+  it('the classification and electrical fixtures: random words moved to new nets', () => {
+    let taken = 0;
+    for (const kind of ['classify', 'electrical']) {
+      const dir = path.join(__dirname, 'fixtures', kind);
+      for (const name of fs.readdirSync(dir).filter((f) => f.endsWith('.sp'))) {
+        const file = path.join(dir, name);
+        taken += toNew(file, fs.readFileSync(file, 'utf8'), (t) => overlay(file, t), 6);
+      }
+    }
+    expect(taken).toBeGreaterThan(20);
+  }, 120_000);
+  it('a generated hierarchical datapath (2k transistors): new nets in its cells and at the top', () => {
+    const file = '/datapath.sp';
+    const text = hierarchicalNetlist(2_000);
+    const taken = toNew(file, text, (t) => memoryHost({ [file]: t }), 6);
+    const before = analyse(memoryHost({ [file]: text }), file);
+    // the benchmark's edits: a block input, and a slice input inside the block cell, moved to new names
+    for (const [from, to] of [['Xb1 a1 ', 'Xb1 a1n '], ['Xs3 w2 ', 'Xs3 w2n ']] as const) {
+      const edited = text.replace(from, to);
+      expect(edited).not.toBe(text);
+      const fast = reanalyse(before, readDeck(memoryHost({ [file]: edited }), file));
+      expect(fast, `${to.trim()}: a new net is a reconnection`).toBeDefined();
+      expect(fast!.circuits[0]!.circuit.nets.length).toBeGreaterThan(before.circuits[0]!.circuit.nets.length);
+      same(file, fast!, analyse(memoryHost({ [file]: edited }), file));
+    }
+    expect(taken).toBeGreaterThan(2);
+    expect(total).toBeGreaterThan(60);
+  }, 120_000);
+  it('a new name a directive, a setting or a name rule gives a role to is left to a fresh analysis', () => {
+    const file = '/roles.sp';
+    const text = ['* roles', '* tidemark: clock phi2 period=10n', 'vdd vdd 0 1.2', 'vphi phi 0 pulse(0 1.2 0 0.1n 0.1n 4.9n 10n)', 'Mp x phi vdd vdd bp w=0.2u l=0.1u', 'Mn x a 0 0 bn w=0.2u l=0.1u', 'Mi y x 0 0 bn w=0.2u l=0.1u', 'Cl x 0 1f', '.model bn nmos level=1', '.model bp pmos level=1', '.end'].join('\n');
+    const before = analyse(memoryHost({ [file]: text }), file);
+    const edit = (to: string) => reanalyse(before, readDeck(memoryHost({ [file]: text.replace('Mn x a 0', `Mn x ${to} 0`) }), file));
+    expect(edit('a2'), 'a plain new name is taken').toBeDefined();
+    expect(edit('phi2'), 'named by a clock directive').toBeUndefined();
+    expect(edit('vdd2'), 'a supply by the name rule').toBeUndefined();
+    expect(edit('gnd2'), 'a ground by the name rule').toBeUndefined();
+  });
 });

@@ -9,13 +9,13 @@ import { loadDeck, type Deck } from './circuit/deck';
 import { elaborateSteps } from './circuit/elaborate';
 import type { Circuit, Design } from './circuit/circuit';
 import { findClocks } from './phases/clocks';
-import { buildPhases, type PhasePlan } from './phases/phases';
-import { buildSwitchNetworkSteps, patchSwitchNetwork, type NetworkPatch } from './analysis/switchNetwork';
-import { classifySteps, reclassify, renameStates, renumberDevices, type Classification } from './analysis/classify';
-import { classificationFindings, reviseClassificationFindings } from './findings/classificationFindings';
+import { buildPhases, widenPlan, type PhasePlan } from './phases/phases';
+import { buildSwitchNetworkSteps, patchSwitchNetwork, widenNetwork, type NetworkPatch } from './analysis/switchNetwork';
+import { classifySteps, reclassify, renameStates, renumberDevices, widenClassification, type Classification } from './analysis/classify';
+import { classificationFindings, reviseClassificationFindings, widenClassificationFacts } from './findings/classificationFindings';
 import { applyAccepts } from './findings/accepts';
-import { buildContextSteps, renumberedContext, rewiredContext, type ElectricalContext } from './analysis/electrical/context';
-import { estimateNodeSteps, nodesAround, nodesReading, reestimate, renameEstimates, renumberEstimates, updateEstimates, type NodeEstimate } from './analysis/electrical/estimate';
+import { buildContextSteps, renumberedContext, rewiredContext, widenedContext, type ElectricalContext } from './analysis/electrical/context';
+import { estimateNodeSteps, nodesAround, nodesReading, reestimate, renameEstimates, renumberEstimates, updateEstimates, widenEstimates, type NodeEstimate } from './analysis/electrical/estimate';
 import { patchSizes, type SizePatch } from './circuit/patch';
 import { reelaborateValues } from './circuit/valueEdit';
 import { renameNets, type NetRename } from './circuit/rename';
@@ -24,10 +24,11 @@ import { shiftDiagnostics, spliceDevices, type DeviceSplice } from './circuit/sp
 import { sameRange } from './syntax/compare';
 import type { Range } from './core/source';
 import { runToEnd, type Steps } from './core/steps';
+import type { NetInsertion } from './core/renumber';
 import { DEFAULT_BUDGET_FRACTION, receiverBudget } from './analysis/electrical/budget';
 import { carrySizingBasis, existingInverter, sameSizingBasis, sameSizingBasisRenumbered } from './analysis/electrical/keeper';
 import { FALLBACK_PROFILE_NAME, FALLBACK_SUPPLY_V } from './analysis/devices/catalogue';
-import { electricalFindings, reviseElectricalFindings } from './findings/electricalFindings';
+import { electricalFindings, reviseElectricalFindings, widenElectricalEmissions } from './findings/electricalFindings';
 import { celsiusToKelvin } from './analysis/devices/physics';
 import { diag } from './core/diagnostics';
 import { parseNetlist } from './syntax/parser';
@@ -138,7 +139,7 @@ export function reanalyse(previous: AnalysisResult, deck: Deck, options: EngineO
   const patch = patchSizes(previous.deck, previous.design, deck);
   if (!patch) {
     const limit = (i: number) => rewireLimit(previous.circuits[i]!.classification.network.components.length);
-    const rewired = rewireNets(previous.deck, previous.design, deck, limit);
+    const rewired = rewireNets(previous.deck, previous.design, deck, limit, options);
     if (rewired) return afterRewire(previous, deck, rewired, options);
     const spliced = spliceDevices(previous.deck, previous.design, deck, limit);
     if (spliced) return afterSplice(previous, deck, spliced, options);
@@ -221,7 +222,9 @@ function afterRewire(previous: AnalysisResult, deck: Deck, rewired: Rewiring, op
   const move = (list: Diagnostic[]) => moveEditedRanges(list, rewired.moved);
   const circuits: CircuitAnalysis[] = [];
   for (let i = 0; i < previous.circuits.length; i++) {
-    const a = previous.circuits[i]!;
+    const wide = rewired.widened[i];
+    // new nets: the previous results under the new net numbers first, the new nets on nothing yet
+    const a = wide ? widenAnalysis(previous.circuits[i]!, wide.circuit, wide.nets) : previous.circuits[i]!;
     const circuit = rewired.design.circuits[i]!;
     if (circuit === a.circuit) {
       // the edited definition is not used in this circuit: its findings stand where they are
@@ -244,6 +247,24 @@ function afterRewire(previous: AnalysisResult, deck: Deck, rewired: Rewiring, op
     circuits.push({ circuit, plan: a.plan, ...patched, findings: { phases: move(a.findings.phases), ...patched.findings, models: move(a.findings.models) } });
   }
   return finish(deck, rewired.design, circuits, previous.frontEnd, options);
+}
+
+/**
+ * A circuit's analysis with nets put in (`circuit`: the previous circuit with them, nothing on
+ * them yet; circuit/newNets): every stage's results under the new net numbers, each new net an
+ * undriven group of its own, as an analysis of that circuit finds them. The edit that wires
+ * them is patched onto this.
+ */
+function widenAnalysis(a: CircuitAnalysis, circuit: Circuit, ins: NetInsertion): CircuitAnalysis {
+  const plan = widenPlan(a.plan, ins);
+  const network = widenNetwork(a.classification.network, circuit, ins);
+  const classification = widenClassification(a.classification, network, plan, ins);
+  widenClassificationFacts(a.classification, classification, ins);
+  const electrical = widenedContext(a.electrical!, circuit, network, plan, classification, ins);
+  const estimates = widenEstimates(a.estimates!, ins);
+  widenElectricalEmissions(a.estimates!, estimates, ins);
+  carrySizingBasis(a.circuit, circuit);
+  return { circuit, plan, classification, electrical, estimates, findings: a.findings };
 }
 
 /**

@@ -52,3 +52,15 @@ export function reconnect(text: string, pick: number, to: number): string {
   return lines.join('\n');
 }
 
+
+/** One node word moved to a name its scope does not use yet (a new net). */
+export function reconnectToNewNet(text: string, pick: number, tag: number): string {
+  const lines = text.split('\n');
+  const words = nodeWords(lines);
+  if (!words.length) return text;
+  const [line, k] = words[pick % words.length]!;
+  const name = `nn${tag}x`;
+  if (new RegExp(`\\b${name}\\b`, 'i').test(text)) return text;
+  lines[line] = lines[line]!.split(/(\s+)/).map((x, j) => (j === 2 * k ? name : x)).join('');
+  return lines.join('\n');
+}

@@ -5,13 +5,13 @@
 // nets, traced back a few levels, so a net and its inverted or buffered copy are not treated as
 // independent, and feedback from the node itself (keepers, static latches) is recognised.
 
-import { renumbered } from '../core/renumber';
+import { movedNets, newToOldNets, renumbered, withNetCells, type NetInsertion } from '../core/renumber';
 import type { PhasePlan, Phase } from '../phases/phases';
 import { floatWindow } from '../phases/phases';
-import { evaluateComponent, newScratch, propagateConstants, repropagateConstants, X, type Scratch } from './constants';
+import { evaluateComponent, newScratch, propagateConstants, repropagateConstants, widenValues, X, type Scratch } from './constants';
 import { mosfetOfSwitch, NetRole, SwitchKind, type Component, type SwitchNetwork } from './switchNetwork';
 import { stepDue, runToEnd, type Steps } from '../core/steps';
-import { OverlayMap, RenumberedMap } from '../core/overlay';
+import { NetKeyedMap, OverlayMap, RenumberedMap } from '../core/overlay';
 
 export type NodeStateName = 'driven' | 'conditional' | 'floating' | 'kept' | 'contention' | 'undriven';
 
@@ -421,6 +421,43 @@ export function renumberDevices(cl: Classification, oldToNew: Int32Array): Class
     witnessMemos.set(out, next);
   }
   return out;
+}
+
+/**
+ * The classification of `net` (the previous network with nets put in, nothing on them: see
+ * widenNetwork) from the previous one: every result under the new net numbers, each new net
+ * unknown in every phase, undriven and no storage node, for `reclassify` to start from.
+ */
+export function widenClassification(cl: Classification, net: SwitchNetwork, plan: PhasePlan, ins: NetInsertion): Classification {
+  const map = ins.oldToNew;
+  const newToOld = newToOldNets(ins);
+  const result = (r: NodePhaseResult) => widenResult(r, map);
+  const undriven: NodePhaseResult = { state: 'undriven', exact: true };
+  const perPhase = cl.perPhase.map((m) => {
+    const moved = NetKeyedMap.over(m, map, newToOld, result);
+    // a net with nothing on it is undriven, as a full pass finds it
+    return OverlayMap.extend(moved, new Map(ins.added.map((x) => [x, undriven])));
+  });
+  const added = net.components.length - cl.network.components.length;
+  const componentFlags = cl.componentFlags.map((f) => {
+    const out = new Uint8Array(f.length + added);
+    out.set(f);
+    return out;
+  });
+  const out: Classification = { ...cl, network: net, plan, perPhase, phaseValues: cl.phaseValues.map((v) => widenValues(v, ins)), storage: withNetCells(cl.storage, ins, 0), componentFlags };
+  const memo = witnessMemos.get(cl);
+  if (memo) {
+    const next = new Map<string, WitnessMemo>();
+    for (const [key, w] of memo) next.set(key, { nets: movedNets(w.nets, ins), mosfets: w.mosfets, results: w.results.map((r) => r && result(r)) });
+    witnessMemos.set(out, next);
+  }
+  return out;
+}
+
+function widenResult(r: NodePhaseResult, oldToNew: Int32Array): NodePhaseResult {
+  const g = r.gateAssignment;
+  if (!g || g.every(([x]) => oldToNew[x] === x)) return r;
+  return { ...r, gateAssignment: g.map(([x, v]) => [oldToNew[x]!, v]) };
 }
 
 function renumberResult(r: NodePhaseResult, oldToNew: Int32Array): NodePhaseResult {

@@ -6,7 +6,7 @@
 import type { Circuit } from '../circuit/circuit';
 import type { Clock } from '../phases/clocks';
 import type { MosfetRenumbering } from '../circuit/splice';
-import { composeRenumberings, renumbered, splicedList } from '../core/renumber';
+import { composeRenumberings, movedNets, renumbered, splicedList, withNetCells, withNetRows, type NetInsertion } from '../core/renumber';
 import { LIST_ITEMS_PER_SLICE, runToEnd, type Steps } from '../core/steps';
 
 export const enum NetRole {
@@ -69,9 +69,10 @@ export function buildSwitchNetwork(c: Circuit, clocks: Clock[]): SwitchNetwork {
 export function* buildSwitchNetworkSteps(c: Circuit, clocks: Clock[]): Steps<SwitchNetwork> {
   const n = c.nets.length;
   const role = new Uint8Array(n);
-  for (const net of c.nets) {
-    if (net.kind === 'ground') role[net.id] = NetRole.Rail0;
-    else if (net.kind === 'supply') role[net.id] = NetRole.Rail1;
+  for (let i = 0; i < n; i++) {
+    const kind = c.nets[i]!.kind;
+    if (kind === 'ground') role[i] = NetRole.Rail0;
+    else if (kind === 'supply') role[i] = NetRole.Rail1;
   }
   for (const s of c.sources) {
     if (role[s.p] !== NetRole.Internal) continue;
@@ -390,6 +391,11 @@ class RenumberedGroup implements Component {
   get switches(): number[] {
     return (this.list ??= renumbered(this.root, this.map));
   }
+
+  /** The same group with other nets (a net insertion moved them). */
+  withNets(nodes: number[], gates: number[]): RenumberedGroup {
+    return new RenumberedGroup(this.id, nodes, gates, this.root, this.map);
+  }
 }
 
 function renumberedGroups(groups: readonly Component[], map: Int32Array): Component[] {
@@ -405,3 +411,42 @@ function renumberedGroups(groups: readonly Component[], map: Int32Array): Compon
 /** Gates driven by each net (the counts behind `drivesGate`), for the next patch. */
 const gateCounts = new WeakMap<SwitchNetwork, Int32Array>();
 
+
+/**
+ * The network of `c`, the previous network's circuit with nets put in (`ins`) and nothing on
+ * them: every net under its new number, each new net an internal one in a group of its own
+ * (added after the others), unreachable and gating nothing. What `buildSwitchNetwork(c)` gives
+ * up to the groups' ids, for `patchSwitchNetwork` to start from.
+ */
+export function widenNetwork(prev: SwitchNetwork, c: Circuit, ins: NetInsertion): SwitchNetwork {
+  const map = ins.oldToNew;
+  const at = (x: number) => map[x]!;
+  const switches = prev.switches.map((s) => {
+    const gate = s.gate < 0 ? s.gate : at(s.gate);
+    return at(s.a) === s.a && at(s.b) === s.b && gate === s.gate ? s : { a: at(s.a), b: at(s.b), gate, kind: s.kind, other: s.other };
+  });
+  const componentOf = withNetCells(prev.componentOf, ins, -1);
+  const components = prev.components.map((g): Component => {
+    const nodes = movedNets(g.nodes, ins);
+    const gates = movedNets(g.gates, ins);
+    if (nodes === g.nodes && gates === g.gates) return g;
+    return g instanceof RenumberedGroup ? g.withNets(nodes, gates) : { id: g.id, nodes, switches: g.switches, gates };
+  });
+  for (const x of ins.added) {
+    componentOf[x] = components.length;
+    components.push({ id: components.length, nodes: [x], switches: [], gates: [] });
+  }
+  const network: SwitchNetwork = {
+    circuit: c,
+    role: withNetCells(prev.role, ins, NetRole.Internal),
+    switches,
+    componentOf,
+    components,
+    gatedComponents: withNetRows(prev.gatedComponents, ins, () => []),
+    drivesGate: withNetCells(prev.drivesGate, ins, 0),
+    unreachable: withNetCells(prev.unreachable, ins, 1),
+  };
+  const counts = gateCounts.get(prev);
+  if (counts) gateCounts.set(network, withNetCells(counts, ins, 0));
+  return network;
+}

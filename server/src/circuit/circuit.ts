@@ -18,8 +18,8 @@ export interface Origin {
 
 export type NetKind = 'signal' | 'supply' | 'ground';
 
+/** A flat net; its number is its place in `Circuit.nets` (not kept on it, so an edit that puts nets in moves none of these). */
 export interface Net {
-  id: number;
   /** Flat hierarchical name, lower case, '.' between levels. */
   name: string;
   kind: NetKind;

@@ -648,7 +648,7 @@ class Elaborator {
     const existing = c.netByName.get(name);
     if (existing !== undefined) return existing;
     const id = c.nets.length;
-    const net: Net = { id, name, kind: 'signal', global, origin };
+    const net: Net = { name, kind: 'signal', global, origin };
     c.nets.push(net);
     c.netByName.set(name, id);
     return id;
@@ -664,7 +664,7 @@ class Elaborator {
     const netMap = t.localNames.map((n, i) => this.addNet(c, n, t.localOrigins[i]!, false));
     yield* this.instantiate(c, t, netMap, '', this.globalScope, 'top', []);
     c.instanceMosfets = Int32Array.from(this.spans);
-    this.assignRails(c, c.nets.filter((n) => !n.name.includes('.')).map((n) => n.id));
+    this.assignRails(c, netIdsWhere(c, (n) => !n.name.includes('.')));
     return c;
   }
 
@@ -684,7 +684,7 @@ class Elaborator {
     yield* this.instantiate(c, t, netMap, '', scope, key, [def]);
     c.instanceMosfets = Int32Array.from(this.spans);
     const portNets = def.ports.map((_, i) => netMap[i]!);
-    this.assignRails(c, [...portNets, ...c.nets.filter((n) => n.global).map((n) => n.id)]);
+    this.assignRails(c, [...portNets, ...netIdsWhere(c, (n) => n.global)]);
     this.assignPorts(c, def, portNets);
     return c;
   }
@@ -883,4 +883,10 @@ class Elaborator {
       if (direction === 'output' && !c.outputs.includes(net)) c.outputs.push(net);
     });
   }
+}
+
+function netIdsWhere(c: Circuit, keep: (n: Net) => boolean): number[] {
+  const out: number[] = [];
+  c.nets.forEach((n, i) => keep(n) && out.push(i));
+  return out;
 }

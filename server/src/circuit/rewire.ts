@@ -7,7 +7,10 @@
 // definitions, and cells whose port directions are inferred from their wiring are left to a
 // fresh elaboration: `undefined`.
 
+import type { EngineOptions } from '../core/options';
+import type { NetInsertion } from '../core/renumber';
 import { startLineOf } from '../core/source';
+import { insertedSlots, namedNets, widenCircuit } from './newNets';
 import type { Capacitor, Circuit, Design, Instance, Mosfet, Net, Origin, Resistor, TwoTerminal } from './circuit';
 import type { Deck } from './deck';
 import { deckGlobals, elementNodeWords, NetSlots } from './elaborate';
@@ -29,21 +32,38 @@ export interface Rewiring {
   /** Per circuit of the design. */
   changed: RewiredElements[];
   moved: MovedLines['moved'];
+  /**
+   * Per circuit, when the edit named nets the circuit did not have: the previous circuit with
+   * them put in (nothing on them yet), and the net insertion the later stages apply first.
+   */
+  widened: Array<{ circuit: Circuit; nets: NetInsertion } | undefined>;
 }
 
-/** `limit`: per circuit, how many copies of the edited lines the patch takes on (more: undefined). */
-export function rewireNets(previousDeck: Deck, previous: Design, deck: Deck, limit: (circuit: number) => number = () => Infinity): Rewiring | undefined {
+/**
+ * `limit`: per circuit, how many copies of the edited lines the patch takes on (more: undefined).
+ * `options`: the name rules and settings a net put in is checked against (circuit/newNets).
+ */
+export function rewireNets(previousDeck: Deck, previous: Design, deck: Deck, limit: (circuit: number) => number = () => Infinity, options: EngineOptions = {}): Rewiring | undefined {
   const edited = editedStatements(previousDeck.files, deck.files, (file, before, after): EditedLine | undefined => (renamedNodes(before, after) ? { file, before, after } : undefined));
   if (!edited || edited.length === 0) return undefined;
   const scope = scopeOfLines(deck, edited);
   if (scope === undefined) return undefined;
-  const kept = sameNetSlots(previousDeck, deck, scope);
+  const kept = netSlotsOf(previousDeck, deck, scope);
   if (!kept) return undefined;
   const { before, after, portCount } = kept;
+  // the same slots, or the old ones with new names put in
+  let inserted: number[] | undefined;
+  if (!sameSlots(before.slots, after.slots)) {
+    inserted = insertedSlots(before.slots, after.slots, portCount);
+    if (!inserted || !sameList(before.slots.globalNames, after.slots.globalNames)) return undefined;
+  }
   // an internal net first written on an edited line may now be first written elsewhere
   const netOrigins = new Map<string, Origin>();
+  const insertedSet = new Set(inserted ?? []);
+  let shift = 0;
   after.slots.localOrigins.forEach((o, i) => {
-    const was = before.slots.localOrigins[i]!;
+    if (insertedSet.has(i)) return void shift++;
+    const was = before.slots.localOrigins[i - shift]!;
     if (i >= portCount && (o.file !== was.file || !sameRange(o.range, was.range, 0))) netOrigins.set(o.local, o);
   });
   // the edited lines by where each started (devices keep the origin of the parse they came from)
@@ -65,15 +85,38 @@ export function rewireNets(previousDeck: Deck, previous: Design, deck: Deck, lim
   const lines = movedLines(edited);
   const circuits: Circuit[] = [];
   const changed: RewiredElements[] = [];
+  const widened: Rewiring['widened'] = [];
+  const named = inserted && namedNets(previous, options);
   for (let i = 0; i < previous.circuits.length; i++) {
-    const c = previous.circuits[i]!;
+    let c = previous.circuits[i]!;
+    let wide: Rewiring['widened'][number];
+    const prefixes = inserted ? [...contextsOf(c, scope).keys()] : [];
+    if (inserted && prefixes.length) {
+      if (prefixes.length > limit(i) / edited.length) return undefined;
+      wide = widenCircuit(c, prefixes, before.slots, after.slots, portCount, inserted, named!, options);
+      if (!wide) return undefined;
+      // the elements keep their places: so do their origin indexes
+      setOriginIndex(wide.circuit.mosfets, originIndex(c.mosfets));
+      setOriginIndex(wide.circuit.instances, originIndex(c.instances));
+      c = wide.circuit;
+    }
     const result = rewireCircuit(c, scope, portCount, after.slots, lineOf, netOrigins, lines, limit(i) / edited.length);
     if (!result) return undefined;
     circuits.push(result.circuit);
     changed.push(result.changed);
+    widened.push(wide);
   }
   if (changed.every((x) => x.mosfets.length + x.resistors.length + x.inductors.length + x.capacitors.length === 0)) return undefined;
-  return { design: { ...previous, circuits }, changed, moved: lines.moved };
+  return { design: { ...previous, circuits }, changed, moved: lines.moved, widened };
+}
+
+/** Where a definition (lower case; null: the top level) sits in a circuit: prefix -> the nets its ports are bound to (null for the top level or a standalone cell). */
+function contextsOf(c: Circuit, scope: string | null): Map<string, readonly number[] | null> {
+  const contexts = new Map<string, readonly number[] | null>();
+  if (scope === null && !c.standalone) contexts.set('', null);
+  if (scope !== null && c.standalone && c.name === scope) contexts.set('', null);
+  for (const inst of c.instances) if (inst.subckt === scope) contexts.set(inst.name + '.', inst.ports);
+  return contexts;
 }
 
 /** The one definition (lower case) or top level (null) holding every edited line, else undefined. */
@@ -92,13 +135,23 @@ function scopeOfLines(deck: Deck, edited: readonly EditedLine[]): string | null 
  * every flat net keeps its number; else undefined.
  */
 export function sameNetSlots(previousDeck: Deck, deck: Deck, scope: string | null): { before: ScopeSlots; after: ScopeSlots; portCount: number } | undefined {
+  const kept = netSlotsOf(previousDeck, deck, scope);
+  return kept && sameSlots(kept.before.slots, kept.after.slots) ? kept : undefined;
+}
+
+/** The definition's net slots before and after an edit, when the deck's globals are the same. */
+function netSlotsOf(previousDeck: Deck, deck: Deck, scope: string | null): { before: ScopeSlots; after: ScopeSlots; portCount: number } | undefined {
   const globals = deckGlobals(deck);
   const oldGlobals = deckGlobals(previousDeck);
   if (globals.size !== oldGlobals.size || [...globals].some((g) => !oldGlobals.has(g))) return undefined;
   const before = slotsOf(previousDeck, scope, globals);
   const after = slotsOf(deck, scope, globals);
-  if (!before || !after || !sameList(before.slots.localNames, after.slots.localNames) || !sameList(before.slots.globalNames, after.slots.globalNames)) return undefined;
+  if (!before || !after) return undefined;
   return { before, after, portCount: scope === null ? 0 : deck.subckts.get(scope)!.ports.length };
+}
+
+function sameSlots(a: NetSlots, b: NetSlots): boolean {
+  return sameList(a.localNames, b.localNames) && sameList(a.globalNames, b.globalNames);
 }
 
 type ScopeSlots = { slots: NetSlots; refs: Map<Statement, number[]> };
@@ -138,10 +191,7 @@ function rewireCircuit(
   maxContexts: number,
 ): { circuit: Circuit; changed: RewiredElements } | undefined {
   // where the edited definition sits in this circuit: prefix -> the nets its ports are bound to
-  const contexts = new Map<string, readonly number[] | null>();
-  if (scope === null && !c.standalone) contexts.set('', null);
-  if (scope !== null && c.standalone && c.name === scope) contexts.set('', null);
-  for (const inst of c.instances) if (inst.subckt === scope) contexts.set(inst.name + '.', inst.ports);
+  const contexts = contextsOf(c, scope);
   const none: RewiredElements = { mosfets: [], resistors: [], inductors: [], capacitors: [] };
   if (contexts.size === 0) return { circuit: c, changed: none };
   if (contexts.size > maxContexts) return undefined;

@@ -151,7 +151,7 @@ class Sameness {
     for (let i = 0; i < a.nets.length; i++) {
       const x = a.nets[i]!;
       const y = b.nets[i]!;
-      if (x.id !== y.id || x.name !== y.name || x.kind !== y.kind || x.global !== y.global || !this.origin(x.origin, y.origin)) return false;
+      if (x.name !== y.name || x.kind !== y.kind || x.global !== y.global || !this.origin(x.origin, y.origin)) return false;
     }
     if (a.instances.length !== b.instances.length) return false;
     for (let i = 0; i < a.instances.length; i++) {

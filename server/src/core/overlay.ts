@@ -288,3 +288,57 @@ export class RenumberedMap<K, V> extends DerivedMap<K, V> {
     return m;
   }
 }
+
+/**
+ * An earlier map keyed by net under a net insertion (core/renumber: keys keep their order), its
+ * values renumbered by `renumber` when first read. Nets put in have no entry.
+ */
+export class NetKeyedMap<V> extends DerivedMap<number, V> {
+  private readonly memo = new Map<number, V>();
+
+  private constructor(
+    private readonly base: ReadonlyMap<number, V>,
+    private readonly oldToNew: Int32Array,
+    private readonly newToOld: Int32Array,
+    private readonly renumber: (v: V) => V,
+    depth: number,
+  ) {
+    super(depth);
+  }
+
+  static over<V>(map: ReadonlyMap<number, V>, oldToNew: Int32Array, newToOld: Int32Array, renumber: (v: V) => V): Map<number, V> {
+    const depth = map instanceof DerivedMap ? map.depth + 1 : 1;
+    return new NetKeyedMap(map, oldToNew, newToOld, renumber, depth).folded();
+  }
+
+  override get(key: number): V | undefined {
+    let v = this.memo.get(key);
+    if (v === undefined) {
+      const old = key >= 0 && key < this.newToOld.length ? this.newToOld[key]! : -1;
+      if (old < 0) return undefined;
+      const b = this.base.get(old);
+      if (b === undefined) return undefined;
+      v = this.renumber(b);
+      this.memo.set(key, v);
+    }
+    return v;
+  }
+
+  override has(key: number): boolean {
+    const old = key >= 0 && key < this.newToOld.length ? this.newToOld[key]! : -1;
+    return old >= 0 && this.base.has(old);
+  }
+
+  override get size(): number {
+    return this.base.size;
+  }
+
+  protected build(): Map<number, V> {
+    const m = new Map<number, V>();
+    this.base.forEach((_, k) => {
+      const j = this.oldToNew[k]!;
+      m.set(j, this.get(j)!);
+    });
+    return m;
+  }
+}

@@ -38,3 +38,57 @@ export function splicedList<T>(list: readonly T[], deleted: readonly number[], a
   }
   return out;
 }
+
+/**
+ * Nets put in among the old ones (none taken out), as an edit that names a new net makes them:
+ * old id to new id (ascending), and the new ids of the nets put in (ascending).
+ */
+export interface NetInsertion {
+  oldToNew: Int32Array;
+  added: number[];
+  /** How many nets there are after the insertion. */
+  count: number;
+}
+
+/** Inserts nets before the old ids `before` (ascending, repeats allowed: one net each). */
+export function netInsertion(oldCount: number, before: readonly number[]): NetInsertion {
+  const oldToNew = new Int32Array(oldCount);
+  const added: number[] = [];
+  let k = 0;
+  for (let i = 0; i <= oldCount; i++) {
+    while (k < before.length && before[k] === i) added.push(i + k++);
+    if (i < oldCount) oldToNew[i] = i + k;
+  }
+  return { oldToNew, added, count: oldCount + added.length };
+}
+
+/** A per-net list with a row made for each net put in. */
+export function withNetRows<T>(list: readonly T[], ins: NetInsertion, make: (j: number) => T): T[] {
+  return splicedList(list, [], ins.added, make);
+}
+
+/** A per-net typed array with `fill` for each net put in. */
+export function withNetCells<A extends Uint8Array | Int32Array | Float64Array>(a: A, ins: NetInsertion, fill: number): A {
+  const out = new (a.constructor as new (n: number) => A)(ins.count);
+  let i = 0;
+  let k = 0;
+  for (let j = 0; j < ins.count; j++) {
+    if (k < ins.added.length && ins.added[k] === j) {
+      out[j] = fill;
+      k++;
+    } else out[j] = a[i++]!;
+  }
+  return out;
+}
+
+/** Net ids under an insertion (the same list when none moved). */
+export function movedNets(list: readonly number[], ins: NetInsertion): number[] {
+  return renumbered(list, ins.oldToNew);
+}
+
+/** New id to old, -1 for a net put in. */
+export function newToOldNets(ins: NetInsertion): Int32Array {
+  const out = new Int32Array(ins.count).fill(-1);
+  for (let i = 0; i < ins.oldToNew.length; i++) out[ins.oldToNew[i]!] = i;
+  return out;
+}

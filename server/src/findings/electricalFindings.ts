@@ -8,6 +8,7 @@ import type { NodeEstimate } from '../analysis/electrical/estimate';
 import type { ElectricalContext } from '../analysis/electrical/context';
 import { KEEPER_RATIO_MAX } from '../analysis/electrical/keeper';
 import { originKey, revisedNodes } from './perNode';
+import { movedNets, type NetInsertion } from '../core/renumber';
 
 const KEEPER_WEAK_MARGIN = 2;
 
@@ -161,4 +162,13 @@ function nodeEmissions(ctx: ElectricalContext, e: NodeEstimate, b: string): Emis
     }
   }
   return out;
+}
+
+/** Carries the emissions of `previous` to `next`, the same estimates under a net insertion. */
+export function widenElectricalEmissions(previous: ReadonlyMap<number, NodeEstimate>, next: ReadonlyMap<number, NodeEstimate>, ins: NetInsertion): void {
+  const before = emissionsOf.get(previous);
+  if (!before) return;
+  const byNode = new Map<number, Emission[]>();
+  for (const [n, list] of before.byNode) byNode.set(ins.oldToNew[n]!, list);
+  emissionsOf.set(next, { byNode, listed: movedNets(before.listed, ins), budgetV: before.budgetV, vddV: before.vddV });
 }

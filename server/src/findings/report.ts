@@ -213,14 +213,15 @@ export function addToReport(report: Report, file: string, result: AnalysisResult
         });
       }
     }
-    for (const n of c.nets) {
+    for (let id = 0; id < c.nets.length; id++) {
+      const n = c.nets[id]!;
       const cl = analysis?.classification;
-      const strong = cl ? cl.network.role[n.id] !== 0 : n.kind !== 'signal';
+      const strong = cl ? cl.network.role[id] !== 0 : n.kind !== 'signal';
       const states: ReportState[] = [];
       let risky = false;
       if (cl && !strong) {
         cl.plan.phases.forEach((p, i) => {
-          const r = cl.perPhase[i]!.get(n.id);
+          const r = cl.perPhase[i]!.get(id);
           const st: ReportState = { phase: p.name, state: r?.state ?? 'driven' };
           if (r) {
             risky = true;
@@ -245,13 +246,13 @@ export function addToReport(report: Report, file: string, result: AnalysisResult
         kind: n.kind,
       };
       if (cl && !strong) {
-        node.role = cl.storage[n.id] ? 'storage' : 'internal';
+        node.role = cl.storage[id] ? 'storage' : 'internal';
         node.states = states;
-        const w = nodeFloatWindow(cl, n.id);
+        const w = nodeFloatWindow(cl, id);
         node.float_window_s = w === Infinity ? null : w;
         if (w === Infinity) node.float_unbounded = true;
       }
-      const e = analysis?.estimates?.get(n.id);
+      const e = analysis?.estimates?.get(id);
       if (e) addEstimate(node, e, c);
       report.nodes.push(node);
     }

@@ -631,7 +631,7 @@ connection.onCodeLens((p) =>
       const errors = here.filter((d) => d.severity === 'error').length;
       const warnings = here.filter((d) => d.severity === 'warning').length;
       let floating = 0;
-      for (const a of c.result.circuits) for (const n of a.circuit.nets) if (n.origin.subckt === name && a.classification.perPhase.some((m) => m.get(n.id)?.state === 'floating' || m.get(n.id)?.state === 'conditional')) floating++;
+      for (const a of c.result.circuits) a.circuit.nets.forEach((n, id) => n.origin.subckt === name && a.classification.perPhase.some((m) => m.get(id)?.state === 'floating' || m.get(id)?.state === 'conditional') && floating++);
       lenses.push({ range: { start: sym.selection.start, end: sym.selection.end }, command: { title: `${floating} node${floating === 1 ? '' : 's'} can float · ${errors} error${errors === 1 ? '' : 's'}, ${warnings} warning${warnings === 1 ? '' : 's'}`, command: '' } });
     }
     return lenses;

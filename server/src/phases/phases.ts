@@ -7,6 +7,7 @@ import type { DirectiveSet } from '../circuit/directives';
 import { diag, type Diagnostic } from '../core/diagnostics';
 import type { EngineOptions } from '../core/options';
 import type { Clock } from './clocks';
+import type { NetInsertion } from '../core/renumber';
 
 export interface Phase {
   name: string;
@@ -181,4 +182,17 @@ export function floatWindow(plan: PhasePlan, floatsIn: (p: Phase) => boolean): n
   }
   for (const p of plan.phases) if (p.standby && floatsIn(p)) best = Math.max(best, p.durationS ?? Infinity);
   return best > 0 ? best : null;
+}
+
+/** The plan with its clock nets under a net insertion (core/renumber): the same phases and times. */
+export function widenPlan(plan: PhasePlan, ins: NetInsertion): PhasePlan {
+  const at = (x: number) => ins.oldToNew[x]!;
+  const phaseOf = new Map<Phase, Phase>();
+  const phases = plan.phases.map((p) => {
+    const q: Phase = { ...p, clocks: new Map([...p.clocks].map(([k, v]) => [at(k), v])) };
+    phaseOf.set(p, q);
+    return q;
+  });
+  const clocks = plan.clocks.map((k) => ({ ...k, net: at(k.net), ...(k.inverseOf !== undefined ? { inverseOf: at(k.inverseOf) } : {}) }));
+  return { ...plan, phases, cycle: plan.cycle.map((p) => phaseOf.get(p) ?? p), clocks };
 }

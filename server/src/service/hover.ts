@@ -24,12 +24,12 @@ export function netsFor(result: AnalysisResult, file: string, target: Extract<Ta
     }
     // a net defined inside this subcircuit: one flat net per instance
     const seen = new Set<number>();
-    for (const n of c.nets) {
-      if (n.origin.subckt === target.subckt && n.origin.local === target.name && !seen.has(n.id)) {
-        seen.add(n.id);
-        out.push({ a, net: n.id });
+    c.nets.forEach((n, id) => {
+      if (n.origin.subckt === target.subckt && n.origin.local === target.name && !seen.has(id)) {
+        seen.add(id);
+        out.push({ a, net: id });
       }
-    }
+    });
     // a port: what the MOSFETs written on this line connect to, in each instance
     if (seen.size === 0 && target.statement && target.index !== undefined && target.index < 4) {
       for (const m of c.mosfets) {

@@ -9,7 +9,7 @@ import type { PhasePlan } from '../../phases/phases';
 import { modelFor } from '../devices/catalogue';
 import type { MosModel } from '../devices/mosModel';
 import type { MosfetRenumbering } from '../../circuit/splice';
-import { composeRenumberings, renumbered } from '../../core/renumber';
+import { composeRenumberings, renumbered, withNetCells, withNetRows, type NetInsertion } from '../../core/renumber';
 import { LIST_ITEMS_PER_SLICE, runToEnd, type Steps } from '../../core/steps';
 
 export interface Corner {
@@ -148,6 +148,24 @@ export function renumberedContext(ctx: ElectricalContext, circuit: Circuit, netw
 }
 
 /**
+ * The context of `circuit` (the previous one's with nets put in, nothing on them: see
+ * circuit/newNets) with every per-net list under the new numbers.
+ */
+export function widenedContext(ctx: ElectricalContext, circuit: Circuit, network: SwitchNetwork, plan: PhasePlan, classification: Classification, ins: NetInsertion): ElectricalContext {
+  const lists = listsOf(ctx);
+  return {
+    ...ctx,
+    circuit,
+    network,
+    plan,
+    classification,
+    railVolts: withNetCells(ctx.railVolts, ins, NaN),
+    ...deviceLists({ channels: lists.channels.withNets(ins), gates: lists.gates.withNets(ins) }),
+    capsOf: withNetRows(ctx.capsOf, ins, () => []),
+  };
+}
+
+/**
  * One kind of per-net device list after edits: the lists a full pass built, the renumbering
  * from their numbers to the current ones (composed over every splice since), devices added
  * since (current numbers) and lists rebuilt since (current numbers). Never more than one level
@@ -187,6 +205,12 @@ class NetDeviceLists {
     const all = new Map(this.rebuilt);
     for (const [x, l] of rebuilt) all.set(x, l);
     return new NetDeviceLists(this.root, this.oldToNew, this.added, all);
+  }
+
+  /** The same lists under a net insertion: a net put in has none. */
+  withNets(ins: NetInsertion): NetDeviceLists {
+    const rekey = (m: ReadonlyMap<number, readonly number[]>) => new Map([...m].map(([x, l]) => [ins.oldToNew[x]!, l]));
+    return new NetDeviceLists(withNetRows(this.root, ins, () => []), this.oldToNew, rekey(this.added), rekey(this.rebuilt));
   }
 
   /** Under a further renumbering, with devices added on some nets (new numbers). */

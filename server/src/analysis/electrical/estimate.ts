@@ -2,13 +2,13 @@
 // stored level and corner, retention to the droop budget, charge sharing, coupling, critical
 // charge and, where one is needed, a sized keeper. Pure: reads the context, returns records.
 
-import { renumbered } from '../../core/renumber';
+import { newToOldNets, renumbered, withNetCells, type NetInsertion } from '../../core/renumber';
 import { floatsIn, nodeFloatWindow, type NodePhaseResult } from '../classify';
 import { evaluateComponent, newScratch, type Scratch } from '../constants';
 import { mosfetOfSwitch, NetRole, SwitchKind } from '../switchNetwork';
 import { carryToTwin, familyOf, type Family } from './family';
 import { stepDue, runToEnd, type Steps } from '../../core/steps';
-import { OverlayMap, RenumberedMap } from '../../core/overlay';
+import { NetKeyedMap, OverlayMap, RenumberedMap } from '../../core/overlay';
 import type { ElectricalContext } from './context';
 import { capacitanceSignature, islandCapacitance, type CapacitanceBreakdown } from './capacitance';
 import { buildLeakageNetwork, leakageAt, leakageSignature, MAX_SOLVED_GROUPS, type LeakageContributor } from './leakage';
@@ -207,7 +207,9 @@ export function renameEstimates(estimates: Map<number, NodeEstimate>, names: Rea
     if (sh && holderChanged) next.suggestedHolder = { ...sh, pullUp: up!, pullDown: down!, forward: up!.inverter };
     out.set(n, next);
   }
-  if (!out) return estimates;
+  // a map of its own even when no figure quotes a renamed net: the findings keep what each node
+  // emits with the map, and the renamed analysis's messages quote the new names
+  out ??= new Map(estimates);
   const shares = sharedSolves.get(estimates);
   if (shares) sharedSolves.set(out, shares);
   return out;
@@ -234,6 +236,27 @@ function renumberEstimate(e: NodeEstimate, oldToNew: Int32Array): NodeEstimate {
   const next: NodeEstimate = { ...e, devices };
   if (k) next.keeper = { ...k, devices: keeperDevices!, against: against! };
   if (aggressorsMove) next.capacitance = { ...e.capacitance, aggressors: e.capacitance.aggressors.map((x) => (x.device === undefined ? x : { ...x, device: oldToNew[x.device]! })) };
+  return next;
+}
+
+/** Estimates under a net insertion (core/renumber): the same figures, their nets under the new numbers. */
+export function widenEstimates(estimates: ReadonlyMap<number, NodeEstimate>, ins: NetInsertion): Map<number, NodeEstimate> {
+  const map = ins.oldToNew;
+  const out = NetKeyedMap.over(estimates, map, newToOldNets(ins), (e) => widenEstimate(e, map));
+  const shares = sharedSolves.get(estimates);
+  if (shares) {
+    const moved = withNetCells(shares, ins, -1);
+    for (let j = 0; j < moved.length; j++) if (moved[j]! >= 0) moved[j] = map[moved[j]!]!;
+    sharedSolves.set(out, moved);
+  }
+  return out;
+}
+
+function widenEstimate(e: NodeEstimate, map: Int32Array): NodeEstimate {
+  const next: NodeEstimate = { ...e, node: map[e.node]! };
+  if (e.capacitance.aggressors.some((a) => map[a.net] !== a.net)) next.capacitance = { ...e.capacitance, aggressors: e.capacitance.aggressors.map((a) => ({ ...a, net: map[a.net]! })) };
+  const cs = e.chargeSharing;
+  if (cs) next.chargeSharing = { ...cs, gates: new Map([...cs.gates].map(([g, v]) => [map[g]!, v])), joined: cs.joined.map((x) => map[x]!) };
   return next;
 }
 

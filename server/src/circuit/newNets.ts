@@ -1,0 +1,167 @@
+// A reconnection that names a net its scope did not have (a new word typed on an element line):
+// the scope's net slots are the old ones with names put in, so every instance of the scope gets
+// its new nets in the block of nets it owns, and every later net moves up. This stage makes the
+// old circuit with those nets put in and nothing on them yet (`widenCircuit`), under the net
+// insertion (core/renumber) that every later stage applies to its own results; the reconnection
+// then wires the edited lines to them as to any other net. Nets put in that a name rule, a
+// directive or a setting could make a rail, a clock or an input are left to a fresh analysis.
+
+import { DerivedMap } from '../core/overlay';
+import type { EngineOptions } from '../core/options';
+import { DEFAULT_GROUND_PATTERN, DEFAULT_SUPPLY_PATTERN } from '../core/options';
+import { movedNets, netInsertion, withNetRows, type NetInsertion } from '../core/renumber';
+import type { Circuit, Design, Mosfet, Net } from './circuit';
+import type { NetSlots } from './elaborate';
+
+/** The slots put in: indices into the new slots' local names (ascending), all past the ports. */
+export function insertedSlots(before: NetSlots, after: NetSlots, portCount: number): number[] | undefined {
+  const a = before.localNames;
+  const b = after.localNames;
+  if (b.length <= a.length) return undefined;
+  const inserted: number[] = [];
+  let i = 0;
+  for (let j = 0; j < b.length; j++) {
+    if (i < a.length && a[i] === b[j]) i++;
+    else if (j < portCount) return undefined;
+    else inserted.push(j);
+  }
+  if (i !== a.length) return undefined;
+  // a name put in is new to the scope (not one that moved in the order of first use)
+  const old = new Set(a);
+  return inserted.every((j) => !old.has(b[j]!)) ? inserted : undefined;
+}
+
+/** Names a directive or a setting gives a role to: a net put in with one of them takes the full path. */
+export function namedNets(design: Design, options: EngineOptions): Set<string> {
+  const d = design.directives;
+  const out = new Set<string>();
+  const add = (n: string | undefined) => n !== undefined && out.add(n.toLowerCase());
+  for (const c of d.clocks) (add(c.net), add(c.inverseOf));
+  for (const list of [d.standby, d.supplies, d.grounds, d.inputs, d.outputs]) for (const x of list) add(x.net);
+  for (const c of options.clocks ?? []) (add(c.net), add(c.inverseOf));
+  for (const x of options.standby ?? []) add(x.net);
+  for (const g of options.grounds ?? []) add(g);
+  for (const s of Object.keys(options.supplies ?? {})) add(s);
+  return out;
+}
+
+/**
+ * `c` with the nets of the inserted slots put in for every instance of the scope (prefix ->
+ * its own block of nets), all elements on the nets they had under the new numbers. Undefined
+ * when an instance's block of nets is not where the elaborator puts it, or a net put in could
+ * take a role by its name. `contexts`: prefix ('' for the top level or a standalone cell).
+ */
+export function widenCircuit(
+  c: Circuit,
+  contexts: readonly string[],
+  before: NetSlots,
+  after: NetSlots,
+  portCount: number,
+  inserted: readonly number[],
+  named: ReadonlySet<string>,
+  options: EngineOptions,
+): { circuit: Circuit; nets: NetInsertion } | undefined {
+  const supplyRe = new RegExp(options.supplyNamePattern ?? DEFAULT_SUPPLY_PATTERN, 'i');
+  const groundRe = new RegExp(options.groundNamePattern ?? DEFAULT_GROUND_PATTERN, 'i');
+  const insertedSet = new Set(inserted);
+  // each new slot goes in before the next kept internal slot's net, or after the last one's
+  const puts: Array<{ before: number; name: string; slot: number }> = [];
+  for (const prefix of contexts) {
+    let lastKept = -1;
+    const pending: number[] = [];
+    let ids: number[] = [];
+    for (let j = portCount; j < after.localNames.length; j++) {
+      if (insertedSet.has(j)) {
+        pending.push(j);
+        continue;
+      }
+      const id = c.netByName.get(prefix + after.localNames[j]!);
+      if (id === undefined) return undefined;
+      ids.push(id);
+      for (const s of pending) puts.push({ before: id, name: prefix + after.localNames[s]!, slot: s });
+      pending.length = 0;
+      lastKept = id;
+    }
+    if (lastKept < 0) return undefined;
+    for (const s of pending) puts.push({ before: lastKept + 1, name: prefix + after.localNames[s]!, slot: s });
+    // the block of nets an instance owns is contiguous and in slot order
+    for (let k = 1; k < ids.length; k++) if (ids[k] !== ids[k - 1]! + 1) return undefined;
+    ids = [];
+  }
+  for (const p of puts) {
+    if (c.netByName.has(p.name) || p.name === '0' || named.has(p.name) || supplyRe.test(p.name) || groundRe.test(p.name)) return undefined;
+  }
+  // stable by slot within one place, as the elaborator numbers them
+  puts.sort((x, y) => x.before - y.before || x.slot - y.slot);
+  const ins = netInsertion(c.nets.length, puts.map((p) => p.before));
+  const map = ins.oldToNew;
+  let k = 0;
+  const nets: Net[] = withNetRows(c.nets, ins, () => {
+    const p = puts[k++]!;
+    return { name: p.name, kind: 'signal', global: false, origin: after.localOrigins[p.slot]! };
+  });
+  const netByName = NetNumbersByName.over(c.netByName, map, new Map(ins.added.map((j) => [nets[j]!.name, j])));
+  const at = (x: number) => map[x]!;
+  const two = <T extends { a: number; b: number }>(list: T[]) => list.map((x) => (at(x.a) === x.a && at(x.b) === x.b ? x : { ...x, a: at(x.a), b: at(x.b) }));
+  const circuit: Circuit = {
+    ...c,
+    nets,
+    netByName,
+    mosfets: c.mosfets.map((m): Mosfet => (at(m.d) === m.d && at(m.g) === m.g && at(m.s) === m.s && at(m.b) === m.b ? m : { ...m, d: at(m.d), g: at(m.g), s: at(m.s), b: at(m.b) })),
+    capacitors: two(c.capacitors),
+    resistors: two(c.resistors),
+    inductors: two(c.inductors),
+    diodes: two(c.diodes),
+    sources: c.sources.map((s) => (at(s.p) === s.p && at(s.n) === s.n ? s : { ...s, p: at(s.p), n: at(s.n) })),
+    others: c.others.map((o) => {
+      const moved = movedNets(o.nets, ins);
+      return moved === o.nets ? o : { ...o, nets: moved };
+    }),
+    instances: c.instances.map((inst) => {
+      const ports = movedNets(inst.ports, ins);
+      return ports === inst.ports ? inst : { ...inst, ports };
+    }),
+    ports: c.ports.map((p) => (at(p.net) === p.net ? p : { ...p, net: at(p.net) })),
+    supplies: c.supplies.map((s) => (at(s.net) === s.net ? s : { ...s, net: at(s.net) })),
+    grounds: movedNets(c.grounds, ins),
+    inputs: movedNets(c.inputs, ins),
+    outputs: movedNets(c.outputs, ins),
+  };
+  return { circuit, nets: ins };
+}
+
+/**
+ * The name index under a net insertion, read through the old one (a copy of 100,000 names was
+ * the largest part of the insertion). Read-only, like every stage's output.
+ */
+class NetNumbersByName extends DerivedMap<string, number> {
+  private constructor(
+    private readonly base: ReadonlyMap<string, number>,
+    private readonly oldToNew: Int32Array,
+    private readonly added: ReadonlyMap<string, number>,
+    depth: number,
+  ) {
+    super(depth);
+  }
+
+  static over(base: ReadonlyMap<string, number>, oldToNew: Int32Array, added: ReadonlyMap<string, number>): Map<string, number> {
+    const depth = base instanceof DerivedMap ? base.depth + 1 : 1;
+    return new NetNumbersByName(base, oldToNew, added, depth).folded();
+  }
+
+  override get(name: string): number | undefined {
+    const old = this.base.get(name);
+    return old !== undefined ? this.oldToNew[old] : this.added.get(name);
+  }
+
+  override has(name: string): boolean {
+    return this.base.has(name) || this.added.has(name);
+  }
+
+  // in net order, as the elaborator fills it
+  protected build(): Map<string, number> {
+    const all = [...this.base].map(([k, v]): [string, number] => [k, this.oldToNew[v]!]);
+    for (const e of this.added) all.push(e);
+    return new Map(all.sort((a, b) => a[1] - b[1]));
+  }
+}
