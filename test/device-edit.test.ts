@@ -4,7 +4,7 @@
 // previous one must equal a fresh analysis of the new text, finding for finding and figure for
 // figure, with the circuit, the switch network and each stage's findings equal to fresh ones.
 // Random additions and deletions over every sample, the fixtures and a generated datapath, one
-// and two in a row.
+// and two in a row; and lines added with a new net on them (circuit/newNets).
 
 import * as fs from 'node:fs';
 import * as path from 'node:path';
@@ -14,7 +14,7 @@ import { analyse, readDeck, reanalyse } from '../server/src/engine';
 import { memoryHost, type FileHost } from '../server/src/core/host';
 import { overlay } from './support/edits';
 import { checkRandomEdits, same } from './support/sameAnalysis';
-import { addDevice, deleteDevice } from './support/deviceEdits';
+import { addDevice, addDeviceOnNewNet, deleteDevice } from './support/deviceEdits';
 import { hierarchicalNetlist } from '../scripts/netlists';
 
 const SAMPLES = path.join(__dirname, '..', 'samples');
@@ -86,5 +86,40 @@ describe('transistor lines added or deleted reuse the previous analysis and equa
       previous = fast!;
       text = next;
     }
+  }, 120_000);
+});
+
+describe('transistor lines added on new nets reuse the previous analysis and equal a fresh one', () => {
+  const check = (file: string, original: string, hostFor: (t: string) => FileHost, runs: number) =>
+    checkRandomEdits(file, original, hostFor, runs, 29, [fc.nat(11), fc.nat(5000), fc.nat(500)], (t, [variant, pick, where]) => addDeviceOnNewNet(t, pick!, where!, variant!));
+  let total = 0;
+  for (const name of fs.readdirSync(SAMPLES).filter((f) => f.endsWith('.sp'))) {
+    it(`${name}: random lines added on new nets`, () => {
+      const file = path.join(SAMPLES, name);
+      total += check(file, fs.readFileSync(file, 'utf8'), (t) => overlay(file, t), 25);
+    });
+  }
+  it('the fixtures: random lines added on new nets', () => {
+    let taken = 0;
+    for (const kind of ['classify', 'electrical']) {
+      const dir = path.join(__dirname, 'fixtures', kind);
+      for (const name of fs.readdirSync(dir).filter((f) => f.endsWith('.sp'))) {
+        const file = path.join(dir, name);
+        taken += check(file, fs.readFileSync(file, 'utf8'), (t) => overlay(file, t), 6);
+      }
+    }
+    expect(taken).toBeGreaterThan(10);
+  }, 120_000);
+  it('a generated hierarchical datapath (2k transistors): a series device put in the block cell on a new node', () => {
+    const file = '/datapath.sp';
+    const text = hierarchicalNetlist(2_000);
+    // (the latch cells' lengths are a parameter, and the domino cell is over the copy limit: most are declined)
+    const taken = check(file, text, (t) => memoryHost({ [file]: t }), 16);
+    const edited = text.replace(/^(Xs3 .*)$/m, '$1\nMx w3 clk w3mid vdd bp w=0.1u l=0.1u');
+    const fast = reanalyse(analyse(memoryHost({ [file]: text }), file), readDeck(memoryHost({ [file]: edited }), file));
+    expect(fast, 'a transistor line on a new node is spliced in').toBeDefined();
+    same(file, fast!, analyse(memoryHost({ [file]: edited }), file));
+    expect(taken).toBeGreaterThan(2);
+    expect(total).toBeGreaterThan(30);
   }, 120_000);
 });

@@ -141,7 +141,7 @@ export function reanalyse(previous: AnalysisResult, deck: Deck, options: EngineO
     const limit = (i: number) => rewireLimit(previous.circuits[i]!.classification.network.components.length);
     const rewired = rewireNets(previous.deck, previous.design, deck, limit, options);
     if (rewired) return afterRewire(previous, deck, rewired, options);
-    const spliced = spliceDevices(previous.deck, previous.design, deck, limit);
+    const spliced = spliceDevices(previous.deck, previous.design, deck, limit, options);
     if (spliced) return afterSplice(previous, deck, spliced, options);
     const values = reelaborateValues(previous.deck, previous.design, deck, previous.frontEnd, options);
     return values && afterSizes(previous, deck, { design: values.design, changed: values.changed, moved: [] }, values.frontEnd, options);
@@ -284,7 +284,8 @@ function afterSplice(previous: AnalysisResult, deck: Deck, sp: DeviceSplice, opt
   const move = (list: Diagnostic[]) => shiftDiagnostics(list, sp.shift);
   const circuits: CircuitAnalysis[] = [];
   for (let i = 0; i < previous.circuits.length; i++) {
-    const a = previous.circuits[i]!;
+    const wide = sp.widened[i];
+    const a = wide ? widenAnalysis(previous.circuits[i]!, wide.circuit, wide.nets) : previous.circuits[i]!;
     const circuit = sp.design.circuits[i]!;
     const r = sp.renumbering[i];
     if (a.findings.phases.some(onRemoved) || a.findings.models.some(onRemoved)) return undefined;

@@ -42,3 +42,30 @@ export function deleteDevice(text: string, pick: number, commentOut: boolean): s
   else lines.splice(i, 1);
   return lines.join('\n');
 }
+
+/**
+ * A copy of a MOSFET line with a name its scope does not use yet on a terminal (drain, source,
+ * gate, or drain and source: `variant`), put in as `addDevice` puts it: a transistor that makes
+ * a new node, as one put in series does.
+ */
+export function addDeviceOnNewNet(text: string, pick: number, where: number, variant: number): string {
+  const tag = `nq${pick % 61}`;
+  if (new RegExp(`\\b${tag}[ds]?\\b`, 'i').test(text)) return text;
+  const withNew = addDevice(text, pick, where, 0);
+  if (withNew === text) return text;
+  // the line put in is the one addDevice named with the suffix
+  const suffix = `_x${pick % 89}`;
+  const lines = withNew.split('\n');
+  const k = lines.findIndex((l) => {
+    const w = l.trim().split(/\s+/);
+    return w[0]!.endsWith(suffix) && /^m/i.test(w[0]!) && !text.split('\n').includes(l);
+  });
+  if (k < 0) return text;
+  const w = lines[k]!.trim().split(/\s+/);
+  const v = variant % 4;
+  if (v === 0 || v === 3) w[1] = `${tag}d`;
+  if (v === 1 || v === 3) w[3] = `${tag}s`;
+  if (v === 2) w[2] = `${tag}`;
+  lines[k] = w.join(' ');
+  return lines.join('\n');
+}

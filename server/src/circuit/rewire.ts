@@ -1,7 +1,7 @@
 // The elaboration stage's answer to a reconnection: when the new deck differs from the old one
 // only in node names on element lines of one definition (or of the top level), and that
 // definition's net slots come out the same (the same local names first used in the same order,
-// the same globals), every flat net keeps its number and name, and only the terminals of the
+// the same globals; or new names put in among them, see circuit/newNets), every flat net keeps its number and name, and only the terminals of the
 // elements written on those lines (and, for an instance line, of the devices below it that
 // reached a moved port) take other nets. Sources, diodes and connectivity-only elements, nested
 // definitions, and cells whose port directions are inferred from their wiring are left to a
@@ -90,7 +90,7 @@ export function rewireNets(previousDeck: Deck, previous: Design, deck: Deck, lim
   for (let i = 0; i < previous.circuits.length; i++) {
     let c = previous.circuits[i]!;
     let wide: Rewiring['widened'][number];
-    const prefixes = inserted ? [...contextsOf(c, scope).keys()] : [];
+    const prefixes = inserted ? contextPrefixes(c, scope) : [];
     if (inserted && prefixes.length) {
       if (prefixes.length > limit(i) / edited.length) return undefined;
       wide = widenCircuit(c, prefixes, before.slots, after.slots, portCount, inserted, named!, options);
@@ -108,6 +108,11 @@ export function rewireNets(previousDeck: Deck, previous: Design, deck: Deck, lim
   }
   if (changed.every((x) => x.mosfets.length + x.resistors.length + x.inductors.length + x.capacitors.length === 0)) return undefined;
   return { design: { ...previous, circuits }, changed, moved: lines.moved, widened };
+}
+
+/** The prefixes of a definition's places in a circuit ('' for the top level or a standalone cell). */
+export function contextPrefixes(c: Circuit, scope: string | null): string[] {
+  return [...contextsOf(c, scope).keys()];
 }
 
 /** Where a definition (lower case; null: the top level) sits in a circuit: prefix -> the nets its ports are bound to (null for the top level or a standalone cell). */
@@ -140,7 +145,7 @@ export function sameNetSlots(previousDeck: Deck, deck: Deck, scope: string | nul
 }
 
 /** The definition's net slots before and after an edit, when the deck's globals are the same. */
-function netSlotsOf(previousDeck: Deck, deck: Deck, scope: string | null): { before: ScopeSlots; after: ScopeSlots; portCount: number } | undefined {
+export function netSlotsOf(previousDeck: Deck, deck: Deck, scope: string | null): { before: ScopeSlots; after: ScopeSlots; portCount: number } | undefined {
   const globals = deckGlobals(deck);
   const oldGlobals = deckGlobals(previousDeck);
   if (globals.size !== oldGlobals.size || [...globals].some((g) => !oldGlobals.has(g))) return undefined;
@@ -150,7 +155,7 @@ function netSlotsOf(previousDeck: Deck, deck: Deck, scope: string | null): { bef
   return { before, after, portCount: scope === null ? 0 : deck.subckts.get(scope)!.ports.length };
 }
 
-function sameSlots(a: NetSlots, b: NetSlots): boolean {
+export function sameSlots(a: NetSlots, b: NetSlots): boolean {
   return sameList(a.localNames, b.localNames) && sameList(a.globalNames, b.globalNames);
 }
 

@@ -1,7 +1,8 @@
 // The elaboration stage's answer to transistor lines added or deleted: when the new deck differs
 // from the old one only in a run of plain MOSFET lines (plain-number sizes, a model with a card)
 // put in or taken out of one definition (or the top level), and that definition's net slots
-// come out the same, every flat net keeps its number. The devices of those lines are put in or
+// come out the same, every flat net keeps its number (lines added may also name new nets: the
+// circuit gets them first, as in circuit/newNets, and then the devices). The devices of those lines are put in or
 // taken out of every instance of the definition where a fresh elaboration puts them (the flat
 // MOSFET list follows the body order of each instance), which renumbers the MOSFETs after them;
 // every line after the edit moves by the same count, and so does every origin on one. Anything
@@ -10,7 +11,7 @@
 
 import { rangeOf, Span, startLineOf, type Range } from '../core/source';
 import type { Diagnostic } from '../core/diagnostics';
-import { splicedList } from '../core/renumber';
+import { splicedList, type NetInsertion } from '../core/renumber';
 import type { Circuit, Design, Instance, Mosfet, Net, Origin, Polarity } from './circuit';
 import type { Deck } from './deck';
 import { elementNodeWords, guessMicronScale, type NetSlots } from './elaborate';
@@ -18,7 +19,9 @@ import { selectModel } from './models';
 import { parseSpiceNumber } from './numbers';
 import { isPlainNumber, PLAUSIBLE_L_M, PLAUSIBLE_W_M, SIZE_PARAMS } from './patch';
 import { scopesOfStatements } from './rename';
-import { originIndex, sameNetSlots, setOriginIndex } from './rewire';
+import { contextPrefixes, netSlotsOf, originIndex, sameSlots, setOriginIndex } from './rewire';
+import { insertedSlots, namedNets, widenCircuit } from './newNets';
+import type { EngineOptions } from '../core/options';
 import { sameRange, sameStatement } from '../syntax/compare';
 import type { Statement, SyntaxFile } from '../syntax/tree';
 
@@ -46,6 +49,8 @@ export interface DeviceSplice {
   shift: LineShift;
   /** The old lines of the deleted statements (findings on them cannot be moved). */
   removedLines: { file: string; from: number; to: number } | undefined;
+  /** Per circuit, when the added lines name new nets: the previous circuit with them put in (see Rewiring). */
+  widened: Array<{ circuit: Circuit; nets: NetInsertion } | undefined>;
 }
 
 /** A plain transistor line: its local name, node words, model and sizes as the elaborator reads them. */
@@ -55,8 +60,11 @@ interface PlainMosfet {
   values: Omit<Mosfet, 'name' | 'd' | 'g' | 's' | 'b' | 'origin'>;
 }
 
-/** `limit`: per circuit, how many devices the splice takes on (more: undefined). */
-export function spliceDevices(previousDeck: Deck, previous: Design, deck: Deck, limit: (circuit: number) => number = () => Infinity): DeviceSplice | undefined {
+/**
+ * `limit`: per circuit, how many devices the splice takes on (more: undefined). `options`: the
+ * name rules and settings a new net is checked against (circuit/newNets).
+ */
+export function spliceDevices(previousDeck: Deck, previous: Design, deck: Deck, limit: (circuit: number) => number = () => Infinity, options: EngineOptions = {}): DeviceSplice | undefined {
   const diff = diffFiles(previousDeck.files, deck.files);
   if (!diff) return undefined;
   const { file, removed, added, shift } = diff;
@@ -92,15 +100,30 @@ export function spliceDevices(previousDeck: Deck, previous: Design, deck: Deck, 
   for (const l of lines) if (l.local.includes('.') || (counts.get(l.local) ?? 0) > (removed.length ? 0 : 1)) return undefined;
   if ([...bodyIndex.keys()].some((k) => k.includes('.'))) return undefined;
 
-  const kept = sameNetSlots(previousDeck, deck, scope);
+  const kept = netSlotsOf(previousDeck, deck, scope);
   if (!kept) return undefined;
   const { before, after, portCount } = kept;
+  // the same slots, or (lines added) the old ones with new names put in (circuit/newNets)
+  let inserted: number[] | undefined;
+  if (!sameSlots(before.slots, after.slots)) {
+    if (removed.length) return undefined;
+    inserted = insertedSlots(before.slots, after.slots, portCount);
+    if (!inserted || before.slots.globalNames.join(' ') !== after.slots.globalNames.join(' ')) return undefined;
+  }
+  const insertedSet = new Set(inserted ?? []);
   const moveRange = (f: string, r: Range): Range => (f === shift.file && startLineOf(r) >= shift.fromLine ? shiftedRange(r, shift.lines) : r);
-  // a net first written on an edited line is now first written elsewhere (or the other way)
+  // a net first written on an edited line is now first written elsewhere (or the other way);
+  // a new net is first written where the new slots say
   const netOrigins = new Map<string, Origin>();
+  let newSoFar = 0;
   for (let i = 0; i < after.slots.localOrigins.length; i++) {
     const o = after.slots.localOrigins[i]!;
-    const was = before.slots.localOrigins[i]!;
+    if (insertedSet.has(i)) {
+      netOrigins.set(o.local, o);
+      newSoFar++;
+      continue;
+    }
+    const was = before.slots.localOrigins[i - newSoFar]!;
     if (o.file === was.file && sameRange(moveRange(was.file, was.range), o.range, 0)) continue;
     // a global net takes the first slot's origin of the definition that meets it first
     if (i < portCount || i === 0) return undefined;
@@ -130,16 +153,31 @@ export function spliceDevices(previousDeck: Deck, previous: Design, deck: Deck, 
   };
   const circuits: Circuit[] = [];
   const renumbering: Array<MosfetRenumbering | undefined> = [];
+  const widened: DeviceSplice['widened'] = [];
+  const named = inserted && namedNets(previous, options);
   for (let i = 0; i < previous.circuits.length; i++) {
-    const r = spliceCircuit(previous.circuits[i]!, edit, limit(i));
+    let c = previous.circuits[i]!;
+    let wide: DeviceSplice['widened'][number];
+    const prefixes = inserted ? contextPrefixes(c, scope) : [];
+    if (prefixes.length) {
+      if (prefixes.length * lines.length > limit(i)) return undefined;
+      wide = widenCircuit(c, prefixes, before.slots, after.slots, portCount, inserted!, named!, options);
+      if (!wide) return undefined;
+      // the elements keep their places: so do their origin indexes
+      setOriginIndex(wide.circuit.mosfets, originIndex(c.mosfets));
+      setOriginIndex(wide.circuit.instances, originIndex(c.instances));
+      c = wide.circuit;
+    }
+    const r = spliceCircuit(c, edit, limit(i));
     if (!r) return undefined;
     circuits.push(r.circuit);
     renumbering.push(r.renumbering);
+    widened.push(wide);
   }
   if (renumbering.every((r) => !r)) return undefined;
   const design: Design = { ...previous, circuits, directives: shiftRanges(previous.directives, shift) };
   const removedLines = removed.length ? { file, from: startLineOf(removed[0]!.range), to: removed[removed.length - 1]!.range.end.line } : undefined;
-  return { design, renumbering, shift, removedLines };
+  return { design, renumbering, shift, removedLines, widened };
 }
 
 /** Findings moved with their lines (a finding is kept only where its line still stands). */
