@@ -16,6 +16,7 @@ import { overlay } from './support/edits';
 import { checkRandomEdits, same } from './support/sameAnalysis';
 import { addDevice, addDeviceOnNewNet, deleteDevice } from './support/deviceEdits';
 import { hierarchicalNetlist } from '../scripts/netlists';
+import { quickFixes } from '../server/src/service/fixes';
 
 const SAMPLES = path.join(__dirname, '..', 'samples');
 
@@ -121,5 +122,74 @@ describe('transistor lines added on new nets reuse the previous analysis and equ
     same(file, fast!, analyse(memoryHost({ [file]: edited }), file));
     expect(taken).toBeGreaterThan(2);
     expect(total).toBeGreaterThan(30);
+  }, 120_000);
+});
+
+describe('a transistor line added above the model cards', () => {
+  it('moves the cards with their lines (and the note on a card Tidemark does not evaluate), equal to a fresh analysis', () => {
+    const file = '/cards-below.sp';
+    const text = [
+      '* model cards at the bottom, as many decks have them',
+      'vdd vdd 0 1.2',
+      'vclk clk 0 pulse(0 1.2 0 0.1n 0.1n 4.9n 10n)',
+      'Mpre dyn clk vdd vdd bp w=0.4u l=0.1u',
+      'Mev dyn a foot 0 bn w=0.4u l=0.1u',
+      'Mft foot clk 0 0 bn w=0.4u l=0.1u',
+      'Minvp out dyn vdd vdd bp w=0.4u l=0.1u',
+      'Minvn out dyn 0 0 bn w=0.2u l=0.1u',
+      'Mhv out2 out 0 0 bhv w=0.2u l=0.1u',
+      '.model bn nmos level=1 vto=0.4 kp=200u',
+      '.model bp pmos level=1 vto=-0.4 kp=80u',
+      '.model bhv nmos level=73',
+      '.end',
+    ].join('\n');
+    const before = analyse(memoryHost({ [file]: text }), file);
+    expect(before.diagnostics.some((d) => d.rule === 'unknown-model')).toBe(true);
+    for (const line of ['Mx dyn b foot 0 bn w=0.4u l=0.1u', 'Mx dyn b nfoot 0 bn w=0.4u l=0.1u', 'Mx2 out3 out 0 0 bhv w=0.2u l=0.1u']) {
+      const edited = text.replace('Mft foot', `${line}\nMft foot`);
+      const fast = reanalyse(before, readDeck(memoryHost({ [file]: edited }), file));
+      expect(fast, `${line}: spliced in with the cards below moved`).toBeDefined();
+      same(file, fast!, analyse(memoryHost({ [file]: edited }), file));
+      const card = fast!.design.modelCards.get('bn')![0]!;
+      expect(card.range.start.line).toBe(10);
+      expect(fast!.circuits[0]!.circuit.mosfets.every((m) => !m.card || fast!.design.modelCards.get(m.card.name)!.includes(m.card))).toBe(true);
+      // a second line from the quick answer: the moved cards move again
+      const again = edited.replace('Minvp out', 'My out b vdd vdd bp w=0.4u l=0.1u\nMinvp out');
+      const fast2 = reanalyse(fast!, readDeck(memoryHost({ [file]: again }), file));
+      expect(fast2).toBeDefined();
+      same(file, fast2!, analyse(memoryHost({ [file]: again }), file));
+    }
+  });
+});
+
+describe('the quick fixes that put devices in', () => {
+  /** The text with one fix's edits applied (insertions at line starts, as the fixes make them). */
+  const applied = (text: string, edits: ReturnType<typeof quickFixes>[number]['edits']): string => {
+    const lines = text.split('\n');
+    for (const e of [...edits].sort((a, b) => b.range.start.line - a.range.start.line)) lines.splice(e.range.start.line, 0, ...e.newText.replace(/\n$/, '').split('\n'));
+    return lines.join('\n');
+  };
+  it('keeper, holder, feedback and precharge fixes on every sample and electrical fixture are answered from the previous analysis, equal to a fresh one', () => {
+    const files = [
+      ...fs.readdirSync(SAMPLES).filter((f) => f.endsWith('.sp')).map((f) => path.join(SAMPLES, f)),
+      ...fs.readdirSync(path.join(__dirname, 'fixtures', 'electrical')).filter((f) => f.endsWith('.sp')).map((f) => path.join(__dirname, 'fixtures', 'electrical', f)),
+    ];
+    let fixes = 0;
+    for (const file of files) {
+      const text = fs.readFileSync(file, 'utf8');
+      const before = analyse(overlay(file, text), file);
+      for (const d of before.diagnostics) {
+        for (const f of quickFixes(before, d)) {
+          if (!/^(Insert|Precharge)/.test(f.title)) continue;
+          expect(f.edits.every((e) => e.range.start.character === 0 && e.range.end.line === e.range.start.line && e.newText.endsWith('\n'))).toBe(true);
+          const edited = applied(text, f.edits);
+          const fast = reanalyse(before, readDeck(overlay(file, edited), file));
+          expect(fast, `${path.basename(file)}: ${f.title}`).toBeDefined();
+          same(file, fast!, analyse(overlay(file, edited), file));
+          fixes++;
+        }
+      }
+    }
+    expect(fixes).toBeGreaterThan(10);
   }, 120_000);
 });

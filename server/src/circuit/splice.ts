@@ -7,12 +7,13 @@
 // MOSFET list follows the body order of each instance), which renumbers the MOSFETs after them;
 // every line after the edit moves by the same count, and so does every origin on one. Anything
 // else (another element, a parameter expression, a directive among the edited lines, a guessed
-// geometry scale, a card after the edit) answers `undefined`, and the caller elaborates afresh.
+// geometry scale) answers `undefined`, and the caller elaborates afresh.
 
 import { rangeOf, Span, startLineOf, type Range } from '../core/source';
 import type { Diagnostic } from '../core/diagnostics';
 import { splicedList, type NetInsertion } from '../core/renumber';
 import type { Circuit, Design, Instance, Mosfet, Net, Origin, Polarity } from './circuit';
+import type { ModelCard } from './models';
 import type { Deck } from './deck';
 import { elementNodeWords, guessMicronScale, type NetSlots } from './elaborate';
 import { selectModel } from './models';
@@ -70,8 +71,16 @@ export function spliceDevices(previousDeck: Deck, previous: Design, deck: Deck, 
   const { file, removed, added, shift } = diff;
   // messages that quote line numbers, and guesses that read every written length
   if (previous.geometryScale.from === 'assumed' || (previous.geometryScale.from === 'default' && guessMicronScale(deck))) return undefined;
-  // model cards after the edit would move (their ranges are kept with every device)
-  for (const cards of previous.modelCards.values()) for (const card of cards) if (card.file === file && startLineOf(card.range) >= shift.fromLine) return undefined;
+  // model cards after the edit move with their lines: each a moved copy, on every device that has it
+  const movedCards = new Map<ModelCard, ModelCard>();
+  const moveCard = (card: ModelCard): ModelCard => {
+    if (card.file !== file || startLineOf(card.range) < shift.fromLine) return card;
+    let m = movedCards.get(card);
+    if (!m) movedCards.set(card, (m = { ...card, range: shiftedRange(card.range, shift.lines) }));
+    return m;
+  };
+  const modelCards = new Map<string, ModelCard[]>();
+  for (const [name, cards] of previous.modelCards) modelCards.set(name, cards.map(moveCard));
   const middle = removed.length ? removed : added;
   const scopeOf = scopesOfStatements(removed.length ? previousDeck : deck);
   if (!scopeOf) return undefined;
@@ -144,11 +153,12 @@ export function spliceDevices(previousDeck: Deck, previous: Design, deck: Deck, 
     scope,
     portCount,
     slots: after.slots,
-    lines: lines.map((l, k) => ({ ...l, slots: nodeSlots[k]!, origin: { file, range: l.statement.range, subckt: scope, local: l.local } })),
+    lines: lines.map((l, k) => ({ ...l, values: { ...l.values, card: moveCard(l.values.card!) }, slots: nodeSlots[k]!, origin: { file, range: l.statement.range, subckt: scope, local: l.local } })),
     deleting: removed.length > 0,
     bodyIndex,
     firstNewBodyIndex: removed.length ? -1 : bodyIndex.get(lines[0]!.local)!,
     moveOrigin,
+    movedCards,
     netOrigins,
   };
   const circuits: Circuit[] = [];
@@ -175,7 +185,7 @@ export function spliceDevices(previousDeck: Deck, previous: Design, deck: Deck, 
     widened.push(wide);
   }
   if (renumbering.every((r) => !r)) return undefined;
-  const design: Design = { ...previous, circuits, directives: shiftRanges(previous.directives, shift) };
+  const design: Design = { ...previous, circuits, directives: shiftRanges(previous.directives, shift), ...(movedCards.size ? { modelCards } : {}) };
   const removedLines = removed.length ? { file, from: startLineOf(removed[0]!.range), to: removed[removed.length - 1]!.range.end.line } : undefined;
   return { design, renumbering, shift, removedLines, widened };
 }
@@ -333,6 +343,8 @@ interface SpliceEdit {
   bodyIndex: ReadonlyMap<string, number>;
   firstNewBodyIndex: number;
   moveOrigin: (o: Origin) => Origin;
+  /** Cards after the edit, old to moved. */
+  movedCards: ReadonlyMap<ModelCard, ModelCard>;
   netOrigins: ReadonlyMap<string, Origin>;
 }
 
@@ -453,6 +465,19 @@ function spliceCircuit(c: Circuit, e: SpliceEdit, limit: number): { circuit: Cir
     }
     setOriginIndex(mosfets, next);
     renumbering = { oldToNew, added: addedAt, deleted };
+  }
+
+  // the devices on a moved card take the moved copy (their positions, and so the origin index, stay)
+  if (e.movedCards.size) {
+    const index = originIndex(mosfets);
+    let out: Mosfet[] | undefined;
+    for (let j = 0; j < mosfets.length; j++) {
+      const card = mosfets[j]!.card;
+      const moved = card && e.movedCards.get(card);
+      if (moved) (out ??= mosfets === c.mosfets ? mosfets.slice() : mosfets)[j] = { ...mosfets[j]!, card: moved };
+    }
+    if (out && out !== mosfets) setOriginIndex(out, index);
+    if (out) mosfets = out;
   }
 
   // each instance's span of devices below it, and every origin after the edit moved

@@ -175,7 +175,7 @@ function holderFix(result: AnalysisResult, d: Diagnostic, file: SyntaxFile): Qui
         : `Insert a bus holder on ${local}: weak P W=${dim(h.pullUp.wM)} L=${dim(h.pullUp.lM)}, N W=${dim(h.pullDown.wM)} L=${dim(h.pullDown.lM)}`,
       fixes: KEEPER_FIX_RULES,
       preferred: true,
-      edits: [{ file: file.file, range: at(insertLine), newText: lines.join('\n') + '\n' }],
+      edits: [{ file: file.file, range: at(afterFirstUses(c, file, id, lines, insertLine)), newText: lines.join('\n') + '\n' }],
     };
   }
   return undefined;
@@ -217,7 +217,7 @@ function prechargeFix(result: AnalysisResult, d: Diagnostic, file: SyntaxFile): 
     return {
       title: `Precharge ${names.join(', ')} with ${gateWord.text} to stop charge sharing on ${local}`,
       fixes: ['charge-sharing', 'combined-droop'],
-      edits: [{ file: file.file, range: at(insertLine), newText: lines.join('\n') + '\n' }],
+      edits: [{ file: file.file, range: at(afterFirstUses(c, file, id, lines, insertLine)), newText: lines.join('\n') + '\n' }],
     };
   }
   return undefined;
@@ -248,10 +248,30 @@ function keeperFix(result: AnalysisResult, d: Diagnostic, file: SyntaxFile): Qui
       title: `Insert a keeper on ${local}: W=${dim(s.wM)} L=${dim(s.lM)}${s.inverter.existingOutput ? '' : ' and its inverter'}`,
       fixes: KEEPER_FIX_RULES,
       preferred: true,
-      edits: [{ file: file.file, range: at(insertLine), newText: lines.join('\n') + '\n' }],
+      edits: [{ file: file.file, range: at(afterFirstUses(c, file, id, lines, insertLine)), newText: lines.join('\n') + '\n' }],
     };
   }
   return undefined;
+}
+
+/**
+ * Where new device lines go: at `insertLine` (after the node's first use), or later in the
+ * scope when a net the lines name is first used further down, so every net the scope had keeps
+ * its place in the order of first use (and the editor's next analysis can start from the last
+ * one, see circuit/newNets: names new to the scope may go anywhere).
+ */
+function afterFirstUses(c: Circuit, file: SyntaxFile, node: number, lines: readonly string[], insertLine: number): number {
+  const scope = c.nets[node]!.origin.subckt;
+  const named = new Set<string>();
+  for (const l of lines) if (/^m/i.test(l)) for (const w of l.split(/\s+/).slice(1, 5)) named.add(w.toLowerCase());
+  let line = insertLine;
+  for (const n of c.nets) {
+    const o = n.origin;
+    if (n.global || o.subckt !== scope || o.file !== file.file || !named.has(o.local)) continue;
+    const stmt = statementAt(file, o.range.start.line);
+    line = Math.max(line, (stmt ? stmt.range.end.line : o.range.start.line) + 1);
+  }
+  return line;
 }
 
 /** The name, as written in the node's own scope, of the output of the inverter the node drives. */
