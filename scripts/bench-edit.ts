@@ -39,6 +39,8 @@ async function main(): Promise<void> {
     ['a device added at the top level while the idle-time analysis runs', (l) => l.startsWith('Xb7 '), (l) => `${l}\nMx y7 clk vdd vdd bp w=0.2u l=0.1u`, undefined, 2300],
     ['a device added in the block cell (105 copies)', (l) => l.startsWith('Xs3 '), (l) => `${l}\nMx w3 clk vdd vdd bp w=0.2u l=0.1u`, 'the device in the block cell deleted (105 copies)'],
     ['a device added on a new node in the block cell (105 copies)', (l) => l.startsWith('Xs3 '), (l) => `${l}\nMx w3 clk w3mid vdd bp w=0.2u l=0.1u`],
+    // a reviewed finding: an accept directive put in (the quick fix), every later line moved
+    ['an accept directive put in (a finding marked reviewed)', (l) => l.startsWith('Xb7 '), (l) => `* tidemark: accept y7 floating-node reason="reviewed"\n${l}`, 'the accept directive taken out'],
     // values on cards: a model card put in place of the old one, a .param by elaborating afresh;
     // the phases and classification kept
     ['a parameter every latch pass gate reads (.param lpass, 8,400 devices)', (l) => l.startsWith('.param lpass='), (l) => l.replace('0.05u', '0.06u')],

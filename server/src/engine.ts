@@ -18,6 +18,7 @@ import { buildContextSteps, renumberedContext, rewiredContext, widenedContext, t
 import { estimateNodeSteps, nodesAround, nodesReading, reestimate, renameEstimates, renumberEstimates, updateEstimates, widenEstimates, type NodeEstimate } from './analysis/electrical/estimate';
 import { patchSizes, type SizePatch } from './circuit/patch';
 import { reelaborateValues } from './circuit/valueEdit';
+import { acceptEdit } from './circuit/acceptEdit';
 import { renameNets, type NetRename } from './circuit/rename';
 import { rewireNets, type Rewiring } from './circuit/rewire';
 import { shiftDiagnostics, spliceDevices, type DeviceSplice } from './circuit/splice';
@@ -134,6 +135,9 @@ export function reanalyse(previous: AnalysisResult, deck: Deck, options: EngineO
   if (previous.circuits.length !== previous.design.circuits.length || previous.circuits.some((a) => !a.electrical || !a.estimates)) return undefined;
   // a receiver budget reads the first storage node's inverter sizes
   if (previous.design.directives.budget?.receiver || options.budget?.receiver) return undefined;
+  // accept directives alone: the same results, marked again
+  const accepted = acceptEdit(previous.deck, previous.design, deck, previous.frontEnd);
+  if (accepted) return afterSplice(previous, deck, { design: accepted.design, renumbering: previous.circuits.map(() => undefined), shift: accepted.shift, removedLines: undefined, widened: [] }, options, accepted.frontEnd);
   const renamed = renameNets(previous.deck, previous.design, deck, options);
   if (renamed) return afterRename(previous, deck, renamed, options);
   const patch = patchSizes(previous.deck, previous.design, deck);
@@ -273,9 +277,11 @@ function widenAnalysis(a: CircuitAnalysis, circuit: Circuit, ins: NetInsertion):
  * previous results are renumbered, then patched as after a reconnection: the network around
  * the added and deleted devices, the classification around the groups that changed, the
  * estimates of the nodes near anything that changed, the findings of those nodes. Undefined
- * when a stage cannot be patched (the caller analyses afresh).
+ * when a stage cannot be patched (the caller analyses afresh). Also the answer to an edit of
+ * accept directives alone (circuit/acceptEdit.ts): no device comes or goes, and `frontEnd` is
+ * the new text's front-end findings.
  */
-function afterSplice(previous: AnalysisResult, deck: Deck, sp: DeviceSplice, options: EngineOptions): AnalysisResult | undefined {
+function afterSplice(previous: AnalysisResult, deck: Deck, sp: DeviceSplice, options: EngineOptions, frontEnd?: Diagnostic[]): AnalysisResult | undefined {
   const gone = sp.removedLines;
   const onRemoved = (d: Diagnostic) => gone !== undefined && d.file === gone.file && d.range.start.line >= gone.from && d.range.start.line <= gone.to;
   // findings that count devices, quote line numbers or stand on a deleted line are not moved
@@ -312,7 +318,7 @@ function afterSplice(previous: AnalysisResult, deck: Deck, sp: DeviceSplice, opt
     const unsupported = devices.some((m) => m.card?.family === 'unsupported');
     circuits.push({ circuit, plan: a.plan, ...patched, findings: { phases: move(a.findings.phases), ...patched.findings, models: unsupported ? modelNotes(circuit) : move(a.findings.models) } });
   }
-  return finish(deck, sp.design, circuits, move(previous.frontEnd), options);
+  return finish(deck, sp.design, circuits, frontEnd ?? move(previous.frontEnd), options);
 }
 
 /**

@@ -72,15 +72,7 @@ export function spliceDevices(previousDeck: Deck, previous: Design, deck: Deck, 
   // messages that quote line numbers, and guesses that read every written length
   if (previous.geometryScale.from === 'assumed' || (previous.geometryScale.from === 'default' && guessMicronScale(deck))) return undefined;
   // model cards after the edit move with their lines: each a moved copy, on every device that has it
-  const movedCards = new Map<ModelCard, ModelCard>();
-  const moveCard = (card: ModelCard): ModelCard => {
-    if (card.file !== file || startLineOf(card.range) < shift.fromLine) return card;
-    let m = movedCards.get(card);
-    if (!m) movedCards.set(card, (m = { ...card, range: shiftedRange(card.range, shift.lines) }));
-    return m;
-  };
-  const modelCards = new Map<string, ModelCard[]>();
-  for (const [name, cards] of previous.modelCards) modelCards.set(name, cards.map(moveCard));
+  const { movedCards, moveCard, modelCards } = cardMover(previous, shift);
   const middle = removed.length ? removed : added;
   const scopeOf = scopesOfStatements(removed.length ? previousDeck : deck);
   if (!scopeOf) return undefined;
@@ -142,13 +134,7 @@ export function spliceDevices(previousDeck: Deck, previous: Design, deck: Deck, 
   const nodeSlots = lines.map((l) => (removed.length ? before : after).refs.get(l.statement));
   if (nodeSlots.some((r) => !r || r.length !== 4)) return undefined;
 
-  const origins = new Map<Origin, Origin>();
-  const moveOrigin = (o: Origin): Origin => {
-    if (o.file !== shift.file || startLineOf(o.range) < shift.fromLine) return o;
-    let m = origins.get(o);
-    if (!m) origins.set(o, (m = { ...o, range: shiftedRange(o.range, shift.lines) }));
-    return m;
-  };
+  const moveOrigin = originMover(shift);
   const edit: SpliceEdit = {
     scope,
     portCount,
@@ -188,6 +174,44 @@ export function spliceDevices(previousDeck: Deck, previous: Design, deck: Deck, 
   const design: Design = { ...previous, circuits, directives: shiftRanges(previous.directives, shift), ...(movedCards.size ? { modelCards } : {}) };
   const removedLines = removed.length ? { file, from: startLineOf(removed[0]!.range), to: removed[removed.length - 1]!.range.end.line } : undefined;
   return { design, renumbering, shift, removedLines, widened };
+}
+
+/** Origins after the shift moved (one moved copy per origin, shared as the origins are). */
+function originMover(shift: LineShift): (o: Origin) => Origin {
+  const origins = new Map<Origin, Origin>();
+  return (o) => {
+    if (o.file !== shift.file || startLineOf(o.range) < shift.fromLine) return o;
+    let m = origins.get(o);
+    if (!m) origins.set(o, (m = { ...o, range: shiftedRange(o.range, shift.lines) }));
+    return m;
+  };
+}
+
+/** The design's model cards with those after the shift moved, and the old-to-moved map. */
+function cardMover(design: Design, shift: LineShift): { movedCards: Map<ModelCard, ModelCard>; moveCard: (c: ModelCard) => ModelCard; modelCards: Map<string, ModelCard[]> } {
+  const movedCards = new Map<ModelCard, ModelCard>();
+  const moveCard = (card: ModelCard): ModelCard => {
+    if (card.file !== shift.file || startLineOf(card.range) < shift.fromLine) return card;
+    let m = movedCards.get(card);
+    if (!m) movedCards.set(card, (m = { ...card, range: shiftedRange(card.range, shift.lines) }));
+    return m;
+  };
+  const modelCards = new Map<string, ModelCard[]>();
+  for (const [name, cards] of design.modelCards) modelCards.set(name, cards.map(moveCard));
+  return { movedCards, moveCard, modelCards };
+}
+
+/**
+ * The design with every line of `shift.file` from `shift.fromLine` on moved by `shift.lines`
+ * (an edit that put in or took out lines holding no element: a directive): every origin, card
+ * and directive range after it, the same devices and nets.
+ */
+export function shiftedDesign(previous: Design, shift: LineShift): Design {
+  const { movedCards, modelCards } = cardMover(previous, shift);
+  // an edit in no definition: every circuit only has its origins moved
+  const edit: SpliceEdit = { scope: '\0', portCount: 0, slots: undefined as unknown as NetSlots, lines: [], deleting: false, bodyIndex: new Map(), firstNewBodyIndex: -1, moveOrigin: originMover(shift), movedCards, netOrigins: new Map() };
+  const circuits = previous.circuits.map((c) => spliceCircuit(c, edit, Infinity)!.circuit);
+  return { ...previous, circuits, directives: shiftRanges(previous.directives, shift), ...(movedCards.size ? { modelCards } : {}) };
 }
 
 /** Findings moved with their lines (a finding is kept only where its line still stands). */

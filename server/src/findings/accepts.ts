@@ -17,15 +17,15 @@ export function applyAccepts(diagnostics: Diagnostic[], circuits: readonly Circu
     }
     return undefined;
   };
-  for (const d of diagnostics) {
-    if (!d.node) continue;
+  // marked on copies: the findings are a stage's results, kept and shared by the analyses after an edit
+  const out = diagnostics.map((d) => {
+    if (!d.node) return d;
     const o = origin(d.node);
     const a = accepts.find((x) => x.rule === d.rule && (x.subckt ? o?.subckt === x.subckt && o.local === x.node : x.node === d.node));
-    if (!a) continue;
+    if (!a) return d;
     used.add(a);
-    d.accepted = { reason: a.reason, file: a.file, range: a.range };
-  }
-  const out = [...diagnostics];
+    return { ...d, accepted: { reason: a.reason, file: a.file, range: a.range } };
+  });
   for (const a of accepts) {
     if (used.has(a)) continue;
     out.push(diag('directive', a.file, a.range, `accept ${a.node} ${a.rule} matches no finding${a.subckt ? ` in subcircuit ${a.subckt}` : ''} (fixed, renamed, or a misspelt node or rule?)`, 'info'));

@@ -1,0 +1,97 @@
+// The elaboration stage's answer to an edit of `accept` directives alone (one put in, as the
+// quick fix does, taken out or changed): the accepts decide only which findings are marked
+// accepted, so the design stands with its other lines moved (splice `shiftedDesign`) and its
+// accepts read again, as the elaborator reads them. Anything else in the edit (a statement, any
+// other directive, a pin line, a parse finding that is not moved as it was) answers `undefined`.
+
+import type { Diagnostic } from '../core/diagnostics';
+import { startLineOf } from '../core/source';
+import type { DirectiveLine } from '../syntax/tree';
+import { sameRange, sameStatement } from '../syntax/compare';
+import type { Design } from './circuit';
+import type { Deck, SubcktDefinition } from './deck';
+import { emptyDirectives, readDirectives } from './directives';
+import { shiftDiagnostics, shiftedDesign, shiftRanges, type LineShift } from './splice';
+
+export interface AcceptEdit {
+  design: Design;
+  shift: LineShift;
+  /** The new text's front-end findings: the old accept lines' taken out, the new ones' put in. */
+  frontEnd: Diagnostic[];
+}
+
+export function acceptEdit(previousDeck: Deck, previous: Design, deck: Deck, previousFrontEnd: readonly Diagnostic[]): AcceptEdit | undefined {
+  const a = previousDeck.files;
+  const b = deck.files;
+  if (a.length !== b.length) return undefined;
+  let at = -1;
+  for (let i = 0; i < a.length; i++) {
+    if (a[i] === b[i]) continue;
+    if (a[i]!.file !== b[i]!.file || at >= 0) return undefined;
+    at = i;
+  }
+  if (at < 0) return undefined;
+  const x = a[at]!;
+  const y = b[at]!;
+  if (x.title !== y.title || x.statements.length !== y.statements.length || x.pinInfos.length !== y.pinInfos.length) return undefined;
+  const isAccept = (d: DirectiveLine) => d.verb === 'accept';
+  const xd = x.directives.filter((d) => !isAccept(d));
+  const yd = y.directives.filter((d) => !isAccept(d));
+  if (xd.length === yd.length && xd.length === x.directives.length && x.directives.length === y.directives.length) {
+    // no accept on either side: not this kind of edit
+    return undefined;
+  }
+  if (xd.length !== yd.length) return undefined;
+  const d = y.lineCount - x.lineCount;
+  // every other line moves by 0 before the edit and by d after it: pairs of (old line, moved by)
+  const pairs: Array<[number, number]> = [];
+  for (let k = 0; k < x.statements.length; k++) {
+    const u = x.statements[k]!;
+    const v = y.statements[k]!;
+    const by = startLineOf(v.range) - startLineOf(u.range);
+    if (u !== v && !sameStatement(u, v, by)) return undefined;
+    pairs.push([startLineOf(u.range), by]);
+  }
+  for (let k = 0; k < xd.length; k++) {
+    const u = xd[k]!;
+    const v = yd[k]!;
+    const by = v.range.start.line - u.range.start.line;
+    if (u.verb !== v.verb || u.statementIndex !== v.statementIndex || u.args.length !== v.args.length || !sameRange(u.range, v.range, by)) return undefined;
+    for (let j = 0; j < u.args.length; j++) if (u.args[j]!.text !== v.args[j]!.text || !sameRange(u.args[j]!.range, v.args[j]!.range, by)) return undefined;
+    pairs.push([u.range.start.line, by]);
+  }
+  for (let k = 0; k < x.pinInfos.length; k++) {
+    const u = x.pinInfos[k]!;
+    const v = y.pinInfos[k]!;
+    const by = v.range.start.line - u.range.start.line;
+    if (u.statementIndex !== v.statementIndex || JSON.stringify(shiftRanges(u, { file: '', fromLine: 0, lines: by })) !== JSON.stringify(v)) return undefined;
+    pairs.push([u.range.start.line, by]);
+  }
+  let fromLine = Infinity;
+  for (const [line, by] of pairs) if (by !== 0 && line < fromLine) fromLine = line;
+  for (const [line, by] of pairs) if (by !== (line >= fromLine ? d : 0)) return undefined;
+  if (fromLine === Infinity && d !== 0) fromLine = x.lineCount;
+  const shift: LineShift = { file: x.file, fromLine, lines: d };
+  if (JSON.stringify(shiftDiagnostics(x.diagnostics, shift)) !== JSON.stringify(y.diagnostics)) return undefined;
+  if (JSON.stringify(shiftDiagnostics(previousDeck.diagnostics, shift)) !== JSON.stringify(deck.diagnostics)) return undefined;
+
+  // the accepts read again, in the elaborator's order (the top level's, then each definition's)
+  const into = emptyDirectives();
+  const found: Diagnostic[] = [];
+  readDirectives(deck.directives.filter((l) => isAccept(l.item)), into, found);
+  const collect = (defs: Map<string, SubcktDefinition>) => {
+    for (const def of defs.values()) {
+      const before = into.accepts.length;
+      readDirectives(def.directives.filter((l) => isAccept(l.item)), into, found);
+      for (let i = before; i < into.accepts.length; i++) into.accepts[i]!.subckt = def.name;
+      collect(def.local);
+    }
+  };
+  collect(deck.subckts);
+  const shifted = shiftedDesign(previous, shift);
+  const design: Design = { ...shifted, directives: { ...shifted.directives, accepts: into.accepts } };
+  // the old accept lines' findings (a malformed accept) give way to the new lines'
+  const oldAcceptLines = new Set(x.directives.filter(isAccept).map((l) => l.range.start.line));
+  const kept = previousFrontEnd.filter((f) => !(f.rule === 'directive' && f.file === x.file && oldAcceptLines.has(f.range.start.line)));
+  return { design, shift, frontEnd: [...shiftDiagnostics(kept, shift), ...found] };
+}
