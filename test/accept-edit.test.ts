@@ -8,12 +8,11 @@ import * as fs from 'node:fs';
 import * as path from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { analyse, readDeck, reanalyse, type AnalysisResult } from '../server/src/engine';
-import { quickFixes } from '../server/src/service/fixes';
 import { overlay } from './support/edits';
+import { fixesOnSamples, withFix } from './support/quickFixes';
 import { same } from './support/sameAnalysis';
 
 const SAMPLES = path.join(__dirname, '..', 'samples');
-const ELECTRICAL = path.join(__dirname, 'fixtures', 'electrical');
 
 function quick(file: string, previous: AnalysisResult, text: string): AnalysisResult {
   const fast = reanalyse(previous, readDeck(overlay(file, text), file));
@@ -23,38 +22,26 @@ function quick(file: string, previous: AnalysisResult, text: string): AnalysisRe
 }
 
 describe('accept directives reuse the previous analysis and equal a fresh one', () => {
-  const files = [
-    ...fs.readdirSync(SAMPLES).filter((f) => f.endsWith('.sp')).map((f) => path.join(SAMPLES, f)),
-    ...fs.readdirSync(ELECTRICAL).filter((f) => f.endsWith('.sp')).map((f) => path.join(ELECTRICAL, f)),
-  ];
   it('every accept fix, then the accept made stale, malformed, changed in place and taken out again', () => {
     let fixes = 0;
-    for (const file of files) {
-      const text = fs.readFileSync(file, 'utf8');
-      const before = analyse(overlay(file, text), file);
-      for (const d of before.diagnostics) {
-        for (const f of quickFixes(before, d)) {
-          if (!f.title.startsWith('Accept')) continue;
-          const e = f.edits[0]!;
-          const lines = text.split('\n');
-          lines.splice(e.range.start.line, 0, e.newText.replace(/\n$/, ''));
-          const withAccept = lines.join('\n');
-          const fast = quick(file, before, withAccept);
-          expect(fast.diagnostics.some((x) => x.accepted), `${path.basename(file)}: ${f.title}`).toBe(true);
-          const at = e.range.start.line;
-          const edit = (line: string) => withAccept.split('\n').map((l, k) => (k === at ? line : l)).join('\n');
-          // from the quick answer: a misspelt rule (a stale accept), no reason (malformed), another reason, the line taken out
-          const accept = lines[at]!;
-          quick(file, fast, edit(accept.replace(` ${d.rule} `, ' no-such-rule ')));
-          const malformed = quick(file, fast, edit(accept.replace(/ reason=.*$/, '')));
-          expect(malformed.diagnostics.some((x) => x.rule === 'directive' && x.range.start.line === at)).toBe(true);
-          // and from the malformed one back: its finding goes
-          quick(file, malformed, withAccept);
-          quick(file, fast, edit(accept.replace(/reason="[^"]*"/, 'reason="checked in the lab"')));
-          quick(file, fast, text);
-          fixes++;
-        }
-      }
+    for (const { file, text, before, finding: d, fix: f } of fixesOnSamples(/^Accept/)) {
+      const e = f.edits[0]!;
+      const withAccept = withFix(text, f);
+      const lines = withAccept.split('\n');
+      const fast = quick(file, before, withAccept);
+      expect(fast.diagnostics.some((x) => x.accepted), `${path.basename(file)}: ${f.title}`).toBe(true);
+      const at = e.range.start.line;
+      const edit = (line: string) => withAccept.split('\n').map((l, k) => (k === at ? line : l)).join('\n');
+      // from the quick answer: a misspelt rule (a stale accept), no reason (malformed), another reason, the line taken out
+      const accept = lines[at]!;
+      quick(file, fast, edit(accept.replace(` ${d.rule} `, ' no-such-rule ')));
+      const malformed = quick(file, fast, edit(accept.replace(/ reason=.*$/, '')));
+      expect(malformed.diagnostics.some((x) => x.rule === 'directive' && x.range.start.line === at)).toBe(true);
+      // and from the malformed one back: its finding goes
+      quick(file, malformed, withAccept);
+      quick(file, fast, edit(accept.replace(/reason="[^"]*"/, 'reason="checked in the lab"')));
+      quick(file, fast, text);
+      fixes++;
     }
     expect(fixes).toBeGreaterThan(20);
   }, 120_000);

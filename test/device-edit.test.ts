@@ -13,10 +13,10 @@ import { describe, expect, it } from 'vitest';
 import { analyse, readDeck, reanalyse } from '../server/src/engine';
 import { memoryHost, type FileHost } from '../server/src/core/host';
 import { overlay } from './support/edits';
+import { fixesOnSamples, withFix } from './support/quickFixes';
 import { checkRandomEdits, same } from './support/sameAnalysis';
 import { addDevice, addDeviceOnNewNet, deleteDevice } from './support/deviceEdits';
 import { hierarchicalNetlist } from '../scripts/netlists';
-import { quickFixes } from '../server/src/service/fixes';
 
 const SAMPLES = path.join(__dirname, '..', 'samples');
 
@@ -163,32 +163,15 @@ describe('a transistor line added above the model cards', () => {
 });
 
 describe('the quick fixes that put devices in', () => {
-  /** The text with one fix's edits applied (insertions at line starts, as the fixes make them). */
-  const applied = (text: string, edits: ReturnType<typeof quickFixes>[number]['edits']): string => {
-    const lines = text.split('\n');
-    for (const e of [...edits].sort((a, b) => b.range.start.line - a.range.start.line)) lines.splice(e.range.start.line, 0, ...e.newText.replace(/\n$/, '').split('\n'));
-    return lines.join('\n');
-  };
   it('keeper, holder, feedback and precharge fixes on every sample and electrical fixture are answered from the previous analysis, equal to a fresh one', () => {
-    const files = [
-      ...fs.readdirSync(SAMPLES).filter((f) => f.endsWith('.sp')).map((f) => path.join(SAMPLES, f)),
-      ...fs.readdirSync(path.join(__dirname, 'fixtures', 'electrical')).filter((f) => f.endsWith('.sp')).map((f) => path.join(__dirname, 'fixtures', 'electrical', f)),
-    ];
     let fixes = 0;
-    for (const file of files) {
-      const text = fs.readFileSync(file, 'utf8');
-      const before = analyse(overlay(file, text), file);
-      for (const d of before.diagnostics) {
-        for (const f of quickFixes(before, d)) {
-          if (!/^(Insert|Precharge)/.test(f.title)) continue;
-          expect(f.edits.every((e) => e.range.start.character === 0 && e.range.end.line === e.range.start.line && e.newText.endsWith('\n'))).toBe(true);
-          const edited = applied(text, f.edits);
-          const fast = reanalyse(before, readDeck(overlay(file, edited), file));
-          expect(fast, `${path.basename(file)}: ${f.title}`).toBeDefined();
-          same(file, fast!, analyse(overlay(file, edited), file));
-          fixes++;
-        }
-      }
+    for (const { file, text, before, fix } of fixesOnSamples(/^(Insert|Precharge)/)) {
+      expect(fix.edits.every((e) => e.range.start.character === 0 && e.range.end.line === e.range.start.line && e.newText.endsWith('\n'))).toBe(true);
+      const edited = withFix(text, fix);
+      const fast = reanalyse(before, readDeck(overlay(file, edited), file));
+      expect(fast, `${path.basename(file)}: ${fix.title}`).toBeDefined();
+      same(file, fast!, analyse(overlay(file, edited), file));
+      fixes++;
     }
     expect(fixes).toBeGreaterThan(10);
   }, 120_000);

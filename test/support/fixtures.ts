@@ -80,3 +80,9 @@ function round(v: unknown): unknown {
   if (v && typeof v === 'object') return Object.fromEntries(Object.entries(v).map(([k, x]) => [k, round(x)]));
   return v;
 }
+
+/** Every sample netlist and every electrical fixture (the netlists with estimates worth a fix). */
+export function samplesAndElectricalFixtures(): string[] {
+  const list = (dir: string) => fs.readdirSync(dir).filter((f) => f.endsWith('.sp')).map((f) => path.join(dir, f));
+  return [...list(path.join(__dirname, '..', '..', 'samples')), ...list(path.join(__dirname, '..', 'fixtures', 'electrical'))];
+}

@@ -11,7 +11,7 @@ import { sameRange, sameStatement } from '../syntax/compare';
 import type { Design } from './circuit';
 import type { Deck, SubcktDefinition } from './deck';
 import { emptyDirectives, readDirectives } from './directives';
-import { shiftDiagnostics, shiftedDesign, shiftRanges, type LineShift } from './splice';
+import { oneChangedFile, shiftDiagnostics, shiftedDesign, shiftRanges, type LineShift } from './splice';
 
 export interface AcceptEdit {
   design: Design;
@@ -21,19 +21,10 @@ export interface AcceptEdit {
 }
 
 export function acceptEdit(previousDeck: Deck, previous: Design, deck: Deck, previousFrontEnd: readonly Diagnostic[]): AcceptEdit | undefined {
-  const a = previousDeck.files;
-  const b = deck.files;
-  if (a.length !== b.length) return undefined;
-  let at = -1;
-  for (let i = 0; i < a.length; i++) {
-    if (a[i] === b[i]) continue;
-    if (a[i]!.file !== b[i]!.file || at >= 0) return undefined;
-    at = i;
-  }
-  if (at < 0) return undefined;
-  const x = a[at]!;
-  const y = b[at]!;
-  if (x.title !== y.title || x.statements.length !== y.statements.length || x.pinInfos.length !== y.pinInfos.length) return undefined;
+  const changed = oneChangedFile(previousDeck.files, deck.files);
+  if (!changed) return undefined;
+  const [x, y] = changed;
+  if (x.statements.length !== y.statements.length || x.pinInfos.length !== y.pinInfos.length) return undefined;
   const isAccept = (d: DirectiveLine) => d.verb === 'accept';
   const xd = x.directives.filter((d) => !isAccept(d));
   const yd = y.directives.filter((d) => !isAccept(d));

@@ -176,6 +176,19 @@ export function spliceDevices(previousDeck: Deck, previous: Design, deck: Deck, 
   return { design, renumbering, shift, removedLines, widened };
 }
 
+/** The old and new parse of the one file an edit changed (the same list of files, the same title), else undefined. */
+export function oneChangedFile(a: readonly SyntaxFile[], b: readonly SyntaxFile[]): [SyntaxFile, SyntaxFile] | undefined {
+  if (a.length !== b.length) return undefined;
+  let at = -1;
+  for (let i = 0; i < a.length; i++) {
+    if (a[i] === b[i]) continue;
+    if (a[i]!.file !== b[i]!.file || at >= 0) return undefined;
+    at = i;
+  }
+  if (at < 0 || a[at]!.title !== b[at]!.title) return undefined;
+  return [a[at]!, b[at]!];
+}
+
 /** Origins after the shift moved (one moved copy per origin, shared as the origins are). */
 function originMover(shift: LineShift): (o: Origin) => Origin {
   const origins = new Map<Origin, Origin>();
@@ -266,17 +279,9 @@ function shiftedRange(r: Range, lines: number): Range {
  * the edit or moved with the lines after it.
  */
 function diffFiles(a: readonly SyntaxFile[], b: readonly SyntaxFile[]): { file: string; removed: Statement[]; added: Statement[]; shift: LineShift } | undefined {
-  if (a.length !== b.length) return undefined;
-  let at = -1;
-  for (let i = 0; i < a.length; i++) {
-    if (a[i] === b[i]) continue;
-    if (a[i]!.file !== b[i]!.file || at >= 0) return undefined;
-    at = i;
-  }
-  if (at < 0) return undefined;
-  const x = a[at]!;
-  const y = b[at]!;
-  if (x.title !== y.title) return undefined;
+  const changed = oneChangedFile(a, b);
+  if (!changed) return undefined;
+  const [x, y] = changed;
   const xs = x.statements;
   const ys = y.statements;
   const d = y.lineCount - x.lineCount;
