@@ -4,8 +4,9 @@
 // equal a fresh analysis of the new text, finding for finding and figure for figure, and the
 // patched switch network must equal a fresh build, and each stage's findings, revised from the
 // previous ones, those written afresh from the same results. Random reconnections over every sample and
-// a generated hierarchical datapath, one and two in a row: to nets the scope has, and to new
-// names (circuit/newNets: every stage's results under the new net numbers first).
+// a generated hierarchical datapath, one and two in a row: to nets the scope has, to new names
+// (circuit/newNets: every stage's results under the new net numbers first), and the only use
+// of a net moved away (the net goes: the patched results under the numbers without it).
 
 import * as fs from 'node:fs';
 import * as path from 'node:path';
@@ -15,7 +16,7 @@ import { analyse, readDeck, reanalyse } from '../server/src/engine';
 import { memoryHost, type FileHost } from '../server/src/core/host';
 import { overlay } from './support/edits';
 import { checkRandomEdits, same } from './support/sameAnalysis';
-import { reconnect, reconnectToNewNet } from './support/reconnect';
+import { reconnect, reconnectLastUse, reconnectToNewNet } from './support/reconnect';
 import { hierarchicalNetlist } from '../scripts/netlists';
 
 const SAMPLES = path.join(__dirname, '..', 'samples');
@@ -107,4 +108,39 @@ describe('reconnections to a new net name reuse the previous analysis and equal 
     expect(edit('vdd2'), 'a supply by the name rule').toBeUndefined();
     expect(edit('gnd2'), 'a ground by the name rule').toBeUndefined();
   });
+});
+
+describe('the only use of a net moved to another net reuses the previous analysis and equals a fresh one', () => {
+  const lastUse = (file: string, original: string, hostFor: (t: string) => FileHost, runs: number) =>
+    checkRandomEdits(file, original, hostFor, runs, 31, [fc.nat(5000), fc.nat(500)], (t, [pick, to]) => reconnectLastUse(t, pick!, to!));
+  let total = 0;
+  for (const name of fs.readdirSync(SAMPLES).filter((f) => f.endsWith('.sp'))) {
+    it(`${name}: a net's only use moved away`, () => {
+      const file = path.join(SAMPLES, name);
+      total += lastUse(file, fs.readFileSync(file, 'utf8'), (t) => overlay(file, t), 20);
+    });
+  }
+  it('the fixtures, and the 2k datapath: a net in a cell and at the top level left unused', () => {
+    let taken = 0;
+    for (const kind of ['classify', 'electrical']) {
+      const dir = path.join(__dirname, 'fixtures', kind);
+      for (const name of fs.readdirSync(dir).filter((f) => f.endsWith('.sp'))) {
+        const file = path.join(dir, name);
+        taken += lastUse(file, fs.readFileSync(file, 'utf8'), (t) => overlay(file, t), 6);
+      }
+    }
+    const file = '/datapath.sp';
+    const text = hierarchicalNetlist(2_000);
+    taken += lastUse(file, text, (t) => memoryHost({ [file]: t }), 6);
+    // a new net and back: the name typed, then the word put back (the new net goes again)
+    const before = analyse(memoryHost({ [file]: text }), file);
+    const typed = text.replace('Xb1 a1 ', 'Xb1 a1n ');
+    const first = reanalyse(before, readDeck(memoryHost({ [file]: typed }), file))!;
+    const back = reanalyse(first, readDeck(memoryHost({ [file]: text }), file));
+    expect(back, 'the new net taken out again').toBeDefined();
+    expect(back!.circuits[0]!.circuit.nets.length).toBe(before.circuits[0]!.circuit.nets.length);
+    same(file, back!, before);
+    expect(taken).toBeGreaterThan(10);
+    expect(total).toBeGreaterThan(10);
+  }, 120_000);
 });

@@ -25,7 +25,7 @@ import { shiftDiagnostics, spliceDevices, type DeviceSplice } from './circuit/sp
 import { sameRange } from './syntax/compare';
 import type { Range } from './core/source';
 import { runToEnd, type Steps } from './core/steps';
-import type { NetInsertion } from './core/renumber';
+import type { NetRenumbering } from './core/renumber';
 import { DEFAULT_BUDGET_FRACTION, receiverBudget } from './analysis/electrical/budget';
 import { carrySizingBasis, existingInverter, sameSizingBasis, sameSizingBasisRenumbered } from './analysis/electrical/keeper';
 import { FALLBACK_PROFILE_NAME, FALLBACK_SUPPLY_V } from './analysis/devices/catalogue';
@@ -248,18 +248,22 @@ function afterRewire(previous: AnalysisResult, deck: Deck, rewired: Rewiring, op
       seeds: changed.capacitors.flatMap((k) => [a.circuit, circuit].flatMap((c) => [c.capacitors[k]!.a, c.capacitors[k]!.b])),
     });
     if (!patched) return undefined;
-    circuits.push({ circuit, plan: a.plan, ...patched, findings: { phases: move(a.findings.phases), ...patched.findings, models: move(a.findings.models) } });
+    const done: CircuitAnalysis = { circuit, plan: a.plan, ...patched, findings: { phases: move(a.findings.phases), ...patched.findings, models: move(a.findings.models) } };
+    // nets left unused: the patched results under the numbers without them (nothing read them)
+    const narrow = rewired.narrowed[i];
+    circuits.push(narrow ? widenAnalysis(done, narrow.circuit, narrow.nets) : done);
   }
-  return finish(deck, rewired.design, circuits, previous.frontEnd, options);
+  const design = rewired.narrowed.some((x) => x) ? { ...rewired.design, circuits: circuits.map((x) => x.circuit) } : rewired.design;
+  return finish(deck, design, circuits, previous.frontEnd, options);
 }
 
 /**
  * A circuit's analysis with nets put in (`circuit`: the previous circuit with them, nothing on
  * them yet; circuit/newNets): every stage's results under the new net numbers, each new net an
  * undriven group of its own, as an analysis of that circuit finds them. The edit that wires
- * them is patched onto this.
+ * them is patched onto this. Also the other way: nets with nothing on them taken out.
  */
-function widenAnalysis(a: CircuitAnalysis, circuit: Circuit, ins: NetInsertion): CircuitAnalysis {
+function widenAnalysis(a: CircuitAnalysis, circuit: Circuit, ins: NetRenumbering): CircuitAnalysis {
   const plan = widenPlan(a.plan, ins);
   const network = widenNetwork(a.classification.network, circuit, ins);
   const classification = widenClassification(a.classification, network, plan, ins);

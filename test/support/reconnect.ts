@@ -64,3 +64,24 @@ export function reconnectToNewNet(text: string, pick: number, tag: number): stri
   lines[line] = lines[line]!.split(/(\s+)/).map((x, j) => (j === 2 * k ? name : x)).join('');
   return lines.join('\n');
 }
+
+/**
+ * The only use of a net in its scope (not a port) moved to another name the scope uses: the
+ * net is left unused and goes. The same as `reconnect` when no such word is found.
+ */
+export function reconnectLastUse(text: string, pick: number, to: number): string {
+  const lines = text.split('\n');
+  const words = nodeWords(lines);
+  const wordAt = ([j, m]: [number, number]) => lines[j]!.trim().split(/\s+/)[m]!.toLowerCase();
+  const single = words.filter(([line, k]) => {
+    const scope = new Set(scopeLines(lines, line));
+    const name = wordAt([line, k]);
+    const header = lines.slice(0, line).reverse().find((l) => /^\.(subckt|ends)\b/i.test(l));
+    if (header && /^\.subckt\b/i.test(header) && header.toLowerCase().trim().split(/\s+/).slice(2).includes(name)) return false;
+    return words.filter(([j, m]) => scope.has(j) && wordAt([j, m]) === name).length === 1 && name !== '0';
+  });
+  if (!single.length) return text;
+  const [line, k] = single[pick % single.length]!;
+  const target = reconnect(text, words.findIndex(([j, m]) => j === line && m === k), to);
+  return target;
+}

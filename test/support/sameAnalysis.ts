@@ -33,6 +33,10 @@ export function same(file: string, fast: AnalysisResult, full: AnalysisResult): 
     const counts = (c: AnalysisResult['circuits'][number]) => [c.classification.wideComponents, c.classification.uncheckedComponents];
     expect(counts(a)).toEqual(counts(full.circuits[i]!));
     expect(text(a.classification.phaseValues)).toBe(text(full.circuits[i]!.classification.phaseValues));
+    // the derived maps hold the same nodes, walked and counted (the report reads them by node)
+    const keys = (m: ReadonlyMap<number, unknown>) => [m.size, [...m.keys()].sort((x, y) => x - y)];
+    a.classification.perPhase.forEach((m, p) => expect(text(keys(m)), `phase ${p} results`).toBe(text(keys(full.circuits[i]!.classification.perPhase[p]!))));
+    expect(text(keys(a.estimates!))).toBe(text(keys(full.circuits[i]!.estimates!)));
     // each stage's revised findings against that stage's findings written afresh from the same results
     expect(text(a.findings.classification)).toBe(text(classificationFindings(a.circuit, a.classification, {})));
     expect(text(a.findings.electrical)).toBe(text(electricalFindings(a.electrical!, a.estimates!)));

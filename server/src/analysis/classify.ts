@@ -5,7 +5,7 @@
 // nets, traced back a few levels, so a net and its inverted or buffered copy are not treated as
 // independent, and feedback from the node itself (keepers, static latches) is recognised.
 
-import { movedNets, newToOldNets, renumbered, withNetCells, type NetInsertion } from '../core/renumber';
+import { movedNets, newToOldNets, renumbered, withNetCells, type NetRenumbering } from '../core/renumber';
 import type { PhasePlan, Phase } from '../phases/phases';
 import { floatWindow } from '../phases/phases';
 import { evaluateComponent, newScratch, propagateConstants, repropagateConstants, widenValues, X, type Scratch } from './constants';
@@ -424,11 +424,12 @@ export function renumberDevices(cl: Classification, oldToNew: Int32Array): Class
 }
 
 /**
- * The classification of `net` (the previous network with nets put in, nothing on them: see
- * widenNetwork) from the previous one: every result under the new net numbers, each new net
- * unknown in every phase, undriven and no storage node, for `reclassify` to start from.
+ * The classification of `net` (the previous network with nets put in, nothing on them, or with
+ * nets that have nothing on them taken out: see widenNetwork) from the previous one: every
+ * result under the new net numbers, each new net unknown in every phase, undriven and no
+ * storage node, for `reclassify` to start from.
  */
-export function widenClassification(cl: Classification, net: SwitchNetwork, plan: PhasePlan, ins: NetInsertion): Classification {
+export function widenClassification(cl: Classification, net: SwitchNetwork, plan: PhasePlan, ins: NetRenumbering): Classification {
   const map = ins.oldToNew;
   const newToOld = newToOldNets(ins);
   const result = (r: NodePhaseResult) => widenResult(r, map);
@@ -448,7 +449,11 @@ export function widenClassification(cl: Classification, net: SwitchNetwork, plan
   const memo = witnessMemos.get(cl);
   if (memo) {
     const next = new Map<string, WitnessMemo>();
-    for (const [key, w] of memo) next.set(key, { nets: movedNets(w.nets, ins), mosfets: w.mosfets, results: w.results.map((r) => r && result(r)) });
+    for (const [key, w] of memo) {
+      const nets = movedNets(w.nets, ins);
+      // a check that read a net taken out no longer exists in that shape
+      if (nets.length === w.nets.length) next.set(key, { nets, mosfets: w.mosfets, results: w.results.map((r) => r && result(r)) });
+    }
     witnessMemos.set(out, next);
   }
   return out;

@@ -3,7 +3,7 @@
 // inverted clocks (and nets tied to rails through logic) are constants too.
 
 import { NetRole, SwitchKind, type Component, type SwitchNetwork } from './switchNetwork';
-import { withNetCells, type NetInsertion } from '../core/renumber';
+import { withNetCells, type NetRenumbering } from '../core/renumber';
 
 export const X = 2;
 export type Ternary = 0 | 1 | 2;
@@ -177,7 +177,7 @@ function rebuiltKeepTheirValues(net: SwitchNetwork, previous: Uint8Array, rebuil
 }
 
 /** A phase's values with nets put in (core/renumber), each unknown, as a net with nothing on it comes out. */
-export function widenValues(values: Uint8Array, ins: NetInsertion): Uint8Array {
+export function widenValues(values: Uint8Array, ins: NetRenumbering): Uint8Array {
   const out = withNetCells(values, ins, X);
   if (unsettled.has(values)) unsettled.add(out);
   return out;

@@ -6,7 +6,7 @@
 import type { Circuit } from '../circuit/circuit';
 import type { Clock } from '../phases/clocks';
 import type { MosfetRenumbering } from '../circuit/splice';
-import { composeRenumberings, movedNets, renumbered, splicedList, withNetCells, withNetRows, type NetInsertion } from '../core/renumber';
+import { composeRenumberings, movedNets, renumbered, splicedList, withNetCells, withNetRows, type NetRenumbering } from '../core/renumber';
 import { LIST_ITEMS_PER_SLICE, runToEnd, type Steps } from '../core/steps';
 
 export const enum NetRole {
@@ -418,7 +418,7 @@ const gateCounts = new WeakMap<SwitchNetwork, Int32Array>();
  * (added after the others), unreachable and gating nothing. What `buildSwitchNetwork(c)` gives
  * up to the groups' ids, for `patchSwitchNetwork` to start from.
  */
-export function widenNetwork(prev: SwitchNetwork, c: Circuit, ins: NetInsertion): SwitchNetwork {
+export function widenNetwork(prev: SwitchNetwork, c: Circuit, ins: NetRenumbering): SwitchNetwork {
   const map = ins.oldToNew;
   const at = (x: number) => map[x]!;
   const switches = prev.switches.map((s) => {

@@ -9,7 +9,7 @@
 import { DerivedMap } from '../core/overlay';
 import type { EngineOptions } from '../core/options';
 import { DEFAULT_GROUND_PATTERN, DEFAULT_SUPPLY_PATTERN } from '../core/options';
-import { movedNets, netInsertion, withNetRows, type NetInsertion } from '../core/renumber';
+import { movedNets, netInsertion, netRemoval, withNetRows, type NetRenumbering } from '../core/renumber';
 import type { Circuit, Design, Mosfet, Net } from './circuit';
 import type { NetSlots } from './elaborate';
 
@@ -29,6 +29,12 @@ export function insertedSlots(before: NetSlots, after: NetSlots, portCount: numb
   // a name put in is new to the scope (not one that moved in the order of first use)
   const old = new Set(a);
   return inserted.every((j) => !old.has(b[j]!)) ? inserted : undefined;
+}
+
+/** The slots taken out: indices into the old slots' local names (ascending), all past the ports. */
+export function removedSlots(before: NetSlots, after: NetSlots, portCount: number): number[] | undefined {
+  const out = insertedSlots(after, before, portCount);
+  return out;
 }
 
 /** Names a directive or a setting gives a role to: a net put in with one of them takes the full path. */
@@ -60,7 +66,7 @@ export function widenCircuit(
   inserted: readonly number[],
   named: ReadonlySet<string>,
   options: EngineOptions,
-): { circuit: Circuit; nets: NetInsertion } | undefined {
+): { circuit: Circuit; nets: NetRenumbering } | undefined {
   const supplyRe = new RegExp(options.supplyNamePattern ?? DEFAULT_SUPPLY_PATTERN, 'i');
   const groundRe = new RegExp(options.groundNamePattern ?? DEFAULT_GROUND_PATTERN, 'i');
   const insertedSet = new Set(inserted);
@@ -131,7 +137,7 @@ export function widenCircuit(
 }
 
 /**
- * The name index under a net insertion, read through the old one (a copy of 100,000 names was
+ * The name index under a net renumbering, read through the old one (a copy of 100,000 names was
  * the largest part of the insertion). Read-only, like every stage's output.
  */
 class NetNumbersByName extends DerivedMap<string, number> {
@@ -151,17 +157,66 @@ class NetNumbersByName extends DerivedMap<string, number> {
 
   override get(name: string): number | undefined {
     const old = this.base.get(name);
-    return old !== undefined ? this.oldToNew[old] : this.added.get(name);
+    if (old === undefined) return this.added.get(name);
+    const j = this.oldToNew[old]!;
+    return j >= 0 ? j : undefined;
   }
 
   override has(name: string): boolean {
-    return this.base.has(name) || this.added.has(name);
+    return this.get(name) !== undefined;
   }
 
   // in net order, as the elaborator fills it
   protected build(): Map<string, number> {
-    const all = [...this.base].map(([k, v]): [string, number] => [k, this.oldToNew[v]!]);
+    const all = [...this.base].map(([k, v]): [string, number] => [k, this.oldToNew[v]!]).filter(([, j]) => j >= 0);
     for (const e of this.added) all.push(e);
     return new Map(all.sort((a, b) => a[1] - b[1]));
   }
+}
+
+/**
+ * `c` (the circuit after a reconnection left the nets `removed` with nothing on them) without
+ * them, every element on its nets under the new numbers; undefined when one is still used.
+ */
+export function narrowCircuit(c: Circuit, removed: readonly number[]): { circuit: Circuit; nets: NetRenumbering } | undefined {
+  const ins = netRemoval(c.nets.length, removed);
+  const map = ins.oldToNew;
+  let used = false;
+  const at = (x: number) => {
+    const j = map[x]!;
+    if (j < 0) used = true;
+    return j;
+  };
+  const nets = withNetRows(c.nets, ins, () => undefined as unknown as Net);
+  const two = <T extends { a: number; b: number }>(list: T[]) => list.map((x) => (at(x.a) === x.a && at(x.b) === x.b ? x : { ...x, a: at(x.a), b: at(x.b) }));
+  const keptIds = (list: readonly number[]) => {
+    const moved = movedNets(list, ins);
+    if (moved.length !== list.length) used = true;
+    return moved;
+  };
+  const circuit: Circuit = {
+    ...c,
+    nets,
+    netByName: NetNumbersByName.over(c.netByName, map, new Map()),
+    mosfets: c.mosfets.map((m): Mosfet => (at(m.d) === m.d && at(m.g) === m.g && at(m.s) === m.s && at(m.b) === m.b ? m : { ...m, d: at(m.d), g: at(m.g), s: at(m.s), b: at(m.b) })),
+    capacitors: two(c.capacitors),
+    resistors: two(c.resistors),
+    inductors: two(c.inductors),
+    diodes: two(c.diodes),
+    sources: c.sources.map((s) => (at(s.p) === s.p && at(s.n) === s.n ? s : { ...s, p: at(s.p), n: at(s.n) })),
+    others: c.others.map((o) => {
+      const moved = keptIds(o.nets);
+      return moved === o.nets ? o : { ...o, nets: moved };
+    }),
+    instances: c.instances.map((inst) => {
+      const ports = keptIds(inst.ports);
+      return ports === inst.ports ? inst : { ...inst, ports };
+    }),
+    ports: c.ports.map((p) => (at(p.net) === p.net ? p : { ...p, net: at(p.net) })),
+    supplies: c.supplies.map((s) => (at(s.net) === s.net ? s : { ...s, net: at(s.net) })),
+    grounds: keptIds(c.grounds),
+    inputs: keptIds(c.inputs),
+    outputs: keptIds(c.outputs),
+  };
+  return used ? undefined : { circuit, nets: ins };
 }

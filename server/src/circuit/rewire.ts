@@ -8,9 +8,9 @@
 // fresh elaboration: `undefined`.
 
 import type { EngineOptions } from '../core/options';
-import type { NetInsertion } from '../core/renumber';
+import type { NetRenumbering } from '../core/renumber';
 import { startLineOf } from '../core/source';
-import { insertedSlots, namedNets, widenCircuit } from './newNets';
+import { insertedSlots, namedNets, narrowCircuit, removedSlots, widenCircuit } from './newNets';
 import type { Capacitor, Circuit, Design, Instance, Mosfet, Net, Origin, Resistor, TwoTerminal } from './circuit';
 import type { Deck } from './deck';
 import { deckGlobals, elementNodeWords, NetSlots } from './elaborate';
@@ -36,7 +36,13 @@ export interface Rewiring {
    * Per circuit, when the edit named nets the circuit did not have: the previous circuit with
    * them put in (nothing on them yet), and the net insertion the later stages apply first.
    */
-  widened: Array<{ circuit: Circuit; nets: NetInsertion } | undefined>;
+  widened: Array<{ circuit: Circuit; nets: NetRenumbering } | undefined>;
+  /**
+   * Per circuit, when the edit left nets unused: `design`'s circuit (the rewired one) still has
+   * them, with nothing on them, for the later stages to be patched; this is the circuit without
+   * them, and the net renumbering the patched results take after.
+   */
+  narrowed: Array<{ circuit: Circuit; nets: NetRenumbering } | undefined>;
 }
 
 /**
@@ -51,20 +57,27 @@ export function rewireNets(previousDeck: Deck, previous: Design, deck: Deck, lim
   const kept = netSlotsOf(previousDeck, deck, scope);
   if (!kept) return undefined;
   const { before, after, portCount } = kept;
-  // the same slots, or the old ones with new names put in
+  // the same slots, the old ones with new names put in, or with names no longer used taken out
   let inserted: number[] | undefined;
+  let removed: number[] | undefined;
   if (!sameSlots(before.slots, after.slots)) {
     inserted = insertedSlots(before.slots, after.slots, portCount);
-    if (!inserted || !sameList(before.slots.globalNames, after.slots.globalNames)) return undefined;
+    if (!inserted) removed = removedSlots(before.slots, after.slots, portCount);
+    if ((!inserted && !removed) || !sameList(before.slots.globalNames, after.slots.globalNames)) return undefined;
   }
+  // a global net takes the first slot's origin of the definition that meets it first
+  const first0 = before.slots.localOrigins[0];
+  const first1 = after.slots.localOrigins[0];
+  if (!first0 !== !first1 || (first0 && first1 && (first0.local !== first1.local || first0.file !== first1.file || !sameRange(first0.range, first1.range, 0)))) return undefined;
   // an internal net first written on an edited line may now be first written elsewhere
   const netOrigins = new Map<string, Origin>();
-  const insertedSet = new Set(inserted ?? []);
-  let shift = 0;
+  const beforeAt = new Map<string, number>();
+  before.slots.localNames.forEach((n, i) => i >= portCount && beforeAt.set(n, i));
   after.slots.localOrigins.forEach((o, i) => {
-    if (insertedSet.has(i)) return void shift++;
-    const was = before.slots.localOrigins[i - shift]!;
-    if (i >= portCount && (o.file !== was.file || !sameRange(o.range, was.range, 0))) netOrigins.set(o.local, o);
+    const k = i >= portCount ? beforeAt.get(after.slots.localNames[i]!) : undefined;
+    if (k === undefined) return;
+    const was = before.slots.localOrigins[k]!;
+    if (o.file !== was.file || !sameRange(o.range, was.range, 0)) netOrigins.set(o.local, o);
   });
   // the edited lines by where each started (devices keep the origin of the parse they came from)
   const lineAt = new Map<string, { refs: number[]; local: string }>();
@@ -86,11 +99,12 @@ export function rewireNets(previousDeck: Deck, previous: Design, deck: Deck, lim
   const circuits: Circuit[] = [];
   const changed: RewiredElements[] = [];
   const widened: Rewiring['widened'] = [];
-  const named = inserted && namedNets(previous, options);
+  const narrowed: Rewiring['narrowed'] = [];
+  const named = (inserted || removed) && namedNets(previous, options);
   for (let i = 0; i < previous.circuits.length; i++) {
     let c = previous.circuits[i]!;
     let wide: Rewiring['widened'][number];
-    const prefixes = inserted ? contextPrefixes(c, scope) : [];
+    const prefixes = inserted || removed ? contextPrefixes(c, scope) : [];
     if (inserted && prefixes.length) {
       if (prefixes.length > limit(i) / edited.length) return undefined;
       wide = widenCircuit(c, prefixes, before.slots, after.slots, portCount, inserted, named!, options);
@@ -102,12 +116,30 @@ export function rewireNets(previousDeck: Deck, previous: Design, deck: Deck, lim
     }
     const result = rewireCircuit(c, scope, portCount, after.slots, lineOf, netOrigins, lines, limit(i) / edited.length);
     if (!result) return undefined;
+    let narrow: Rewiring['narrowed'][number];
+    if (removed && prefixes.length) {
+      // the nets of the names no longer used, one per instance: nothing is on them now
+      const ids: number[] = [];
+      for (const prefix of prefixes) {
+        for (const slot of removed) {
+          const name = prefix + before.slots.localNames[slot]!;
+          const id = c.netByName.get(name);
+          if (id === undefined || named!.has(name)) return undefined;
+          ids.push(id);
+        }
+      }
+      narrow = narrowCircuit(result.circuit, ids.sort((x, y) => x - y));
+      if (!narrow) return undefined;
+      setOriginIndex(narrow.circuit.mosfets, originIndex(result.circuit.mosfets));
+      setOriginIndex(narrow.circuit.instances, originIndex(result.circuit.instances));
+    }
     circuits.push(result.circuit);
     changed.push(result.changed);
     widened.push(wide);
+    narrowed.push(narrow);
   }
   if (changed.every((x) => x.mosfets.length + x.resistors.length + x.inductors.length + x.capacitors.length === 0)) return undefined;
-  return { design: { ...previous, circuits }, changed, moved: lines.moved, widened };
+  return { design: { ...previous, circuits }, changed, moved: lines.moved, widened, narrowed };
 }
 
 /** The prefixes of a definition's places in a circuit ('' for the top level or a standalone cell). */

@@ -11,7 +11,7 @@
 
 import { rangeOf, Span, startLineOf, type Range } from '../core/source';
 import type { Diagnostic } from '../core/diagnostics';
-import { splicedList, type NetInsertion } from '../core/renumber';
+import { splicedList, type NetRenumbering } from '../core/renumber';
 import type { Circuit, Design, Instance, Mosfet, Net, Origin, Polarity } from './circuit';
 import type { ModelCard } from './models';
 import type { Deck } from './deck';
@@ -51,7 +51,7 @@ export interface DeviceSplice {
   /** The old lines of the deleted statements (findings on them cannot be moved). */
   removedLines: { file: string; from: number; to: number } | undefined;
   /** Per circuit, when the added lines name new nets: the previous circuit with them put in (see Rewiring). */
-  widened: Array<{ circuit: Circuit; nets: NetInsertion } | undefined>;
+  widened: Array<{ circuit: Circuit; nets: NetRenumbering } | undefined>;
 }
 
 /** A plain transistor line: its local name, node words, model and sizes as the elaborator reads them. */

@@ -290,8 +290,8 @@ export class RenumberedMap<K, V> extends DerivedMap<K, V> {
 }
 
 /**
- * An earlier map keyed by net under a net insertion (core/renumber: keys keep their order), its
- * values renumbered by `renumber` when first read. Nets put in have no entry.
+ * An earlier map keyed by net under a net renumbering (core/renumber: keys keep their order), its
+ * values renumbered by `renumber` when first read. Nets put in have no entry, nor do nets taken out.
  */
 export class NetKeyedMap<V> extends DerivedMap<number, V> {
   private readonly memo = new Map<number, V>();
@@ -330,14 +330,15 @@ export class NetKeyedMap<V> extends DerivedMap<number, V> {
   }
 
   override get size(): number {
-    return this.base.size;
+    // entries of nets taken out drop: counted from the whole map then
+    return this.newToOld.length < this.oldToNew.length ? this.all().size : this.base.size;
   }
 
   protected build(): Map<number, V> {
     const m = new Map<number, V>();
     this.base.forEach((_, k) => {
       const j = this.oldToNew[k]!;
-      m.set(j, this.get(j)!);
+      if (j >= 0) m.set(j, this.get(j)!);
     });
     return m;
   }

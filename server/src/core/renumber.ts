@@ -40,18 +40,20 @@ export function splicedList<T>(list: readonly T[], deleted: readonly number[], a
 }
 
 /**
- * Nets put in among the old ones (none taken out), as an edit that names a new net makes them:
- * old id to new id (ascending), and the new ids of the nets put in (ascending).
+ * Nets put in among the old ones or taken out, as an edit that names a new net or leaves one
+ * unused makes them: old id to new id (ascending; -1 for a net taken out), the new ids of the
+ * nets put in and the old ids of those taken out (both ascending).
  */
-export interface NetInsertion {
+export interface NetRenumbering {
   oldToNew: Int32Array;
   added: number[];
-  /** How many nets there are after the insertion. */
+  removed: number[];
+  /** How many nets there are after it. */
   count: number;
 }
 
 /** Inserts nets before the old ids `before` (ascending, repeats allowed: one net each). */
-export function netInsertion(oldCount: number, before: readonly number[]): NetInsertion {
+export function netInsertion(oldCount: number, before: readonly number[]): NetRenumbering {
   const oldToNew = new Int32Array(oldCount);
   const added: number[] = [];
   let k = 0;
@@ -59,20 +61,35 @@ export function netInsertion(oldCount: number, before: readonly number[]): NetIn
     while (k < before.length && before[k] === i) added.push(i + k++);
     if (i < oldCount) oldToNew[i] = i + k;
   }
-  return { oldToNew, added, count: oldCount + added.length };
+  return { oldToNew, added, removed: [], count: oldCount + added.length };
 }
 
-/** A per-net list with a row made for each net put in. */
-export function withNetRows<T>(list: readonly T[], ins: NetInsertion, make: (j: number) => T): T[] {
-  return splicedList(list, [], ins.added, make);
+/** Takes out the nets `removed` (old ids, ascending). */
+export function netRemoval(oldCount: number, removed: readonly number[]): NetRenumbering {
+  const oldToNew = new Int32Array(oldCount);
+  let k = 0;
+  for (let i = 0; i < oldCount; i++) {
+    if (k < removed.length && removed[k] === i) {
+      oldToNew[i] = -1;
+      k++;
+    } else oldToNew[i] = i - k;
+  }
+  return { oldToNew, added: [], removed: removed.slice(), count: oldCount - removed.length };
 }
 
-/** A per-net typed array with `fill` for each net put in. */
-export function withNetCells<A extends Uint8Array | Int32Array | Float64Array>(a: A, ins: NetInsertion, fill: number): A {
+/** A per-net list with a row made for each net put in and none for a net taken out. */
+export function withNetRows<T>(list: readonly T[], ins: NetRenumbering, make: (j: number) => T): T[] {
+  return splicedList(list, ins.removed, ins.added, make);
+}
+
+/** A per-net typed array with `fill` for each net put in and no cell for a net taken out. */
+export function withNetCells<A extends Uint8Array | Int32Array | Float64Array>(a: A, ins: NetRenumbering, fill: number): A {
   const out = new (a.constructor as new (n: number) => A)(ins.count);
   let i = 0;
   let k = 0;
+  let r = 0;
   for (let j = 0; j < ins.count; j++) {
+    while (r < ins.removed.length && ins.removed[r] === i) (i++, r++);
     if (k < ins.added.length && ins.added[k] === j) {
       out[j] = fill;
       k++;
@@ -81,14 +98,14 @@ export function withNetCells<A extends Uint8Array | Int32Array | Float64Array>(a
   return out;
 }
 
-/** Net ids under an insertion (the same list when none moved). */
-export function movedNets(list: readonly number[], ins: NetInsertion): number[] {
+/** Net ids under a net renumbering, those taken out left out (the same list when none moved). */
+export function movedNets(list: readonly number[], ins: NetRenumbering): number[] {
   return renumbered(list, ins.oldToNew);
 }
 
 /** New id to old, -1 for a net put in. */
-export function newToOldNets(ins: NetInsertion): Int32Array {
+export function newToOldNets(ins: NetRenumbering): Int32Array {
   const out = new Int32Array(ins.count).fill(-1);
-  for (let i = 0; i < ins.oldToNew.length; i++) out[ins.oldToNew[i]!] = i;
+  for (let i = 0; i < ins.oldToNew.length; i++) if (ins.oldToNew[i]! >= 0) out[ins.oldToNew[i]!] = i;
   return out;
 }

@@ -11,7 +11,7 @@ import { clockNamed } from '../phases/clocks';
 import { periodicHigh } from '../phases/clocks';
 import type { EngineOptions } from '../core/options';
 import { originKey, revisedNodes } from './perNode';
-import { movedNets, withNetCells, type NetInsertion } from '../core/renumber';
+import { movedNets, withNetCells, type NetRenumbering } from '../core/renumber';
 
 function describeWhen(w: Record<string, 0 | 1> | undefined): string {
   if (!w || Object.keys(w).length === 0) return '';
@@ -177,7 +177,7 @@ function render(c: Circuit, cl: Classification, facts: NodeFacts): Diagnostic[] 
 }
 
 /** Carries the node facts of `previous` to `next`, its classification under a net insertion (nets with nothing on them contribute nothing). */
-export function widenClassificationFacts(previous: Classification, next: Classification, ins: NetInsertion): void {
+export function widenClassificationFacts(previous: Classification, next: Classification, ins: NetRenumbering): void {
   const before = factsOf.get(previous);
   if (before) factsOf.set(next, { flags: withNetCells(before.flags, ins, 0), listed: movedNets(before.listed, ins), clockPattern: before.clockPattern });
 }

@@ -8,7 +8,7 @@ import type { NodeEstimate } from '../analysis/electrical/estimate';
 import type { ElectricalContext } from '../analysis/electrical/context';
 import { KEEPER_RATIO_MAX } from '../analysis/electrical/keeper';
 import { originKey, revisedNodes } from './perNode';
-import { movedNets, type NetInsertion } from '../core/renumber';
+import { movedNets, type NetRenumbering } from '../core/renumber';
 
 const KEEPER_WEAK_MARGIN = 2;
 
@@ -165,7 +165,7 @@ function nodeEmissions(ctx: ElectricalContext, e: NodeEstimate, b: string): Emis
 }
 
 /** Carries the emissions of `previous` to `next`, the same estimates under a net insertion. */
-export function widenElectricalEmissions(previous: ReadonlyMap<number, NodeEstimate>, next: ReadonlyMap<number, NodeEstimate>, ins: NetInsertion): void {
+export function widenElectricalEmissions(previous: ReadonlyMap<number, NodeEstimate>, next: ReadonlyMap<number, NodeEstimate>, ins: NetRenumbering): void {
   const before = emissionsOf.get(previous);
   if (!before) return;
   const byNode = new Map<number, Emission[]>();

@@ -7,7 +7,7 @@ import type { DirectiveSet } from '../circuit/directives';
 import { diag, type Diagnostic } from '../core/diagnostics';
 import type { EngineOptions } from '../core/options';
 import type { Clock } from './clocks';
-import type { NetInsertion } from '../core/renumber';
+import type { NetRenumbering } from '../core/renumber';
 
 export interface Phase {
   name: string;
@@ -185,7 +185,7 @@ export function floatWindow(plan: PhasePlan, floatsIn: (p: Phase) => boolean): n
 }
 
 /** The plan with its clock nets under a net insertion (core/renumber): the same phases and times. */
-export function widenPlan(plan: PhasePlan, ins: NetInsertion): PhasePlan {
+export function widenPlan(plan: PhasePlan, ins: NetRenumbering): PhasePlan {
   const at = (x: number) => ins.oldToNew[x]!;
   const phaseOf = new Map<Phase, Phase>();
   const phases = plan.phases.map((p) => {

@@ -9,7 +9,7 @@ import type { PhasePlan } from '../../phases/phases';
 import { modelFor } from '../devices/catalogue';
 import type { MosModel } from '../devices/mosModel';
 import type { MosfetRenumbering } from '../../circuit/splice';
-import { composeRenumberings, renumbered, withNetCells, withNetRows, type NetInsertion } from '../../core/renumber';
+import { composeRenumberings, renumbered, withNetCells, withNetRows, type NetRenumbering } from '../../core/renumber';
 import { LIST_ITEMS_PER_SLICE, runToEnd, type Steps } from '../../core/steps';
 
 export interface Corner {
@@ -151,7 +151,7 @@ export function renumberedContext(ctx: ElectricalContext, circuit: Circuit, netw
  * The context of `circuit` (the previous one's with nets put in, nothing on them: see
  * circuit/newNets) with every per-net list under the new numbers.
  */
-export function widenedContext(ctx: ElectricalContext, circuit: Circuit, network: SwitchNetwork, plan: PhasePlan, classification: Classification, ins: NetInsertion): ElectricalContext {
+export function widenedContext(ctx: ElectricalContext, circuit: Circuit, network: SwitchNetwork, plan: PhasePlan, classification: Classification, ins: NetRenumbering): ElectricalContext {
   const lists = listsOf(ctx);
   return {
     ...ctx,
@@ -208,7 +208,7 @@ class NetDeviceLists {
   }
 
   /** The same lists under a net insertion: a net put in has none. */
-  withNets(ins: NetInsertion): NetDeviceLists {
+  withNets(ins: NetRenumbering): NetDeviceLists {
     const rekey = (m: ReadonlyMap<number, readonly number[]>) => new Map([...m].map(([x, l]) => [ins.oldToNew[x]!, l]));
     return new NetDeviceLists(withNetRows(this.root, ins, () => []), this.oldToNew, rekey(this.added), rekey(this.rebuilt));
   }

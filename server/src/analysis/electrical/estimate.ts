@@ -2,7 +2,7 @@
 // stored level and corner, retention to the droop budget, charge sharing, coupling, critical
 // charge and, where one is needed, a sized keeper. Pure: reads the context, returns records.
 
-import { newToOldNets, renumbered, withNetCells, type NetInsertion } from '../../core/renumber';
+import { newToOldNets, renumbered, withNetCells, type NetRenumbering } from '../../core/renumber';
 import { floatsIn, nodeFloatWindow, type NodePhaseResult } from '../classify';
 import { evaluateComponent, newScratch, type Scratch } from '../constants';
 import { mosfetOfSwitch, NetRole, SwitchKind } from '../switchNetwork';
@@ -240,7 +240,7 @@ function renumberEstimate(e: NodeEstimate, oldToNew: Int32Array): NodeEstimate {
 }
 
 /** Estimates under a net insertion (core/renumber): the same figures, their nets under the new numbers. */
-export function widenEstimates(estimates: ReadonlyMap<number, NodeEstimate>, ins: NetInsertion): Map<number, NodeEstimate> {
+export function widenEstimates(estimates: ReadonlyMap<number, NodeEstimate>, ins: NetRenumbering): Map<number, NodeEstimate> {
   const map = ins.oldToNew;
   const out = NetKeyedMap.over(estimates, map, newToOldNets(ins), (e) => widenEstimate(e, map));
   const shares = sharedSolves.get(estimates);
