@@ -30,7 +30,7 @@ async function main(): Promise<void> {
     // a change of connectivity, rewired in the previous analysis
     RECONNECTION,
     // a name typed that no net has yet: the previous analysis under the new net numbers, then rewired
-    ['a block input moved to a new net (a new name at the top level)', (l) => l.startsWith('Xb7 '), (l) => l.replace('Xb7 a7 ', 'Xb7 a7n ')],
+    ['a block input moved to a new net (a new name at the top level)', (l) => l.startsWith('Xb7 '), (l) => l.replace('Xb7 a7 ', 'Xb7 a7n '), 'the old name put back (the new net goes again)'],
     ['a slice input moved to a new net in the block cell (105 copies)', (l) => l.startsWith('Xs3 '), (l) => l.replace('Xs3 w2 ', 'Xs3 w2n ')],
     // new devices: spliced into the previous analysis, up to a limit on the copies
     ['a device added at the top level', (l) => l.startsWith('Xb7 '), (l) => `${l}\nMx y7 clk vdd vdd bp w=0.2u l=0.1u`, 'the device at the top level deleted'],
