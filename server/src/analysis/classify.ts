@@ -433,9 +433,10 @@ export function widenClassification(cl: Classification, net: SwitchNetwork, plan
   const map = ins.oldToNew;
   const newToOld = newToOldNets(ins);
   const result = (r: NodePhaseResult) => widenResult(r, map);
+  // (widenResult itself, so a later renumbering composes with this one)
   const undriven: NodePhaseResult = { state: 'undriven', exact: true };
   const perPhase = cl.perPhase.map((m) => {
-    const moved = NetKeyedMap.over(m, map, newToOld, result);
+    const moved = NetKeyedMap.over(m, map, newToOld, widenResult, ins.removed);
     // a net with nothing on it is undriven, as a full pass finds it
     return OverlayMap.extend(moved, new Map(ins.added.map((x) => [x, undriven])));
   });

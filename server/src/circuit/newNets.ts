@@ -9,7 +9,7 @@
 import { DerivedMap } from '../core/overlay';
 import type { EngineOptions } from '../core/options';
 import { DEFAULT_GROUND_PATTERN, DEFAULT_SUPPLY_PATTERN } from '../core/options';
-import { movedNets, netInsertion, netRemoval, withNetRows, type NetRenumbering } from '../core/renumber';
+import { composeRenumberings, movedNets, netInsertion, netRemoval, withNetRows, type NetRenumbering } from '../core/renumber';
 import type { Circuit, Design, Mosfet, Net } from './circuit';
 import type { NetSlots } from './elaborate';
 
@@ -151,6 +151,13 @@ class NetNumbersByName extends DerivedMap<string, number> {
   }
 
   static over(base: ReadonlyMap<string, number>, oldToNew: Int32Array, added: ReadonlyMap<string, number>): Map<string, number> {
+    if (base instanceof NetNumbersByName) {
+      // one level: the renumberings composed, the earlier names put in moved too
+      const all = new Map<string, number>();
+      for (const [name, j] of base.added) if (oldToNew[j]! >= 0) all.set(name, oldToNew[j]!);
+      for (const [name, j] of added) all.set(name, j);
+      return new NetNumbersByName(base.base, composeRenumberings(base.oldToNew, oldToNew), all, base.depth);
+    }
     const depth = base instanceof DerivedMap ? base.depth + 1 : 1;
     return new NetNumbersByName(base, oldToNew, added, depth).folded();
   }

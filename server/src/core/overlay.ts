@@ -82,9 +82,9 @@ export class OverlayMap<K, V> extends DerivedMap<K, V> {
   }
 
   /** The same overlay on another base (the same keys), with other changes: for a renumbering pushed below it. */
-  static rebased<K, V>(of: OverlayMap<K, V>, base: ReadonlyMap<K, V>, changes: ReadonlyMap<K, V | undefined>): Map<K, V> {
+  static rebased<K, V>(of: OverlayMap<K, V>, base: ReadonlyMap<K, V>, changes: ReadonlyMap<K, V | undefined>, count = of.count): Map<K, V> {
     const depth = base instanceof DerivedMap ? base.depth + 1 : 1;
-    const map = new OverlayMap(base, changes, depth, of.count);
+    const map = new OverlayMap(base, changes, depth, count);
     map.ordered = of.ordered;
     return map.folded();
   }
@@ -291,7 +291,10 @@ export class RenumberedMap<K, V> extends DerivedMap<K, V> {
 
 /**
  * An earlier map keyed by net under a net renumbering (core/renumber: keys keep their order), its
- * values renumbered by `renumber` when first read. Nets put in have no entry, nor do nets taken out.
+ * values renumbered by `renumber` when first read. Nets put in have no entry, nor do nets taken
+ * out. Like `RenumberedMap`, a renumbering of one is composed with it, and one of an overlay is
+ * pushed below the overlays (their few changed entries are moved at once), so a run of edits
+ * that renumber nets makes the chain no deeper than its overlays.
  */
 export class NetKeyedMap<V> extends DerivedMap<number, V> {
   private readonly memo = new Map<number, V>();
@@ -300,15 +303,32 @@ export class NetKeyedMap<V> extends DerivedMap<number, V> {
     private readonly base: ReadonlyMap<number, V>,
     private readonly oldToNew: Int32Array,
     private readonly newToOld: Int32Array,
-    private readonly renumber: (v: V) => V,
+    private readonly renumber: (v: V, oldToNew: Int32Array) => V,
+    private readonly count: number,
     depth: number,
   ) {
     super(depth);
   }
 
-  static over<V>(map: ReadonlyMap<number, V>, oldToNew: Int32Array, newToOld: Int32Array, renumber: (v: V) => V): Map<number, V> {
+  /** `removed`: the old keys of the nets taken out (a few), for the size without making the whole map. */
+  static over<V>(map: ReadonlyMap<number, V>, oldToNew: Int32Array, newToOld: Int32Array, renumber: (v: V, oldToNew: Int32Array) => V, removed: readonly number[] = []): Map<number, V> {
+    let count = map.size;
+    for (const r of removed) if (map.has(r)) count--;
+    if (map instanceof NetKeyedMap && map.renumber === renumber) {
+      const m = map as NetKeyedMap<V>;
+      return new NetKeyedMap(m.base, composeRenumberings(m.oldToNew, oldToNew), composeRenumberings(newToOld, m.newToOld), renumber, count, m.depth);
+    }
+    if (map instanceof OverlayMap) {
+      const o = map as OverlayMap<number, V>;
+      const changes = new Map<number, V | undefined>();
+      for (const [k, v] of o.changes) {
+        const j = oldToNew[k]!;
+        if (j >= 0) changes.set(j, v === undefined ? undefined : renumber(v, oldToNew));
+      }
+      return OverlayMap.rebased(o, NetKeyedMap.over(o.base, oldToNew, newToOld, renumber, removed), changes, count);
+    }
     const depth = map instanceof DerivedMap ? map.depth + 1 : 1;
-    return new NetKeyedMap(map, oldToNew, newToOld, renumber, depth).folded();
+    return new NetKeyedMap(map, oldToNew, newToOld, renumber, count, depth).folded();
   }
 
   override get(key: number): V | undefined {
@@ -318,7 +338,7 @@ export class NetKeyedMap<V> extends DerivedMap<number, V> {
       if (old < 0) return undefined;
       const b = this.base.get(old);
       if (b === undefined) return undefined;
-      v = this.renumber(b);
+      v = this.renumber(b, this.oldToNew);
       this.memo.set(key, v);
     }
     return v;
@@ -330,8 +350,7 @@ export class NetKeyedMap<V> extends DerivedMap<number, V> {
   }
 
   override get size(): number {
-    // entries of nets taken out drop: counted from the whole map then
-    return this.newToOld.length < this.oldToNew.length ? this.all().size : this.base.size;
+    return this.count;
   }
 
   protected build(): Map<number, V> {

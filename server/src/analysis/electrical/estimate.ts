@@ -242,7 +242,7 @@ function renumberEstimate(e: NodeEstimate, oldToNew: Int32Array): NodeEstimate {
 /** Estimates under a net insertion (core/renumber): the same figures, their nets under the new numbers. */
 export function widenEstimates(estimates: ReadonlyMap<number, NodeEstimate>, ins: NetRenumbering): Map<number, NodeEstimate> {
   const map = ins.oldToNew;
-  const out = NetKeyedMap.over(estimates, map, newToOldNets(ins), (e) => widenEstimate(e, map));
+  const out = NetKeyedMap.over(estimates, map, newToOldNets(ins), widenEstimate, ins.removed);
   const shares = sharedSolves.get(estimates);
   if (shares) {
     const moved = withNetCells(shares, ins, -1);
