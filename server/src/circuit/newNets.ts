@@ -7,6 +7,7 @@
 // directive or a setting could make a rail, a clock or an input are left to a fresh analysis.
 
 import { DerivedMap } from '../core/overlay';
+import { originIndex, setOriginIndex } from './rewire';
 import type { EngineOptions } from '../core/options';
 import { DEFAULT_GROUND_PATTERN, DEFAULT_SUPPLY_PATTERN } from '../core/options';
 import { composeRenumberings, movedNets, netInsertion, netRemoval, withNetRows, type NetRenumbering } from '../core/renumber';
@@ -33,8 +34,7 @@ export function insertedSlots(before: NetSlots, after: NetSlots, portCount: numb
 
 /** The slots taken out: indices into the old slots' local names (ascending), all past the ports. */
 export function removedSlots(before: NetSlots, after: NetSlots, portCount: number): number[] | undefined {
-  const out = insertedSlots(after, before, portCount);
-  return out;
+  return insertedSlots(after, before, portCount);
 }
 
 /** Names a directive or a setting gives a role to: a net put in with one of them takes the full path. */
@@ -107,32 +107,10 @@ export function widenCircuit(
     return { name: p.name, kind: 'signal', global: false, origin: after.localOrigins[p.slot]! };
   });
   const netByName = NetNumbersByName.over(c.netByName, map, new Map(ins.added.map((j) => [nets[j]!.name, j])));
-  const at = (x: number) => map[x]!;
-  const two = <T extends { a: number; b: number }>(list: T[]) => list.map((x) => (at(x.a) === x.a && at(x.b) === x.b ? x : { ...x, a: at(x.a), b: at(x.b) }));
-  const circuit: Circuit = {
-    ...c,
-    nets,
-    netByName,
-    mosfets: c.mosfets.map((m): Mosfet => (at(m.d) === m.d && at(m.g) === m.g && at(m.s) === m.s && at(m.b) === m.b ? m : { ...m, d: at(m.d), g: at(m.g), s: at(m.s), b: at(m.b) })),
-    capacitors: two(c.capacitors),
-    resistors: two(c.resistors),
-    inductors: two(c.inductors),
-    diodes: two(c.diodes),
-    sources: c.sources.map((s) => (at(s.p) === s.p && at(s.n) === s.n ? s : { ...s, p: at(s.p), n: at(s.n) })),
-    others: c.others.map((o) => {
-      const moved = movedNets(o.nets, ins);
-      return moved === o.nets ? o : { ...o, nets: moved };
-    }),
-    instances: c.instances.map((inst) => {
-      const ports = movedNets(inst.ports, ins);
-      return ports === inst.ports ? inst : { ...inst, ports };
-    }),
-    ports: c.ports.map((p) => (at(p.net) === p.net ? p : { ...p, net: at(p.net) })),
-    supplies: c.supplies.map((s) => (at(s.net) === s.net ? s : { ...s, net: at(s.net) })),
-    grounds: movedNets(c.grounds, ins),
-    inputs: movedNets(c.inputs, ins),
-    outputs: movedNets(c.outputs, ins),
-  };
+  const moved = onNewNets(c, ins);
+  if (!moved) return undefined;
+  const circuit: Circuit = { ...c, nets, netByName, ...moved };
+
   return { circuit, nets: ins };
 }
 
@@ -187,24 +165,32 @@ class NetNumbersByName extends DerivedMap<string, number> {
  */
 export function narrowCircuit(c: Circuit, removed: readonly number[]): { circuit: Circuit; nets: NetRenumbering } | undefined {
   const ins = netRemoval(c.nets.length, removed);
+  const moved = onNewNets(c, ins);
+  if (!moved) return undefined;
+  const nets = withNetRows(c.nets, ins, () => undefined as unknown as Net);
+  return { circuit: { ...c, nets, netByName: NetNumbersByName.over(c.netByName, ins.oldToNew, new Map()), ...moved }, nets: ins };
+}
+
+/**
+ * Every element of `c` on its nets under a net renumbering (those unchanged kept as they are),
+ * or undefined when one is on a net taken out. The MOSFET and instance lists keep their places,
+ * so their origin indexes carry over.
+ */
+function onNewNets(c: Circuit, ins: NetRenumbering): Pick<Circuit, 'mosfets' | 'capacitors' | 'resistors' | 'inductors' | 'diodes' | 'sources' | 'others' | 'instances' | 'ports' | 'supplies' | 'grounds' | 'inputs' | 'outputs'> | undefined {
   const map = ins.oldToNew;
-  let used = false;
+  let lost = false;
   const at = (x: number) => {
     const j = map[x]!;
-    if (j < 0) used = true;
+    if (j < 0) lost = true;
     return j;
   };
-  const nets = withNetRows(c.nets, ins, () => undefined as unknown as Net);
-  const two = <T extends { a: number; b: number }>(list: T[]) => list.map((x) => (at(x.a) === x.a && at(x.b) === x.b ? x : { ...x, a: at(x.a), b: at(x.b) }));
-  const keptIds = (list: readonly number[]) => {
+  const ids = (list: readonly number[]) => {
     const moved = movedNets(list, ins);
-    if (moved.length !== list.length) used = true;
+    if (moved.length !== list.length) lost = true;
     return moved;
   };
-  const circuit: Circuit = {
-    ...c,
-    nets,
-    netByName: NetNumbersByName.over(c.netByName, map, new Map()),
+  const two = <T extends { a: number; b: number }>(list: T[]) => list.map((x) => (at(x.a) === x.a && at(x.b) === x.b ? x : { ...x, a: at(x.a), b: at(x.b) }));
+  const out = {
     mosfets: c.mosfets.map((m): Mosfet => (at(m.d) === m.d && at(m.g) === m.g && at(m.s) === m.s && at(m.b) === m.b ? m : { ...m, d: at(m.d), g: at(m.g), s: at(m.s), b: at(m.b) })),
     capacitors: two(c.capacitors),
     resistors: two(c.resistors),
@@ -212,18 +198,21 @@ export function narrowCircuit(c: Circuit, removed: readonly number[]): { circuit
     diodes: two(c.diodes),
     sources: c.sources.map((s) => (at(s.p) === s.p && at(s.n) === s.n ? s : { ...s, p: at(s.p), n: at(s.n) })),
     others: c.others.map((o) => {
-      const moved = keptIds(o.nets);
+      const moved = ids(o.nets);
       return moved === o.nets ? o : { ...o, nets: moved };
     }),
     instances: c.instances.map((inst) => {
-      const ports = keptIds(inst.ports);
+      const ports = ids(inst.ports);
       return ports === inst.ports ? inst : { ...inst, ports };
     }),
     ports: c.ports.map((p) => (at(p.net) === p.net ? p : { ...p, net: at(p.net) })),
     supplies: c.supplies.map((s) => (at(s.net) === s.net ? s : { ...s, net: at(s.net) })),
-    grounds: keptIds(c.grounds),
-    inputs: keptIds(c.inputs),
-    outputs: keptIds(c.outputs),
+    grounds: ids(c.grounds),
+    inputs: ids(c.inputs),
+    outputs: ids(c.outputs),
   };
-  return used ? undefined : { circuit, nets: ins };
+  if (lost) return undefined;
+  setOriginIndex(out.mosfets, originIndex(c.mosfets));
+  setOriginIndex(out.instances, originIndex(c.instances));
+  return out;
 }

@@ -109,9 +109,6 @@ export function rewireNets(previousDeck: Deck, previous: Design, deck: Deck, lim
       if (prefixes.length > limit(i) / edited.length) return undefined;
       wide = widenCircuit(c, prefixes, before.slots, after.slots, portCount, inserted, named!, options);
       if (!wide) return undefined;
-      // the elements keep their places: so do their origin indexes
-      setOriginIndex(wide.circuit.mosfets, originIndex(c.mosfets));
-      setOriginIndex(wide.circuit.instances, originIndex(c.instances));
       c = wide.circuit;
     }
     const result = rewireCircuit(c, scope, portCount, after.slots, lineOf, netOrigins, lines, limit(i) / edited.length);
@@ -130,8 +127,6 @@ export function rewireNets(previousDeck: Deck, previous: Design, deck: Deck, lim
       }
       narrow = narrowCircuit(result.circuit, ids.sort((x, y) => x - y));
       if (!narrow) return undefined;
-      setOriginIndex(narrow.circuit.mosfets, originIndex(result.circuit.mosfets));
-      setOriginIndex(narrow.circuit.instances, originIndex(result.circuit.instances));
     }
     circuits.push(result.circuit);
     changed.push(result.changed);

@@ -159,9 +159,6 @@ export function spliceDevices(previousDeck: Deck, previous: Design, deck: Deck, 
       if (prefixes.length * lines.length > limit(i)) return undefined;
       wide = widenCircuit(c, prefixes, before.slots, after.slots, portCount, inserted!, named!, options);
       if (!wide) return undefined;
-      // the elements keep their places: so do their origin indexes
-      setOriginIndex(wide.circuit.mosfets, originIndex(c.mosfets));
-      setOriginIndex(wide.circuit.instances, originIndex(c.instances));
       c = wide.circuit;
     }
     const r = spliceCircuit(c, edit, limit(i));
