@@ -9,7 +9,7 @@ import * as fs from 'node:fs';
 import * as path from 'node:path';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { parseNetlist } from '../server/src/syntax/parser';
+import { movedLinesBetween, parseNetlist } from '../server/src/syntax/parser';
 import { flatNetlist, hierarchicalNetlist } from '../scripts/netlists';
 
 const ROOT = path.join(__dirname, '..');
@@ -91,8 +91,15 @@ describe('a parse from the previous parse of the file reads what a fresh parse r
     return lines.join('\n');
   }
   const long = flatNetlist(2_500);
+  // many chunks holding comments, directives, pin lines, continuations, a control block and
+  // broken lines, so that chunks moved by a line put in or taken out carry each of them
+  const sampleText = fs.readFileSync(path.join(ROOT, 'samples', fs.readdirSync(path.join(ROOT, 'samples')).find((f) => f.endsWith('.sp'))!), 'utf8');
+  const mixedLines = long.split('\n');
+  for (let at = mixedLines.length - 200; at > 1; at -= 300) mixedLines.splice(at, 0, '* a comment', '*.PININFO a:I y:O', '* tidemark: supply vdd', 'M1 a b', '+ c d nch w=1u', 'R1 a = b', sampleText.split('\n').slice(1).join('\n').replace(/^\.end\s*$/im, ''), '.control', 'run', '.endc');
+  const mixed = mixedLines.join('\n');
   const texts: Array<[string, string]> = [
     ['the flat netlist (2.5k lines)', long],
+    ['the flat netlist with comments, directives, continuations and control blocks between', mixed],
     ['the hierarchical netlist', hierarchicalNetlist(5_000)],
     ...fs.readdirSync(path.join(ROOT, 'samples')).filter((f) => f.endsWith('.sp')).map((f): [string, string] => [f, fs.readFileSync(path.join(ROOT, 'samples', f), 'utf8')]),
   ];
@@ -123,5 +130,30 @@ describe('a parse from the previous parse of the file reads what a fresh parse r
     const same = next.statements.filter((s, k) => s === first.statements[k]).length;
     expect(same).toBeGreaterThan(first.statements.length - 2_100);
     expect(same).toBeLessThan(first.statements.length);
+  });
+  it('a line put in or taken out re-reads only its chunk: the statements below are the earlier ones moved', () => {
+    const text = flatNetlist(40_000);
+    const first = parseNetlist('/x.sp', text, { hasTitle: true });
+    const lines = text.split('\n');
+    const at = 10_000;
+    lines.splice(at, 0, '* a comment put in');
+    const inserted = parseNetlist('/x.sp', lines.join('\n'), { hasTitle: true }, first);
+    expect(inserted.statements.length).toBe(first.statements.length);
+    const shifts = first.statements.map((s, k) => movedLinesBetween(s, inserted.statements[k]!));
+    const startsAbove = first.statements.filter((s) => s.range.start.line < at).length;
+    const above = shifts.filter((d, k) => d === 0 && k < startsAbove).length;
+    const below = shifts.filter((d, k) => d === 1 && k >= startsAbove).length;
+    // all but the edited chunk and perhaps its neighbour (chunks average 1,024 lines)
+    expect(above).toBeLessThanOrEqual(startsAbove);
+    expect(above).toBeGreaterThan(startsAbove - 4_096);
+    expect(below).toBeGreaterThan(first.statements.length - startsAbove - 4_096);
+    // and back: a moved reading compares with the first at once, as the same place
+    lines.splice(at, 1);
+    const back = parseNetlist('/x.sp', lines.join('\n'), { hasTitle: true }, inserted);
+    expect(first.statements.filter((s, k) => movedLinesBetween(s, back.statements[k]!) === 0).length).toBeGreaterThan(first.statements.length - 8_192);
+    expect(JSON.stringify(back)).toBe(JSON.stringify(first));
+    // words the comparison did not read are still there, at their new lines
+    const k = first.statements.length - 5;
+    expect(JSON.stringify(inserted.statements[k])).toBe(JSON.stringify(parseNetlist('/x.sp', lines.slice(0, at).concat('* a comment put in', lines.slice(at)).join('\n'), { hasTitle: true }).statements[k]));
   });
 });

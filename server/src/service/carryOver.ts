@@ -10,6 +10,7 @@ import { rangeOf, type Range } from '../core/source';
 import type { Deck } from '../circuit/deck';
 import type { SyntaxFile } from '../syntax/tree';
 import { sameItem, sameRange } from '../syntax/compare';
+import { movedLinesBetween } from '../syntax/parser';
 
 /** Old first line -> line shift, for every meaningful line of one file. */
 interface LineMap {
@@ -83,9 +84,10 @@ function fileMap(a: SyntaxFile, b: SyntaxFile): LineMap | undefined {
   for (let i = 0; i < a.statements.length; i++) {
     const x = a.statements[i]!;
     const y = b.statements[i]!;
-    // a statement the parse took from the previous one as it was (see parseNetlist)
-    if (x === y) {
-      spans.push([x.range.start.line, x.range.end.line, 0]);
+    // a statement the parse took from the previous one, as it was or moved (see parseNetlist)
+    const moved = movedLinesBetween(x, y);
+    if (moved !== undefined) {
+      spans.push([x.range.start.line, x.range.end.line, moved]);
       continue;
     }
     const shift = y.range.start.line - x.range.start.line;

@@ -3,6 +3,7 @@
 
 import type { Range } from '../core/source';
 import type { Item, Statement, SyntaxFile } from './tree';
+import { movedLinesBetween } from './parser';
 
 /** Same position after moving `lineShift` lines down (characters unchanged). */
 export function sameRange(x: Range, y: Range, lineShift: number): boolean {
@@ -83,5 +84,8 @@ export function editedStatements<T>(a: readonly SyntaxFile[], b: readonly Syntax
 
 /** The same statement, word for word, moved down `lineShift` lines. */
 export function sameStatement(x: Statement, y: Statement, lineShift = 0): boolean {
+  // one parse took it from the other's, moved (see parseNetlist): known without the words
+  const moved = movedLinesBetween(x, y);
+  if (moved !== undefined) return moved === lineShift;
   return sameRange(x.range, y.range, lineShift) && sameItem(x.head, y.head, lineShift) && x.items.length === y.items.length && x.items.every((it, k) => sameItem(it, y.items[k]!, lineShift));
 }

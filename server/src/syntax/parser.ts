@@ -53,6 +53,10 @@ class ParsedWord implements WordItem {
   get range(): Range {
     return new Span(this.sl, this.sc, this.el, this.ec);
   }
+  /** The same word `lines` lines further down. */
+  movedDown(lines: number): ParsedWord {
+    return new ParsedWord(this.text, this.sl + lines, this.sc, this.el + lines, this.ec);
+  }
   toJSON(): WordItem {
     return { kind: 'word', text: this.text, range: this.range };
   }
@@ -198,9 +202,11 @@ const PININFO_PREFIX = /^\*\.pininfo\b/i;
 /**
  * Parses one file. Never throws: anything it cannot read becomes a `syntax` diagnostic with the
  * range of the offending text, and the rest of the file is read as usual. With `previous` (an
- * earlier parse of the same file), every chunk whose text, first line and parser state are
- * unchanged is taken from it as it is (the same statement objects), so an edit that keeps the
- * line count re-reads only its own chunk of a long file.
+ * earlier parse of the same file), every chunk whose text and parser state are unchanged is
+ * taken from it: at the same line as it is (the same statement objects), at another line as
+ * `MovedStatement`s over the earlier ones. Chunks end where the text says (`chunksOf`), so an
+ * edit re-reads only its own chunk of a long file (and perhaps a neighbour), whether or not it
+ * changes the line count.
  */
 export function parseNetlist(file: string, text: string, options: ParseOptions = { hasTitle: true }, previous?: SyntaxFile): SyntaxFile {
   const titleLine = options.hasTitle ? 1 : 0;
@@ -210,16 +216,22 @@ export function parseNetlist(file: string, text: string, options: ParseOptions =
     title = (eol < 0 ? text : text.slice(0, eol)).trim();
   }
   const plainLines = options.plainLines !== false;
-  const earlier = new Map<number, ChunkParse>();
-  if (previous && previous.file === file) for (const r of chunkParses.get(previous) ?? []) earlier.set(r.line, r);
-
+  // the earlier chunks by text: a chunk that moved (lines put in or taken out above it) is
+  // taken too, moved down or up
+  const earlier = new Map<string, ChunkParse[]>();
+  if (previous && previous.file === file) {
+    for (const r of chunkParses.get(previous) ?? []) {
+      const same = earlier.get(r.text);
+      if (same) same.push(r);
+      else earlier.set(r.text, [r]);
+    }
+  }
   const records: ChunkParse[] = [];
   let state: ChunkParse['stateIn'] = { inControl: false, ended: false };
   for (const chunk of chunksOf(text)) {
     const chunkText = text.slice(chunk.start, chunk.end);
-    const old = earlier.get(chunk.line);
-    const reuse = old && old.text === chunkText && old.titleLine === titleLine && old.stateIn.inControl === state.inControl && old.stateIn.ended === state.ended;
-    const r = reuse ? old : parseChunk(file, text, chunk, chunkText, titleLine, state, plainLines);
+    const old = reusableChunk(earlier.get(chunkText), chunk, titleLine, state);
+    const r = !old ? parseChunk(file, text, chunk, chunkText, titleLine, state, plainLines) : old.line === chunk.line ? old : movedChunk(old, chunk);
     records.push(r);
     state = r.stateOut;
   }
@@ -250,16 +262,110 @@ interface ChunkParse {
   comments: IToken[];
   diagnostics: Diagnostic[];
   lineBreaks: number;
+  /** The character offset the chunk starts at (the comment tokens' offsets count from the file's start). */
+  start: number;
 }
 
 /** Each parse's chunks, for the next parse of the same file. */
 const chunkParses = new WeakMap<SyntaxFile, ChunkParse[]>();
 
+/**
+ * An earlier chunk of the same text that the parse may take for this one: read in the same
+ * parser state and title mode, the one at the same line first. A chunk holding the title line
+ * is taken only where it was (the title is not read as a statement).
+ */
+function reusableChunk(candidates: ChunkParse[] | undefined, chunk: { line: number }, titleLine: number, state: ChunkParse['stateIn']): ChunkParse | undefined {
+  if (!candidates) return undefined;
+  let found: ChunkParse | undefined;
+  for (const old of candidates) {
+    if (old.titleLine !== titleLine || old.stateIn.inControl !== state.inControl || old.stateIn.ended !== state.ended) continue;
+    if (old.line === chunk.line) return old;
+    const holdsTitle = (line: number) => titleLine > 0 && line <= titleLine - 1;
+    if (!holdsTitle(old.line) && !holdsTitle(chunk.line)) found ??= old;
+  }
+  return found;
+}
+
+/**
+ * A statement the parse took from an earlier parse, moved by whole lines. It keeps the first
+ * reading it came from (through any parses between) and the lines moved since, so a comparison
+ * of the two parses need not read the words; its words are made from that reading when first
+ * read (a comment line put in above half of a long file moves every statement below it, and the
+ * editor's carry-over of findings reads none of their words). Its wire shape is a plain
+ * statement's.
+ */
+class MovedStatement implements Statement {
+  private movedHead: WordItem | undefined;
+  private movedItems: Item[] | undefined;
+  constructor(
+    readonly range: Range,
+    readonly first: Statement,
+    readonly lines: number,
+  ) {}
+  get head(): WordItem {
+    return (this.movedHead ??= movedWord(this.first.head, this.lines));
+  }
+  get items(): Item[] {
+    return (this.movedItems ??= this.first.items.map((it) => movedItem(it, this.lines)));
+  }
+  toJSON(): Statement {
+    return { head: this.head, items: this.items, range: this.range };
+  }
+}
+
+function movedRange(r: Range, lines: number): Range {
+  return new Span(r.start.line + lines, r.start.character, r.end.line + lines, r.end.character);
+}
+
+function movedWord(w: WordItem, lines: number): WordItem {
+  return w instanceof ParsedWord ? w.movedDown(lines) : { kind: 'word', text: w.text, range: movedRange(w.range, lines) };
+}
+
+function movedValue(v: ValueItem, lines: number): ValueItem {
+  switch (v.kind) {
+    case 'word':
+      return movedWord(v, lines);
+    case 'group':
+      return { kind: 'group', items: v.items.map((it) => movedItem(it, lines)), range: movedRange(v.range, lines) };
+    default:
+      return { ...v, range: movedRange(v.range, lines) };
+  }
+}
+
+function movedItem(it: Item, lines: number): Item {
+  return it.kind === 'assign' ? new ParsedAssign(movedWord(it.name, lines), it.value && movedValue(it.value, lines)) : movedValue(it, lines);
+}
+
+/**
+ * How many lines `y` sits below `x` when both are readings of the same statement, word for word,
+ * one taken from the other's parse moved by whole lines (directly or through parses between);
+ * undefined when that is not known (they may still be equal).
+ */
+export function movedLinesBetween(x: Statement, y: Statement): number | undefined {
+  const fx = x instanceof MovedStatement ? x.first : x;
+  const fy = y instanceof MovedStatement ? y.first : y;
+  if (fx !== fy) return undefined;
+  return (y instanceof MovedStatement ? y.lines : 0) - (x instanceof MovedStatement ? x.lines : 0);
+}
+
+/**
+ * An earlier chunk's reading at the place its text now starts: the same text read at another
+ * line reads the same, every position moved by the line count (columns stay).
+ */
+function movedChunk(old: ChunkParse, chunk: { start: number; line: number }): ChunkParse {
+  const lines = chunk.line - old.line;
+  const chars = chunk.start - old.start;
+  const statements = old.statements.map((s): Statement => (s instanceof MovedStatement ? new MovedStatement(movedRange(s.range, lines), s.first, s.lines + lines) : new MovedStatement(movedRange(s.range, lines), s, lines)));
+  const comments = old.comments.map((t): IToken => ({ ...t, startOffset: t.startOffset + chars, endOffset: t.endOffset === undefined ? undefined : t.endOffset + chars, startLine: t.startLine! + lines, endLine: t.endLine! + lines }));
+  const diagnostics = old.diagnostics.map((d): Diagnostic => ({ ...d, range: movedRange(d.range, lines) }));
+  return { ...old, line: chunk.line, start: chunk.start, statements, startLines: old.startLines.map((l) => l + lines), comments, diagnostics };
+}
+
 function parseChunk(file: string, text: string, chunk: { start: number; end: number; line: number }, chunkText: string, titleLine: number, stateIn: ChunkParse['stateIn'], plainLines: boolean): ChunkParse {
   const statements: Statement[] = [];
   const comments: IToken[] = [];
   const diagnostics: Diagnostic[] = [];
-  const record = (lineBreaks: number): ChunkParse => ({ text: chunkText, line: chunk.line, titleLine, stateIn, stateOut: { inControl, ended }, statements, startLines: statements.map((x) => x.range.start.line), comments, diagnostics, lineBreaks });
+  const record = (lineBreaks: number): ChunkParse => ({ text: chunkText, line: chunk.line, titleLine, stateIn, stateOut: { inControl, ended }, statements, startLines: statements.map((x) => x.range.start.line), comments, diagnostics, lineBreaks, start: chunk.start });
   // The optimised lexer knows only ASCII first characters: lex a copy with every other UTF-16
   // unit replaced by '~' (same length, so offsets, lines and columns hold), then restore images.
   const nonAscii = /[^\x00-\x7f]/.test(chunkText);
@@ -356,8 +462,17 @@ function parseChunk(file: string, text: string, chunk: { start: number; end: num
   return record(lineBreaks);
 }
 
-/** Lines per chunk: small enough that an edit re-reads little, large enough that tokens die young. */
+/**
+ * Lines per chunk on average (a power of two: the share of lines a cut may go before): small
+ * enough that an edit re-reads little, large enough that tokens die young. No chunk is shorter
+ * than MIN_CHUNK_LINES; one longer than MAX_CHUNK_LINES ends at the next statement (text with
+ * few lines that hash to a cut, such as many copies of one line).
+ */
 const CHUNK_LINES = 1024;
+const MIN_CHUNK_LINES = 128;
+const MAX_CHUNK_LINES = 8192;
+/** How many of a line's first characters decide whether a chunk may start there. */
+const CUT_HASH_CHARS = 24;
 
 // Character classes of the plain-line reader (ASCII codes).
 const PLAIN_OTHER = 0;
@@ -459,9 +574,11 @@ function plainStatement(words: ReadonlyArray<WordItem | '='>): Statement | undef
 /**
  * Splits the text into chunks of about CHUNK_LINES lines, each ending where a statement starts
  * (never before a '+' continuation, a comment line or a blank line, which may belong to the
- * statement before). Boundaries follow line counts, not offsets, so an edit that keeps the line
- * count leaves every other chunk's text and first line as they were. `line` is the 0-based line
- * the chunk starts on.
+ * statement before). Where a chunk ends is decided by the text of the line after it (a hash of
+ * its first characters), not by line counts: an edit changes the chunk it is in (and at most its
+ * neighbour, when it makes or unmakes a cut), and every other chunk keeps its text, so lines put
+ * in or taken out leave the later chunks to be taken from the previous parse, moved. `line` is
+ * the 0-based line the chunk starts on.
  */
 function* chunksOf(text: string): Generator<{ start: number; end: number; line: number }> {
   let start = 0;
@@ -471,15 +588,27 @@ function* chunksOf(text: string): Generator<{ start: number; end: number; line: 
     const nl = text.indexOf('\n', from);
     return nl < 0 ? text.length : nl + 1;
   };
+  /** The line at `at` starts a statement, and its text says a chunk may start there. */
+  const cutBefore = (at: number, force: boolean): boolean => {
+    let k = at;
+    while (k < text.length && (text.charCodeAt(k) === 32 || text.charCodeAt(k) === 9)) k++;
+    const c = text.charCodeAt(k);
+    if (k >= text.length || c === 43 /* + */ || c === 42 /* * */ || c === 10 || c === 13) return false;
+    if (force) return true;
+    // FNV-1a over the line's first characters (its element name, mostly)
+    let h = 0x811c9dc5;
+    for (let i = k, stop = Math.min(text.length, k + CUT_HASH_CHARS); i < stop; i++) {
+      const ch = text.charCodeAt(i);
+      if (ch === 10 || ch === 13) break;
+      h = Math.imul(h ^ ch, 0x01000193);
+    }
+    return ((h >>> 0) & (CHUNK_LINES - 1)) === 0;
+  };
   while (start < text.length || start === 0) {
     let end = start;
     let breaks = 0;
-    for (; end < text.length && breaks < CHUNK_LINES; breaks++) end = nextLine(end);
-    while (end < text.length) {
-      let k = end;
-      while (k < text.length && (text.charCodeAt(k) === 32 || text.charCodeAt(k) === 9)) k++;
-      const c = text.charCodeAt(k);
-      if (k < text.length && c !== 43 /* + */ && c !== 42 /* * */ && c !== 10 && c !== 13) break;
+    for (; end < text.length && breaks < MIN_CHUNK_LINES; breaks++) end = nextLine(end);
+    while (end < text.length && !cutBefore(end, breaks >= MAX_CHUNK_LINES)) {
       end = nextLine(end);
       breaks++;
     }
