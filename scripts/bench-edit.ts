@@ -73,7 +73,9 @@ async function measure(transistors: number, all: Edit[], flat = false): Promise<
   const size = flat ? `${transistors.toLocaleString('en-US')} transistors, flat` : `${(Math.ceil(transistors / 48 / 20) * 20 * 48).toLocaleString('en-US')} transistors`;
   fs.writeFileSync(file, text);
   const uri = pathToFileURL(file).toString();
-  const proc = spawn(process.execPath, ['--max-old-space-size=4096', path.join(__dirname, '..', 'dist', 'server.js'), '--stdio'], { stdio: ['pipe', 'pipe', 'inherit'] });
+  // TIDEMARK_BENCH_SERVER_ARGS: Node flags for the server (e.g. --cpu-prof --cpu-prof-dir=/tmp/prof)
+  const serverArgs = (process.env.TIDEMARK_BENCH_SERVER_ARGS ?? '').split(' ').filter(Boolean);
+  const proc = spawn(process.execPath, ['--max-old-space-size=4096', ...serverArgs, path.join(__dirname, '..', 'dist', 'server.js'), '--stdio'], { stdio: ['pipe', 'pipe', 'inherit'] });
   const conn = createMessageConnection(new StreamMessageReader(proc.stdout!), new StreamMessageWriter(proc.stdin!));
   let waiting: ((n: number) => void) | undefined;
   conn.onNotification('textDocument/publishDiagnostics', (p: { uri: string; diagnostics: unknown[] }) => {

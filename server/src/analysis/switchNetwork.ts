@@ -332,22 +332,43 @@ export function patchSwitchNetwork(prev: SwitchNetwork, c: Circuit, moved: reado
     for (const si of comp.switches) if (switches[si]!.gate === g) return si;
     return Infinity;
   };
+  // the rebuilt groups each net gates (an edit in a cell with thousands of copies rebuilds
+  // thousands of groups, most gating only their own copy's nets)
+  const rebuiltGatedBy = new Map<number, Component[]>();
+  for (const comp of rebuiltGroups) {
+    for (const g of comp.gates) {
+      const list = rebuiltGatedBy.get(g);
+      if (list) list.push(comp);
+      else rebuiltGatedBy.set(g, [comp]);
+    }
+  }
   for (const g of gatesToRedo) {
-    // the kept groups stay in their order; each rebuilt one goes in at its place (a clock's
-    // list holds thousands of groups: found by bisection)
-    const owners = prev.gatedComponents[g]!.filter((id) => !touched.has(id));
-    for (const comp of rebuiltGroups) {
-      if (!comp.gates.includes(g)) continue;
-      const key = firstGated(comp, g);
-      let lo = 0;
-      let hi = owners.length;
+    // the kept groups stay in their order; the rebuilt ones go in at their places, in one merge
+    // of two lists sorted by the first switch each group has on the net (a clock's list holds
+    // thousands of groups, and an edit in a repeated cell puts thousands back)
+    const kept = prev.gatedComponents[g]!.filter((id) => !touched.has(id));
+    const added = (rebuiltGatedBy.get(g) ?? []).map((comp): [number, number] => [firstGated(comp, g), comp.id]).sort((x, y) => x[0] - y[0]);
+    if (added.length === 0) {
+      gatedComponents[g] = kept;
+      continue;
+    }
+    // each rebuilt group's place among the kept ones by bisection (reading few kept groups'
+    // switch lists), then one pass
+    const owners: number[] = [];
+    let from = 0;
+    for (const [key, id] of added) {
+      let lo = from;
+      let hi = kept.length;
       while (lo < hi) {
         const mid = (lo + hi) >> 1;
-        if (firstGated(components[owners[mid]!]!, g) < key) lo = mid + 1;
+        if (firstGated(components[kept[mid]!]!, g) < key) lo = mid + 1;
         else hi = mid;
       }
-      owners.splice(lo, 0, comp.id);
+      for (let k = from; k < lo; k++) owners.push(kept[k]!);
+      owners.push(id);
+      from = lo;
     }
+    for (let k = from; k < kept.length; k++) owners.push(kept[k]!);
     gatedComponents[g] = owners;
   }
 
