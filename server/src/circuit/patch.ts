@@ -13,6 +13,7 @@ import { parseSpiceNumber } from './numbers';
 import { editedStatements, sameItem, sameWords } from '../syntax/compare';
 import type { AssignItem, Item, Statement } from '../syntax/tree';
 import { interpretElement } from './elements';
+import { lineIndex, setLineIndex } from './rewire';
 
 /** Sizes the patch can take, and how each scales with the geometry scale. */
 export const SIZE_PARAMS: Record<string, 'length' | 'area' | 'count'> = { w: 'length', l: 'length', pd: 'length', ps: 'length', ad: 'area', as: 'area', m: 'count', mult: 'count', nf: 'count' };
@@ -62,7 +63,12 @@ export function patchSizes(previousDeck: Deck, previous: Design, deck: Deck): Si
   for (const c of previous.circuits) {
     const indices: number[] = [];
     let mosfets: Mosfet[] | undefined;
-    for (let k = 0; k < c.mosfets.length; k++) {
+    // the devices written on the edited lines (every instance of each), in list order
+    const lines = lineIndex(c.mosfets);
+    const candidates: number[] = [];
+    for (const at of byLine.keys()) candidates.push(...(lines.get(at) ?? []));
+    candidates.sort((x, y) => x - y);
+    for (const k of candidates) {
       const m = c.mosfets[k]!;
       const hit = targetOf(m.origin);
       if (!hit) continue;
@@ -88,6 +94,8 @@ export function patchSizes(previousDeck: Deck, previous: Design, deck: Deck): Si
       indices.push(k);
     }
     changed.push(indices);
+    // every device stays on its line
+    if (mosfets) setLineIndex(mosfets, lines);
     circuits.push(mosfets ? { ...c, mosfets } : c);
   }
   // a line whose model changed but whose devices were left out (a model with no card and no

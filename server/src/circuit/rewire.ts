@@ -413,6 +413,35 @@ export function originIndex(list: ReadonlyArray<{ origin: Origin }>): OriginInde
   return index;
 }
 
+/**
+ * The positions of a list's elements by the line their origin starts on (all files together: a
+ * caller checks the file), built once per list from its origin index. An edit that keeps every
+ * element on its line (a size edit) carries it to the list it makes (`setLineIndex`), so a flat
+ * netlist's edit does not read every element to find its line's devices.
+ */
+export type LineIndex = Map<number, number[]>;
+const lineIndexes = new WeakMap<readonly object[], LineIndex>();
+
+export function lineIndex(list: ReadonlyArray<{ origin: Origin }>): LineIndex {
+  let index = lineIndexes.get(list);
+  if (!index) {
+    index = new Map();
+    for (const [o, at] of originIndex(list)) {
+      const line = startLineOf(o.range);
+      const there = index.get(line);
+      if (there) there.push(...at);
+      else index.set(line, at.slice());
+    }
+    for (const at of index.values()) at.sort((x, y) => x - y);
+    lineIndexes.set(list, index);
+  }
+  return index;
+}
+
+export function setLineIndex(list: ReadonlyArray<{ origin: Origin }>, index: LineIndex): void {
+  lineIndexes.set(list, index);
+}
+
 /** Records `index` as the origin index of `list` (an edit that made the list worked it out). */
 export function setOriginIndex(list: ReadonlyArray<{ origin: Origin }>, index: OriginIndex): void {
   originIndexes.set(list, index);
