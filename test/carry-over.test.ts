@@ -9,6 +9,8 @@ import { describe, expect, it } from 'vitest';
 import { analyse, readDeck } from '../server/src/engine';
 import { diskHost } from '../server/src/cli/diskHost';
 import { carryOver } from '../server/src/service/carryOver';
+import { memoryHost } from '../server/src/core/host';
+import { sharedRuns } from '../server/src/syntax/parser';
 import { overlay } from './support/edits';
 
 const SAMPLES = path.join(__dirname, '..', 'samples');
@@ -67,4 +69,46 @@ describe('carry-over of findings across edits that change no meaning', () => {
       expect(answered).toBeGreaterThan(0);
     });
   }
+});
+
+/**
+ * A long flat netlist (thousands of lines, several parser chunks) with findings all through it:
+ * domino stages whose dynamic nodes float while they evaluate, input and accept directives,
+ * comments and continuation lines between.
+ */
+function flatDominoNetlist(stages: number): string {
+  const lines = ['tern bring-up: flat domino stages', '.model bn nmos level=1 vto=0.4 kp=200u', '.model bp pmos level=1 vto=-0.4 kp=80u', 'vdd vdd 0 1.0', 'vss vss 0 0', 'vclk clk 0 PULSE(0 1 0 10p 10p 0.5n 1n)'];
+  for (let i = 0; i < stages; i++) {
+    lines.push(`* stage ${i}`);
+    if (i % 7 === 0) lines.push(`* tidemark: input a${i} b${i}`);
+    if (i % 11 === 0) lines.push(`* tidemark: accept dyn${i} floating-node reason="stage ${i} reviewed"`);
+    lines.push(`Mpre${i} dyn${i} clk vdd vdd bp w=0.5u l=0.05u`, `Mna${i} dyn${i} a${i} n${i} vss bn w=0.6u l=0.05u`, `Mnb${i} n${i} b${i} foot${i} vss bn w=0.6u`, '+ l=0.05u', `Mft${i} foot${i} clk vss vss bn w=0.8u l=0.05u`);
+    lines.push(`Min${i} out${i} dyn${i} vss vss bn w=0.3u l=0.05u`, `Mip${i} out${i} dyn${i} vdd vdd bp w=0.6u l=0.05u`, '');
+  }
+  lines.push('.end', '');
+  return lines.join('\n');
+}
+
+describe('carry-over in a long flat netlist: chunks both parses took from the same text move whole', () => {
+  it('a comment or blank line put in anywhere is carried over, equal to a full re-analysis', () => {
+    const file = '/tern/flat_domino.sp';
+    const original = flatDominoNetlist(400);
+    const before = analyse(memoryHost({ [file]: original }), file);
+    expect(before.diagnostics.length).toBeGreaterThan(100);
+    let shared = 0;
+    fc.assert(
+      fc.property(fc.array(fc.record({ kind: fc.constantFrom<Edit['kind']>('comment', 'blank'), at: fc.nat(100_000) }), { minLength: 1, maxLength: 3 }), (edits) => {
+        const { text, meaningless } = apply(original, edits);
+        const host = memoryHost({ [file]: text });
+        const deck = readDeck(host, file);
+        // the parse of this text started from the last one, which started from others before it
+        if (sharedRuns(before.deck.files[0]!, deck.files[0]!).some((r) => r.count > 0)) shared++;
+        const moved = carryOver(before, deck);
+        if (meaningless) expect(moved, 'a comment or blank-line edit is carried over').toBeDefined();
+        if (moved) expect(plain(moved)).toEqual(plain(analyse(host, file).diagnostics));
+      }),
+      { numRuns: 12, seed: 11 },
+    );
+    expect(shared).toBeGreaterThan(0);
+  }, 120_000);
 });

@@ -9,7 +9,7 @@ import * as fs from 'node:fs';
 import * as path from 'node:path';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { movedLinesBetween, parseNetlist } from '../server/src/syntax/parser';
+import { chunkLines, movedLinesBetween, parseNetlist, sharedRuns } from '../server/src/syntax/parser';
 import { flatNetlist, hierarchicalNetlist } from '../scripts/netlists';
 
 const ROOT = path.join(__dirname, '..');
@@ -110,15 +110,21 @@ describe('a parse from the previous parse of the file reads what a fresh parse r
         fc.property(fc.nat(100_000), fc.nat(3), fc.nat(1000), fc.nat(100_000), fc.nat(3), fc.nat(1000), (w1, k1, p1, w2, k2, p2) => {
           const once = edit(text, w1, k1, p1);
           const fromFirst = parseNetlist('/x.sp', once, { hasTitle: true }, first);
-          expect(JSON.stringify(fromFirst)).toBe(JSON.stringify(parseNetlist('/x.sp', once, { hasTitle: true })));
+          const fresh = parseNetlist('/x.sp', once, { hasTitle: true });
+          expect(JSON.stringify(fromFirst)).toBe(JSON.stringify(fresh));
+          // the earlier chunks recognised where their text now starts cut the text as a fresh parse does
+          expect(chunkLines(fromFirst)).toEqual(chunkLines(fresh));
           const twice = edit(once, w2, k2, p2);
-          expect(JSON.stringify(parseNetlist('/x.sp', twice, { hasTitle: true }, fromFirst))).toBe(JSON.stringify(parseNetlist('/x.sp', twice, { hasTitle: true })));
+          const fromOnce = parseNetlist('/x.sp', twice, { hasTitle: true }, fromFirst);
+          const freshTwice = parseNetlist('/x.sp', twice, { hasTitle: true });
+          expect(JSON.stringify(fromOnce)).toBe(JSON.stringify(freshTwice));
+          expect(chunkLines(fromOnce)).toEqual(chunkLines(freshTwice));
         }),
         { numRuns: name.startsWith('the flat') ? 12 : 25, seed: 37 },
       );
     }, 120_000);
   }
-  it('an edit that keeps the line count re-reads only its chunk: the other statements are the same objects', () => {
+  it('an edit that keeps the line count re-reads only its chunk, and every other statement is the earlier object', () => {
     const first = parseNetlist('/x.sp', long, { hasTitle: true });
     const lines = long.split('\n');
     const at = lines.length - 10;
@@ -127,9 +133,9 @@ describe('a parse from the previous parse of the file reads what a fresh parse r
     lines[at] = edited;
     const next = parseNetlist('/x.sp', lines.join('\n'), { hasTitle: true }, first);
     expect(next.statements.length).toBe(first.statements.length);
+    // the unchanged lines of the chunk read again keep their earlier readings too
     const same = next.statements.filter((s, k) => s === first.statements[k]).length;
-    expect(same).toBeGreaterThan(first.statements.length - 2_100);
-    expect(same).toBeLessThan(first.statements.length);
+    expect(same).toBe(first.statements.length - 1);
   });
   it('a line put in or taken out re-reads only its chunk: the statements below are the earlier ones moved', () => {
     const text = flatNetlist(40_000);
@@ -143,14 +149,25 @@ describe('a parse from the previous parse of the file reads what a fresh parse r
     const startsAbove = first.statements.filter((s) => s.range.start.line < at).length;
     const above = shifts.filter((d, k) => d === 0 && k < startsAbove).length;
     const below = shifts.filter((d, k) => d === 1 && k >= startsAbove).length;
-    // all but the edited chunk and perhaps its neighbour (chunks average 1,024 lines)
-    expect(above).toBeLessThanOrEqual(startsAbove);
-    expect(above).toBeGreaterThan(startsAbove - 4_096);
-    expect(below).toBeGreaterThan(first.statements.length - startsAbove - 4_096);
+    // every statement: the chunks taken whole and, in the chunk read again, the unchanged lines
+    expect(above).toBe(startsAbove);
+    expect(below).toBe(first.statements.length - startsAbove);
+    // the runs both parses read from one chunk text: each of their lines reads the same at the
+    // shift, and a run ends where the next chunk starts
+    const runs = sharedRuns(first, inserted);
+    expect(runs.length).toBeGreaterThan(10);
+    const starts = chunkLines(first);
+    const before = text.split('\n');
+    for (const r of runs) {
+      expect(starts).toContain(r.fromLine);
+      expect(r.toLine + 1 === before.length - 1 || starts.includes(r.toLine + 1)).toBe(true);
+      for (let l = r.fromLine; l <= r.toLine; l++) expect(lines[l + r.shift]).toBe(before[l]);
+      expect(inserted.statements[r.bFirst]!.range.start.line - first.statements[r.aFirst]!.range.start.line).toBe(r.shift);
+    }
     // and back: a moved reading compares with the first at once, as the same place
     lines.splice(at, 1);
     const back = parseNetlist('/x.sp', lines.join('\n'), { hasTitle: true }, inserted);
-    expect(first.statements.filter((s, k) => movedLinesBetween(s, back.statements[k]!) === 0).length).toBeGreaterThan(first.statements.length - 8_192);
+    expect(first.statements.filter((s, k) => movedLinesBetween(s, back.statements[k]!) === 0).length).toBe(first.statements.length);
     expect(JSON.stringify(back)).toBe(JSON.stringify(first));
     // words the comparison did not read are still there, at their new lines
     const k = first.statements.length - 5;

@@ -56,6 +56,8 @@ export type ParseFn = (file: string, text: string, hasTitle: boolean) => SyntaxF
 
 type StreamEntry =
   | { kind: 'stmt'; file: string; stmt: Statement }
+  /** Element lines `statements[from..to)` of one file, passed on without being read. */
+  | { kind: 'run'; file: string; statements: Statement[]; from: number; to: number }
   | { kind: 'directive'; file: string; d: DirectiveLine }
   | { kind: 'pininfo'; file: string; p: PinInfoLine };
 
@@ -97,17 +99,29 @@ export function loadDeck(host: FileHost, roots: { file: string; text: string }[]
     let skippingLib: string | undefined;
     let inWantedSection = section === undefined;
     let sectionFound = section === undefined;
-    for (let i = 0; i < f.statements.length; i++) {
-      while (si < specials.length && specials[si]!.index <= i) {
+    // the special comments due before statement `at`
+    const specialsBefore = (at: number) => {
+      while (si < specials.length && specials[si]!.index <= at) {
         if (inWantedSection && !skippingLib) stream.push(specials[si]!.entry);
         si++;
       }
-      const stmt = f.statements[i]!;
-      // an element line (most of a long file) is passed on as it is
-      if (stmt.head.text.charCodeAt(0) !== 46 /* . */) {
-        if (inWantedSection && !skippingLib) stream.push({ kind: 'stmt', file: f.file, stmt });
-        continue;
+    };
+    // element lines (most of a long file) are passed on in runs, unread, between the cards and
+    // the special comments
+    let next = 0;
+    const passOn = (to: number) => {
+      while (next < to) {
+        specialsBefore(next);
+        const end = si < specials.length ? Math.min(to, specials[si]!.index) : to;
+        if (inWantedSection && !skippingLib) stream.push({ kind: 'run', file: f.file, statements: f.statements, from: next, to: end });
+        next = end;
       }
+    };
+    for (const i of f.cardIndices) {
+      passOn(i);
+      specialsBefore(i);
+      next = i + 1;
+      const stmt = f.statements[i]!;
       const head = stmt.head.text.toLowerCase();
       const { positional } = splitItems(stmt.items);
       const args = positional.map((p) => (p.kind === 'word' || p.kind === 'string' ? p.text : ''));
@@ -153,6 +167,7 @@ export function loadDeck(host: FileHost, roots: { file: string; text: string }[]
       }
       stream.push({ kind: 'stmt', file: f.file, stmt });
     }
+    passOn(f.statements.length);
     while (si < specials.length) {
       if (inWantedSection && !skippingLib) stream.push(specials[si]!.entry);
       si++;
@@ -187,8 +202,13 @@ function buildDefinitions(stream: StreamEntry[], deck: Deck): void {
       if (cur) for (const p of e.p.pins) cur.pinDirections.set(p.name.toLowerCase(), p.direction);
       continue;
     }
+    if (e.kind === 'run') {
+      const into = cur ? cur.body : deck.top;
+      for (let k = e.from; k < e.to; k++) into.push({ file: e.file, item: e.statements[k]! });
+      continue;
+    }
     const stmt = e.stmt;
-    const head = stmt.head.text.charCodeAt(0) === 46 /* . */ ? stmt.head.text.toLowerCase() : '';
+    const head = stmt.head.text.toLowerCase();
     if (head === '.subckt' || head === '.macro') {
       const { positional, params } = splitItems(stmt.items);
       const ws = positional.filter((p): p is WordItem => p.kind === 'word');

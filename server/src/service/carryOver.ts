@@ -10,7 +10,7 @@ import { rangeOf, type Range } from '../core/source';
 import type { Deck } from '../circuit/deck';
 import type { SyntaxFile } from '../syntax/tree';
 import { sameItem, sameRange } from '../syntax/compare';
-import { movedLinesBetween } from '../syntax/parser';
+import { movedLinesBetween, sharedRuns } from '../syntax/parser';
 
 /** Old first line -> line shift, for every meaningful line of one file. */
 interface LineMap {
@@ -81,7 +81,17 @@ function fileMap(a: SyntaxFile, b: SyntaxFile): LineMap | undefined {
   if (a.file !== b.file || a.title !== b.title) return undefined;
   if (a.statements.length !== b.statements.length || a.directives.length !== b.directives.length || a.pinInfos.length !== b.pinInfos.length || a.diagnostics.length !== b.diagnostics.length) return undefined;
   const spans: Array<[number, number, number]> = [];
+  // chunks both parses read from the same text: every line in them moved alike, unread
+  const runs = sharedRuns(a, b).filter((r) => r.aFirst === r.bFirst);
+  let run = 0;
   for (let i = 0; i < a.statements.length; i++) {
+    const r = runs[run];
+    if (r && r.aFirst === i) {
+      run++;
+      spans.push([r.fromLine, r.toLine, r.shift]);
+      i += r.count - 1;
+      continue;
+    }
     const x = a.statements[i]!;
     const y = b.statements[i]!;
     // a statement the parse took from the previous one, as it was or moved (see parseNetlist)
@@ -97,13 +107,23 @@ function fileMap(a: SyntaxFile, b: SyntaxFile): LineMap | undefined {
     if (!sameRange(x.range, y.range, shift)) return undefined;
     spans.push([x.range.start.line, x.range.end.line, shift]);
   }
+  // (statements and chunks come in file order; a statement's span may hold comment lines)
+  spans.sort((p, q) => p[0] - q[0]);
+  const m: LineMap = { spans };
+  // special comments: inside a shared chunk's span they moved with it; elsewhere their own spans
+  const others: Array<[number, number, number]> = [];
+  const place = (x: { range: Range }, shift: number): boolean => {
+    const known = shiftAt(m, x.range.start.line);
+    if (known === undefined) others.push([x.range.start.line, x.range.end.line, shift]);
+    return known === undefined || known === shift;
+  };
   for (let i = 0; i < a.directives.length; i++) {
     const x = a.directives[i]!;
     const y = b.directives[i]!;
     const shift = y.range.start.line - x.range.start.line;
     if (x.verb !== y.verb || x.statementIndex !== y.statementIndex || x.args.length !== y.args.length || !sameRange(x.range, y.range, shift)) return undefined;
     for (let k = 0; k < x.args.length; k++) if (x.args[k]!.text !== y.args[k]!.text || !sameRange(x.args[k]!.range, y.args[k]!.range, shift)) return undefined;
-    spans.push([x.range.start.line, x.range.end.line, shift]);
+    if (!place(x, shift)) return undefined;
   }
   for (let i = 0; i < a.pinInfos.length; i++) {
     const x = a.pinInfos[i]!;
@@ -111,11 +131,13 @@ function fileMap(a: SyntaxFile, b: SyntaxFile): LineMap | undefined {
     const shift = y.range.start.line - x.range.start.line;
     if (x.statementIndex !== y.statementIndex || x.pins.length !== y.pins.length || !sameRange(x.range, y.range, shift)) return undefined;
     for (let k = 0; k < x.pins.length; k++) if (x.pins[k]!.name !== y.pins[k]!.name || x.pins[k]!.direction !== y.pins[k]!.direction || !sameRange(x.pins[k]!.range, y.pins[k]!.range, shift)) return undefined;
-    spans.push([x.range.start.line, x.range.end.line, shift]);
+    if (!place(x, shift)) return undefined;
+  }
+  if (others.length) {
+    spans.push(...others);
+    spans.sort((p, q) => p[0] - q[0]);
   }
   // the parser's own findings (broken lines) must be the same ones, moved like their lines
-  spans.sort((p, q) => p[0] - q[0]);
-  const m: LineMap = { spans };
   for (let i = 0; i < a.diagnostics.length; i++) {
     const x = a.diagnostics[i]!;
     const y = b.diagnostics[i]!;

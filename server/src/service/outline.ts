@@ -17,7 +17,9 @@ export interface OutlineSymbol {
 export function outline(f: SyntaxFile): OutlineSymbol[] {
   const top: OutlineSymbol[] = [];
   const stack: OutlineSymbol[] = [];
-  for (const s of f.statements) {
+  // only dot cards make symbols: element lines (most of a long file) are not read
+  for (const k of f.cardIndices) {
+    const s = f.statements[k]!;
     const head = s.head.text.toLowerCase();
     const here = stack.length ? stack[stack.length - 1]!.children : top;
     if (head === '.subckt') {

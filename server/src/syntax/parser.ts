@@ -218,32 +218,51 @@ export function parseNetlist(file: string, text: string, options: ParseOptions =
   const plainLines = options.plainLines !== false;
   // the earlier chunks by text: a chunk that moved (lines put in or taken out above it) is
   // taken too, moved down or up
+  const earlierRecords = previous && previous.file === file ? (chunkParses.get(previous) ?? []) : [];
   const earlier = new Map<string, ChunkParse[]>();
-  if (previous && previous.file === file) {
-    for (const r of chunkParses.get(previous) ?? []) {
-      const same = earlier.get(r.text);
-      if (same) same.push(r);
-      else earlier.set(r.text, [r]);
-    }
+  for (const r of earlierRecords) {
+    const same = earlier.get(r.text);
+    if (same) same.push(r);
+    else earlier.set(r.text, [r]);
   }
+  const chunks = [...chunksOf(text, earlierRecords)].map((chunk) => ({ ...chunk, text: text.slice(chunk.start, chunk.end) }));
+  // the earlier statements of the chunks whose text is gone (the edited ones), by their lines'
+  // text, for the unchanged lines of the chunks read afresh
+  let gone: StatementsByText | undefined;
   const records: ChunkParse[] = [];
   let state: ChunkParse['stateIn'] = { inControl: false, ended: false };
-  for (const chunk of chunksOf(text)) {
-    const chunkText = text.slice(chunk.start, chunk.end);
-    const old = reusableChunk(earlier.get(chunkText), chunk, titleLine, state);
-    const r = !old ? parseChunk(file, text, chunk, chunkText, titleLine, state, plainLines) : old.line === chunk.line ? old : movedChunk(old, chunk);
+  for (const chunk of chunks) {
+    const old = reusableChunk(earlier.get(chunk.text), chunk, titleLine, state);
+    let r: ChunkParse;
+    if (old) r = old.line === chunk.line ? old : movedChunk(old, chunk);
+    else {
+      r = parseChunk(file, text, chunk, chunk.text, titleLine, state, plainLines);
+      if (earlierRecords.length) {
+        if (!gone) {
+          const texts = new Set(chunks.map((c) => c.text));
+          gone = statementsByText(earlierRecords.filter((x) => !texts.has(x.text)));
+        }
+        takeUnchangedStatements(r, gone);
+      }
+    }
     records.push(r);
     state = r.stateOut;
   }
   // (joined natively: a long file has a hundred chunks)
   const statements = ([] as Statement[]).concat(...records.map((r) => r.statements));
   const statementStartLines = ([] as number[]).concat(...records.map((r) => r.startLines));
+  const cardIndices: number[] = [];
+  let offset = 0;
+  for (const r of records) {
+    for (const k of r.cards) cardIndices.push(offset + k);
+    offset += r.statements.length;
+  }
   const comments = ([] as IToken[]).concat(...records.map((r) => r.comments));
   const diagnostics = ([] as Diagnostic[]).concat(...records.map((r) => r.diagnostics));
   let lineCount = 1;
   for (const r of records) lineCount += r.lineBreaks;
   const { directives, pinInfos } = readSpecialComments(file, comments, statementStartLines, titleLine, diagnostics);
-  const out: SyntaxFile = { file, title, statements, directives, pinInfos, diagnostics, lineCount };
+  const out: SyntaxFile = { file, title, statements, cardIndices, directives, pinInfos, diagnostics, lineCount };
   chunkParses.set(out, records);
   return out;
 }
@@ -259,11 +278,78 @@ interface ChunkParse {
   statements: Statement[];
   /** Each statement's first line. */
   startLines: number[];
+  /** The statements that are dot cards (their head starts with '.'), by index in the chunk. */
+  cards: number[];
   comments: IToken[];
   diagnostics: Diagnostic[];
   lineBreaks: number;
   /** The character offset the chunk starts at (the comment tokens' offsets count from the file's start). */
   start: number;
+  /** As in `TextChunk`. */
+  scanLines: number;
+  lineAdvance: number;
+  /** The reading this one was taken from (itself when read afresh), through moves and parses. */
+  origin?: ChunkParse;
+}
+
+/**
+ * Runs of statements that two parses of one file read from the same chunk text, one parse
+ * taken from the other (directly or through parses between): statements `aFirst..` of `a` and
+ * `bFirst..` of `b`, `count` of them, and every line of the chunk (`fromLine..toLine` in `a`,
+ * comments and directives included), moved down `shift` lines. Empty when nothing is known.
+ */
+export interface SharedRun {
+  aFirst: number;
+  bFirst: number;
+  count: number;
+  fromLine: number;
+  toLine: number;
+  shift: number;
+}
+
+export function sharedRuns(a: SyntaxFile, b: SyntaxFile): SharedRun[] {
+  const ra = chunkParses.get(a);
+  const rb = chunkParses.get(b);
+  if (!ra || !rb || a.file !== b.file) return [];
+  const originOf = (r: ChunkParse) => r.origin ?? r;
+  // origins read once in each parse (a text repeated may be taken twice from one reading)
+  const inA = new Map<ChunkParse, { r: ChunkParse; first: number } | null>();
+  let first = 0;
+  for (const r of ra) {
+    const o = originOf(r);
+    inA.set(o, inA.has(o) ? null : { r, first });
+    first += r.statements.length;
+  }
+  const seenB = new Map<ChunkParse, number>();
+  for (const r of rb) seenB.set(originOf(r), (seenB.get(originOf(r)) ?? 0) + 1);
+  const out: SharedRun[] = [];
+  first = 0;
+  for (const r of rb) {
+    const o = originOf(r);
+    const x = inA.get(o);
+    if (x && seenB.get(o) === 1) {
+      const last = x.r.text.endsWith('\n') || x.r.text.endsWith('\r') ? x.r.line + x.r.lineAdvance - 1 : x.r.line + x.r.lineAdvance;
+      out.push({ aFirst: x.first, bFirst: first, count: r.statements.length, fromLine: x.r.line, toLine: last, shift: r.line - x.r.line });
+    }
+    first += r.statements.length;
+  }
+  return out;
+}
+
+/** The first line of each chunk a parse read (for tests: a parse from an earlier one cuts as a fresh one does). */
+export function chunkLines(f: SyntaxFile): number[] {
+  return (chunkParses.get(f) ?? []).map((r) => r.line);
+}
+
+/** A stretch of the text read as one chunk; `line` is the 0-based line it starts on. */
+interface TextChunk {
+  start: number;
+  end: number;
+  line: number;
+  /** Lines the cut-finding counted in it (by '\n'): a chunk this long ends at the next statement. */
+  scanLines: number;
+  /** Lines it holds (a lone CR breaks a line too): the next chunk starts this many lines on. */
+  lineAdvance: number;
 }
 
 /** Each parse's chunks, for the next parse of the same file. */
@@ -348,6 +434,62 @@ export function movedLinesBetween(x: Statement, y: Statement): number | undefine
   return (y instanceof MovedStatement ? y.lines : 0) - (x instanceof MovedStatement ? x.lines : 0);
 }
 
+/** Earlier statements by the text of their lines (whole lines, from the first to the last). */
+type StatementsByText = Map<string, Statement[]>;
+
+/** The start offset of each line of a chunk's text. */
+function lineStartsOf(chunkText: string): number[] {
+  const out = [0];
+  for (let at = chunkText.indexOf('\n'); at >= 0 && at + 1 < chunkText.length; at = chunkText.indexOf('\n', at + 1)) out.push(at + 1);
+  return out;
+}
+
+/** The text of a statement's lines within its chunk. */
+function linesText(chunkText: string, starts: number[], chunkLine: number, s: Statement): string {
+  const first = s.range.start.line - chunkLine;
+  const last = s.range.end.line - chunkLine;
+  return chunkText.slice(starts[first] ?? chunkText.length, starts[last + 1] ?? chunkText.length);
+}
+
+function statementsByText(records: readonly ChunkParse[]): StatementsByText {
+  const out: StatementsByText = new Map();
+  for (const r of records) {
+    const starts = lineStartsOf(r.text);
+    for (const s of r.statements) {
+      const key = linesText(r.text, starts, r.line, s);
+      const same = out.get(key);
+      if (same) same.push(s);
+      else out.set(key, [s]);
+    }
+  }
+  return out;
+}
+
+/**
+ * In a chunk read afresh, each statement whose lines read exactly as an earlier statement's
+ * is replaced by that earlier reading: the same object at the same line, a `MovedStatement`
+ * over it at another. A statement's reading depends only on the text of its lines and where
+ * they are (the same fact that lets a whole chunk be taken), so the two are equal; and the
+ * comparisons of two parses after an edit in a long chunk then read only the edited lines.
+ */
+function takeUnchangedStatements(r: ChunkParse, earlier: StatementsByText): void {
+  if (earlier.size === 0) return;
+  const starts = lineStartsOf(r.text);
+  for (let k = 0; k < r.statements.length; k++) {
+    const s = r.statements[k]!;
+    const candidates = earlier.get(linesText(r.text, starts, r.line, s));
+    if (!candidates) continue;
+    const line = s.range.start.line;
+    const same = candidates.find((x) => x.range.start.line === line);
+    const x = same ?? candidates[0]!;
+    r.statements[k] = same ?? movedStatement(x, line - x.range.start.line);
+  }
+}
+
+function movedStatement(s: Statement, lines: number): Statement {
+  return s instanceof MovedStatement ? new MovedStatement(movedRange(s.range, lines), s.first, s.lines + lines) : new MovedStatement(movedRange(s.range, lines), s, lines);
+}
+
 /**
  * An earlier chunk's reading at the place its text now starts: the same text read at another
  * line reads the same, every position moved by the line count (columns stay).
@@ -355,17 +497,23 @@ export function movedLinesBetween(x: Statement, y: Statement): number | undefine
 function movedChunk(old: ChunkParse, chunk: { start: number; line: number }): ChunkParse {
   const lines = chunk.line - old.line;
   const chars = chunk.start - old.start;
-  const statements = old.statements.map((s): Statement => (s instanceof MovedStatement ? new MovedStatement(movedRange(s.range, lines), s.first, s.lines + lines) : new MovedStatement(movedRange(s.range, lines), s, lines)));
+  const statements = old.statements.map((s) => movedStatement(s, lines));
   const comments = old.comments.map((t): IToken => ({ ...t, startOffset: t.startOffset + chars, endOffset: t.endOffset === undefined ? undefined : t.endOffset + chars, startLine: t.startLine! + lines, endLine: t.endLine! + lines }));
   const diagnostics = old.diagnostics.map((d): Diagnostic => ({ ...d, range: movedRange(d.range, lines) }));
-  return { ...old, line: chunk.line, start: chunk.start, statements, startLines: old.startLines.map((l) => l + lines), comments, diagnostics };
+  return { ...old, origin: old.origin ?? old, line: chunk.line, start: chunk.start, statements, startLines: old.startLines.map((l) => l + lines), comments, diagnostics };
 }
 
-function parseChunk(file: string, text: string, chunk: { start: number; end: number; line: number }, chunkText: string, titleLine: number, stateIn: ChunkParse['stateIn'], plainLines: boolean): ChunkParse {
+function dotCards(statements: readonly Statement[]): number[] {
+  const out: number[] = [];
+  for (let k = 0; k < statements.length; k++) if (statements[k]!.head.text.charCodeAt(0) === 46 /* . */) out.push(k);
+  return out;
+}
+
+function parseChunk(file: string, text: string, chunk: TextChunk, chunkText: string, titleLine: number, stateIn: ChunkParse['stateIn'], plainLines: boolean): ChunkParse {
   const statements: Statement[] = [];
   const comments: IToken[] = [];
   const diagnostics: Diagnostic[] = [];
-  const record = (lineBreaks: number): ChunkParse => ({ text: chunkText, line: chunk.line, titleLine, stateIn, stateOut: { inControl, ended }, statements, startLines: statements.map((x) => x.range.start.line), comments, diagnostics, lineBreaks, start: chunk.start });
+  const record = (lineBreaks: number): ChunkParse => ({ text: chunkText, line: chunk.line, titleLine, stateIn, stateOut: { inControl, ended }, statements, startLines: statements.map((x) => x.range.start.line), cards: dotCards(statements), comments, diagnostics, lineBreaks, start: chunk.start, scanLines: chunk.scanLines, lineAdvance: chunk.lineAdvance });
   // The optimised lexer knows only ASCII first characters: lex a copy with every other UTF-16
   // unit replaced by '~' (same length, so offsets, lines and columns hold), then restore images.
   const nonAscii = /[^\x00-\x7f]/.test(chunkText);
@@ -463,12 +611,14 @@ function parseChunk(file: string, text: string, chunk: { start: number; end: num
 }
 
 /**
- * Lines per chunk on average (a power of two: the share of lines a cut may go before): small
- * enough that an edit re-reads little, large enough that tokens die young. No chunk is shorter
+ * One line in CHUNK_LINES may start a chunk (a power of two: the hash's mask), after the first
+ * MIN_CHUNK_LINES, so chunks average about 640 lines: small enough that an edit re-reads little
+ * (the flat 100k-line netlist: a line put in, about 35 ms with 512 against 55 ms with 1,024),
+ * large enough that a whole parse pays little per chunk (about 5% more than with 1,024). No chunk is shorter
  * than MIN_CHUNK_LINES; one longer than MAX_CHUNK_LINES ends at the next statement (text with
  * few lines that hash to a cut, such as many copies of one line).
  */
-const CHUNK_LINES = 1024;
+const CHUNK_LINES = 512;
 const MIN_CHUNK_LINES = 128;
 const MAX_CHUNK_LINES = 8192;
 /** How many of a line's first characters decide whether a chunk may start there. */
@@ -580,13 +730,39 @@ function plainStatement(words: ReadonlyArray<WordItem | '='>): Statement | undef
  * in or taken out leave the later chunks to be taken from the previous parse, moved. `line` is
  * the 0-based line the chunk starts on.
  */
-function* chunksOf(text: string): Generator<{ start: number; end: number; line: number }> {
+function* chunksOf(text: string, earlier: readonly ChunkParse[] = []): Generator<TextChunk> {
   let start = 0;
   let line = 0;
   const anyCR = text.indexOf('\r') >= 0;
   const nextLine = (from: number) => {
     const nl = text.indexOf('\n', from);
     return nl < 0 ? text.length : nl + 1;
+  };
+  // the earlier chunks by their first line, to be recognised where their text now starts
+  const byFirstLine = new Map<string, ChunkParse[]>();
+  for (const r of earlier) {
+    const nl = r.text.indexOf('\n');
+    const first = nl < 0 ? r.text : r.text.slice(0, nl + 1);
+    const same = byFirstLine.get(first);
+    if (same) same.push(r);
+    else byFirstLine.set(first, [r]);
+  }
+  /**
+   * An earlier chunk whose text starts at `at` and that the cuts below would end where it ends:
+   * every cut decision inside a chunk reads only its own lines and their count, so the same
+   * text makes the same decisions; the line after it must still make a cut (or the text end).
+   */
+  const recognised = (at: number): ChunkParse | undefined => {
+    const candidates = byFirstLine.get(text.slice(at, nextLine(at)));
+    if (!candidates) return undefined;
+    for (let k = 0; k < candidates.length && k < 4; k++) {
+      const r = candidates[k]!;
+      const end = at + r.text.length;
+      // (a slice compared whole: string equality is a memory compare, startsWith reads per character)
+      if (end > text.length || text.slice(at, end) !== r.text) continue;
+      if (end >= text.length || (r.scanLines >= MIN_CHUNK_LINES && cutBefore(end, r.scanLines >= MAX_CHUNK_LINES))) return r;
+    }
+    return undefined;
   };
   /** The line at `at` starts a statement, and its text says a chunk may start there. */
   const cutBefore = (at: number, force: boolean): boolean => {
@@ -605,6 +781,15 @@ function* chunksOf(text: string): Generator<{ start: number; end: number; line: 
     return ((h >>> 0) & (CHUNK_LINES - 1)) === 0;
   };
   while (start < text.length || start === 0) {
+    const known = start < text.length ? recognised(start) : undefined;
+    if (known) {
+      const end = start + known.text.length;
+      yield { start, end, line, scanLines: known.scanLines, lineAdvance: known.lineAdvance };
+      if (end >= text.length) return;
+      line += known.lineAdvance;
+      start = end;
+      continue;
+    }
     let end = start;
     let breaks = 0;
     for (; end < text.length && breaks < MIN_CHUNK_LINES; breaks++) end = nextLine(end);
@@ -612,17 +797,18 @@ function* chunksOf(text: string): Generator<{ start: number; end: number; line: 
       end = nextLine(end);
       breaks++;
     }
-    yield { start, end, line };
-    if (end >= text.length) return;
+    let advance = breaks;
     if (anyCR) {
       // a lone CR breaks a line too
-      breaks = 0;
+      advance = 0;
       for (let i = start; i < end; i++) {
         const c = text.charCodeAt(i);
-        if (c === 10 || (c === 13 && text.charCodeAt(i + 1) !== 10)) breaks++;
+        if (c === 10 || (c === 13 && text.charCodeAt(i + 1) !== 10)) advance++;
       }
     }
-    line += breaks;
+    yield { start, end, line, scanLines: breaks, lineAdvance: advance };
+    if (end >= text.length) return;
+    line += advance;
     start = end;
   }
 }

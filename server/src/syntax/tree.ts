@@ -71,6 +71,11 @@ export interface SyntaxFile {
   /** The first line when the file is a top-level deck (an included file has none). */
   title: string | undefined;
   statements: Statement[];
+  /**
+   * The indices of the statements that are dot cards (head starting with '.'), ascending: every
+   * other statement is an element line, which the deck passes on without reading it.
+   */
+  cardIndices: number[];
   directives: DirectiveLine[];
   pinInfos: PinInfoLine[];
   diagnostics: Diagnostic[];
