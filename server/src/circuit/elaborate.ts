@@ -16,7 +16,7 @@ import { interpretElement, MODELLED_LETTERS, splitItems, type ElementSyntax } fr
 import { readModelCard, selectModel, type ModelCard } from './models';
 import { evaluateValue, ParamScope } from './params';
 import { parseSpiceNumber } from './numbers';
-import { ITEMS_PER_SLICE, runToEnd, type Steps } from '../core/steps';
+import { ITEMS_PER_SLICE, runToEnd, stepDue, type Steps } from '../core/steps';
 
 const GROUND_ALIASES = new Set(['0', 'gnd', 'gnd!']);
 
@@ -151,8 +151,14 @@ export interface ElaborateResult {
  * first micron-looking one when the median looks like microns, else undefined.
  */
 export function guessMicronScale(deck: Deck): { median: number; first: { file: string; range: Range } } | undefined {
+  return runToEnd(guessMicronScaleSteps(deck));
+}
+
+/** `guessMicronScale` in slices (a flat netlist has a line per device). */
+function* guessMicronScaleSteps(deck: Deck): Steps<{ median: number; first: { file: string; range: Range } } | undefined> {
   const lengths: number[] = [];
   let first: { file: string; range: Range } | undefined;
+  const due = stepDue();
   const scan = (file: string, stmt: Statement) => {
     const c = stmt.head.text[0]!.toLowerCase();
     if (c !== 'm' && c !== 'x') return;
@@ -166,14 +172,20 @@ export function guessMicronScale(deck: Deck): { median: number; first: { file: s
       }
     }
   };
-  for (const s of deck.top) scan(s.file, s.item);
+  const bodies: Array<Located<Statement>[]> = [deck.top];
   const walk = (defs: Map<string, SubcktDefinition>) => {
     for (const d of defs.values()) {
-      for (const s of d.body) scan(s.file, s.item);
+      bodies.push(d.body);
       walk(d.local);
     }
   };
   walk(deck.subckts);
+  for (const body of bodies) {
+    for (const s of body) {
+      scan(s.file, s.item);
+      if (due()) yield;
+    }
+  }
   if (lengths.length === 0) return undefined;
   lengths.sort((a, b) => a - b);
   const median = lengths[lengths.length >> 1]!;
@@ -252,7 +264,12 @@ class Elaborator {
     for (const g of deckGlobals(deck)) this.globals.add(g);
 
     // Top-level cards: parameters, options, temperature, models (models anywhere are global).
-    for (const { file, item } of deck.top) this.topCard(file, item);
+    // (A flat netlist's top level holds every device: these loops yield too.)
+    const due = stepDue();
+    for (const { file, item } of deck.top) {
+      this.topCard(file, item);
+      if (due()) yield;
+    }
     // Every global parameter is evaluated, used or not, so its errors are reported (as ngspice does).
     for (const name of this.globalScope.ownNames()) this.globalScope.tryLookup(name, this.paramReport);
     const modelStatements = (defs: Map<string, SubcktDefinition>) => {
@@ -262,7 +279,7 @@ class Elaborator {
       }
     };
     modelStatements(deck.subckts);
-    this.chooseScale();
+    yield* this.chooseScale();
 
     const circuits: Circuit[] = [];
     const topHasDevices = deck.top.some((s) => {
@@ -367,7 +384,7 @@ class Elaborator {
     if (name !== baseName && !this.models.has(name)) this.models.set(name, [card]);
   }
 
-  private chooseScale(): void {
+  private *chooseScale(): Steps<void> {
     if (this.scaleFrom === 'option') return;
     if (this.directives.scale) {
       this.scale = this.directives.scale.value;
@@ -379,7 +396,7 @@ class Elaborator {
       this.scaleFrom = 'setting';
       return;
     }
-    const guess = guessMicronScale(this.deck);
+    const guess = yield* guessMicronScaleSteps(this.deck);
     if (guess) {
       const { median, first } = guess;
       this.scale = 1e-6;
@@ -415,8 +432,14 @@ class Elaborator {
   // ---- templates ---------------------------------------------------------------------------
 
   private template(def: SubcktDefinition | undefined): Template {
+    return runToEnd(this.templateSteps(def));
+  }
+
+  /** `template` in slices (the top level of a flat netlist is one template of every device). */
+  private *templateSteps(def: SubcktDefinition | undefined): Steps<Template> {
     let t = this.templates.get(def);
     if (t) return t;
+    const due = stepDue();
     const subckt = def ? def.name : null;
     const slots = new NetSlots(subckt, this.globals);
     if (def) {
@@ -427,6 +450,7 @@ class Elaborator {
     const params: Located<Statement>[] = [];
     const body = def ? def.body : this.deck.top;
     for (const { file, item } of body) {
+      if (due()) yield;
       const head = item.head.text.toLowerCase();
       if (head.startsWith('.')) {
         if (def) {
@@ -476,11 +500,16 @@ class Elaborator {
   }
 
   /** Element values for one template under one parameter scope (cached by the scope's key). */
-  private values(t: Template, scope: ParamScope, key: string, defStack: SubcktDefinition[]): ElementValues[] {
+  /** Each element's values in one parameter scope (`key`), worked out once per template and key. */
+  private *values(t: Template, scope: ParamScope, key: string, defStack: SubcktDefinition[]): Steps<ElementValues[]> {
     const hit = t.valueCache.get(key);
     if (hit) return hit;
     const out: ElementValues[] = [];
-    for (const el of t.elements) out.push(this.elementValues(el, scope, defStack));
+    const due = stepDue();
+    for (const el of t.elements) {
+      out.push(this.elementValues(el, scope, defStack));
+      if (due()) yield;
+    }
     t.valueCache.set(key, out);
     return out;
   }
@@ -660,7 +689,7 @@ class Elaborator {
 
   private *elaborateTop(): Steps<Circuit> {
     const c = this.newCircuit('(top)', false);
-    const t = this.template(undefined);
+    const t = yield* this.templateSteps(undefined);
     const netMap = t.localNames.map((n, i) => this.addNet(c, n, t.localOrigins[i]!, false));
     yield* this.instantiate(c, t, netMap, '', this.globalScope, 'top', []);
     c.instanceMosfets = Int32Array.from(this.spans);
@@ -670,7 +699,7 @@ class Elaborator {
 
   private *elaborateStandalone(def: SubcktDefinition): Steps<Circuit> {
     const c = this.newCircuit(def.name, true);
-    const t = this.template(def);
+    const t = yield* this.templateSteps(def);
     const scope = new ParamScope(this.globalScope);
     for (const d of def.defaults) scope.define(d.name, d.value, d.file);
     for (const ps of t.params) for (const a of ps.item.items) if (a.kind === 'assign' && a.value) scope.define(a.name.text, a.value, ps.file);
@@ -698,7 +727,7 @@ class Elaborator {
     }
     const globalIds = t.globalNames.map((g) => this.globalNet(c, g, t.localOrigins[0] ?? t.elements[0]?.origin ?? { file: '', range: { start: { line: 0, character: 0 }, end: { line: 0, character: 0 } }, subckt: null, local: g }));
     const net = (k: number) => (k >= 0 ? netMap[k]! : globalIds[-k - 1]!);
-    const vals = this.values(t, scope, key, defStack);
+    const vals = yield* this.values(t, scope, key, defStack);
     for (let i = 0; i < t.elements.length; i++) {
       if (++this.copied === ITEMS_PER_SLICE) {
         this.copied = 0;
