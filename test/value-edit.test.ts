@@ -87,6 +87,91 @@ describe('values on parameter and model cards reuse the previous analysis and eq
     same(file, fast!, analyse(memoryHost({ [file]: edited }), file));
     expect(total).toBeGreaterThan(60);
   }, 120_000);
+  // the shapes the values-only walk (elaborate revalue) must follow as a fresh elaboration does
+  // each edit: the text replaced, and whether it is answered from the previous analysis (else the
+  // caller analyses afresh)
+  const SHAPES: Array<[string, string[], Array<[string, string, boolean?]>]> = [
+    [
+      'instance parameters that read a global one (the cell takes another parameter set), a cell parameter, binned cards',
+      [
+        'tern values: cells with parameters',
+        '.param wp=0.6u wn=0.3u lk=0.1u',
+        '.model nb.1 nmos level=1 vto=0.40 kp=200u lmin=0 lmax=0.15u wmin=0 wmax=1',
+        '.model nb.2 nmos level=1 vto=0.45 kp=180u lmin=0.15u lmax=1 wmin=0 wmax=1',
+        '.model pb pmos level=1 vto=-0.4 kp=80u',
+        '.subckt cinv a y vdd vss w=1u',
+        '.param half={w/2}',
+        'Mp y a vdd vdd pb w={w} l=0.1u',
+        'Mn y a vss vss nb w={half} l=0.1u',
+        '.ends',
+        '.subckt cdyn clk a y vdd vss',
+        'Mpre dyn clk vdd vdd pb w=0.5u l=0.1u',
+        'Mna dyn a foot vss nb w={wn} l=0.1u',
+        'Mft foot clk vss vss nb w=0.8u l={lk}',
+        'Mkp dyn y vdd vdd pb w=0.15u l={lk}',
+        'Xo dyn y vdd vss cinv w={wp}',
+        '.ends',
+        'Xd0 clk a0 y0 vdd 0 cdyn',
+        'Xd1 clk a1 y1 vdd 0 cdyn',
+        'Xi0 y0 z0 vdd 0 cinv w=1.2u',
+        'Mz z1 y1 0 0 nmissing w=0.3u l={lk}',
+        'vdd vdd 0 1.0',
+        'vclk clk 0 PULSE(0 1 0 10p 10p 0.5n 1n)',
+        '* tidemark: input a0 a1',
+        '.end',
+      ],
+      [
+        ['wp=0.6u', 'wp=0.8u'],
+        ['wn=0.3u', 'wn=0.5u'],
+        // the foot device moves to the longer bin's card
+        ['lk=0.1u', 'lk=0.2u'],
+        ['kp=180u', 'kp=150u'],
+      ],
+    ],
+    [
+      'a cell library analysed cell by cell',
+      ['tern values: a library', '.param wk=0.15u', '.model nb nmos level=1 vto=0.4 kp=200u', '.model pb pmos level=1 vto=-0.4 kp=80u', '.subckt keeper_latch d clk q vdd vss', 'Mt d clk st vss nb w=0.3u l=0.1u', 'Mk st q vdd vdd pb w={wk} l=0.1u', 'Mp q st vdd vdd pb w=0.6u l=0.1u', 'Mn q st vss vss nb w=0.3u l=0.1u', '.ends', '.subckt holder b vdd vss', 'Mh b b vss vss nb w={wk} l=0.2u', '.ends', '.end'],
+      [['wk=0.15u', 'wk=0.25u']],
+    ],
+    [
+      'a model card value given by a parameter (only the card changes, the devices keep their sizes)',
+      ['tern values: a card parameter', '.param cov=0.3n', '.model nb nmos level=1 vto=0.4 kp=200u', '.model pb pmos level=1 vto=-0.4 kp=80u cgdo={cov} cgso={cov}', 'Mpre dyn clk vdd vdd pb w=0.5u l=0.1u', 'Mna dyn a 0 0 nb w=0.4u l=0.1u', 'Mi y dyn 0 0 nb w=0.3u l=0.1u', 'vdd vdd 0 1.0', 'vclk clk 0 PULSE(0 1 0 10p 10p 0.5n 1n)', '* tidemark: input a', '.end'],
+      [['cov=0.3n', 'cov=0.6n']],
+    ],
+    [
+      'a length that moves one device out of every bin (left out: no card, and its name gives no polarity) and another into one',
+      ['tern values: bins with gaps', '.param lq=0.2u', '.model qq.1 nmos level=1 vto=0.4 kp=200u lmin=0 lmax=0.15u wmin=0 wmax=1', '.model qr.1 nmos level=1 vto=0.4 kp=200u lmin=0.15u lmax=1 wmin=0 wmax=1', '.model pb pmos level=1 vto=-0.4 kp=80u', 'Mq y a 0 0 qq w=0.3u l={lq}', 'Mr z a 0 0 qr w=0.3u l={lq}', 'Mp y a vdd vdd pb w=0.6u l=0.1u', 'vdd vdd 0 1.0', '* tidemark: input a', '.end'],
+      // the devices are other ones: the caller analyses afresh
+      [['lq=0.2u', 'lq=0.1u', false]],
+    ],
+    [
+      'a length that moves the last device out of every bin (one device fewer)',
+      ['tern values: the last device left out', '.param lq=0.1u', '.model qq.1 nmos level=1 vto=0.4 kp=200u lmin=0 lmax=0.15u wmin=0 wmax=1', '.model pb pmos level=1 vto=-0.4 kp=80u', 'Mp y a vdd vdd pb w=0.6u l=0.1u', 'Mq y a 0 0 qq w=0.3u l={lq}', 'vdd vdd 0 1.0', '* tidemark: input a', '.end'],
+      [['lq=0.1u', 'lq=0.2u', false]],
+    ],
+  ];
+  for (const [what, lines, edits] of SHAPES) {
+    it(`${what}: each edit answered from the previous analysis, equal to a fresh one`, () => {
+      const file = '/shapes.sp';
+      const text = lines.join('\n');
+      const before = analyse(memoryHost({ [file]: text }), file);
+      let last = before;
+      let lastText = text;
+      for (const [from, to, quick = true] of edits) {
+        // from the first analysis, and from the last quick answer (edits stacked)
+        for (const [base, baseText] of [[before, text], [last, lastText]] as const) {
+          const edited = baseText.replace(from, to);
+          expect(edited, from).not.toBe(baseText);
+          const fast = reanalyse(base, readDeck(memoryHost({ [file]: edited }), file));
+          expect(fast !== undefined, `${from} -> ${to}`).toBe(quick);
+          if (!fast) continue;
+          same(file, fast, analyse(memoryHost({ [file]: edited }), file));
+          last = fast;
+          lastText = edited;
+        }
+      }
+    });
+  }
   it('a parameter that sets a supply or a capacitor is declined (the caller analyses afresh); one that makes a width implausible brings the elaborator finding with it', () => {
     const file = '/held.sp';
     const text = ['held node', '.param vsup=1.0 cst=5f wk=0.2u', '.model n1 nmos level=1 vto=0.4 kp=200u', 'vdd vdd 0 {vsup}', 'vclk clk 0 pulse(0 1 0 10p 10p 1n 2n)', 'Mp st clk d 0 n1 w={wk} l=0.1u', 'Cst st 0 {cst}', 'Mr q st 0 0 n1 w=0.2u l=0.1u', '.end'].join('\n');

@@ -16,6 +16,7 @@ import { interpretElement, MODELLED_LETTERS, splitItems, type ElementSyntax } fr
 import { readModelCard, selectModel, type ModelCard } from './models';
 import { evaluateValue, ParamScope } from './params';
 import { parseSpiceNumber } from './numbers';
+import { carryElementIndexes } from './elementIndex';
 import { ITEMS_PER_SLICE, runToEnd, stepDue, type Steps } from '../core/steps';
 
 const GROUND_ALIASES = new Set(['0', 'gnd', 'gnd!']);
@@ -192,6 +193,104 @@ function* guessMicronScaleSteps(deck: Deck): Steps<{ median: number; first: { fi
   return median > 1e-3 && first ? { median, first } : undefined;
 }
 
+/** A design after an edit of values alone (see `revalue`). */
+export interface RevaluedDesign {
+  /** The previous circuits, with the MOSFETs whose values or card changed replaced; the new cards and facts. */
+  design: Design;
+  /** Per circuit: the indices of the replaced MOSFETs. */
+  changed: number[][];
+  /** What `elaborate` reports for the deck. */
+  diagnostics: Diagnostic[];
+}
+
+/**
+ * The elaboration of `deck`, from `previous` (the design of a deck that differs from it only in
+ * `.param` and `.model` values), as `elaborate` would give it when nothing but MOSFET values
+ * and cards changed; undefined otherwise. It reads each cell's values once per parameter set
+ * and walks the previous circuits instead of building them again.
+ */
+export function revalue(deck: Deck, previous: Design, options: EngineOptions = {}): RevaluedDesign | undefined {
+  return runToEnd(new Elaborator(deck, options).revalue(previous));
+}
+
+/** Model cards compared by value once per pair (a card read again from the same text is equal). */
+class SameCards {
+  private readonly seen = new Map<ModelCard, ModelCard>();
+  same(old: ModelCard | undefined, next: ModelCard | undefined): boolean {
+    if (old === next) return true;
+    if (!old || !next) return false;
+    if (this.seen.get(next) === old) return true;
+    const same = JSON.stringify(old) === JSON.stringify(next);
+    if (same) this.seen.set(next, old);
+    return same;
+  }
+}
+
+/** Where `revalue`'s walk stands in a previous circuit's lists, and the MOSFETs it replaced. */
+class ValueWalk {
+  mosfets = 0;
+  capacitors = 0;
+  resistors = 0;
+  inductors = 0;
+  diodes = 0;
+  sources = 0;
+  others = 0;
+  instances = 0;
+  readonly changed: number[] = [];
+  private replaced: Mosfet[] | undefined;
+  constructor(
+    private readonly c: Circuit,
+    private readonly cards: SameCards,
+  ) {}
+
+  /** The previous circuit's next device is this one (by its flat name): the same, or replaced. */
+  mosfet(name: string, v: Extract<ElementValues, { kind: 'mos' }>): boolean {
+    const k = this.mosfets++;
+    const m = this.c.mosfets[k];
+    if (!m || m.name !== name || m.polarity !== v.polarity) return false;
+    if (m.wM === v.wM && m.lM === v.lM && m.m === v.m && m.nf === v.nf && m.adM2 === v.adM2 && m.asM2 === v.asM2 && m.pdM === v.pdM && m.psM === v.psM && m.model === v.model && this.cards.same(m.card, v.card)) return true;
+    // built as the elaborator builds a device, on the previous one's nets and line
+    const next: Mosfet = { name: m.name, polarity: m.polarity, d: m.d, g: m.g, s: m.s, b: m.b, wM: v.wM, lM: v.lM, m: v.m, nf: v.nf, model: v.model, card: v.card, origin: m.origin };
+    if (v.adM2 !== undefined) next.adM2 = v.adM2;
+    if (v.asM2 !== undefined) next.asM2 = v.asM2;
+    if (v.pdM !== undefined) next.pdM = v.pdM;
+    if (v.psM !== undefined) next.psM = v.psM;
+    (this.replaced ??= this.c.mosfets.slice())[k] = next;
+    this.changed.push(k);
+    return true;
+  }
+
+  instance(name: string): boolean {
+    return this.c.instances[this.instances++]?.name === name;
+  }
+
+  capacitor(value: number | undefined): boolean {
+    return this.c.capacitors[this.capacitors++]?.capacitanceF === value;
+  }
+
+  resistor(value: number | undefined): boolean {
+    return this.c.resistors[this.resistors++]?.resistanceOhm === value;
+  }
+
+  source(waveform: Waveform): boolean {
+    const old = this.c.sources[this.sources++];
+    return old !== undefined && JSON.stringify(old.waveform) === JSON.stringify(waveform);
+  }
+
+  /** Every list walked to its end. */
+  complete(): boolean {
+    const c = this.c;
+    return this.mosfets === c.mosfets.length && this.capacitors === c.capacitors.length && this.resistors === c.resistors.length && this.inductors === c.inductors.length && this.diodes === c.diodes.length && this.sources === c.sources.length && this.others === c.others.length && this.instances === c.instances.length;
+  }
+
+  circuit(): Circuit {
+    if (!this.replaced) return this.c;
+    // every device stays in its place and on its line
+    carryElementIndexes(this.c.mosfets, this.replaced);
+    return { ...this.c, mosfets: this.replaced };
+  }
+}
+
 export function elaborate(deck: Deck, options: EngineOptions = {}): ElaborateResult {
   return runToEnd(elaborateSteps(deck, options));
 }
@@ -243,7 +342,8 @@ class Elaborator {
     this.report(diag('param-error', file, range, message));
   };
 
-  *run(): Steps<ElaborateResult> {
+  /** Directives, device rules, globals, top-level cards, every model card and the geometry scale. */
+  private *prepare(): Steps<void> {
     const deck = this.deck;
     // Directives anywhere in the deck apply to the whole design.
     // An `accept` written inside a subcircuit names the node as the cell knows it (every instance).
@@ -281,22 +381,31 @@ class Elaborator {
     modelStatements(deck.subckts);
     yield* this.chooseScale();
 
-    const circuits: Circuit[] = [];
+  }
+
+  /** The circuits to elaborate: the top level (undefined) or standalone cells. */
+  private circuitPlan(): Array<SubcktDefinition | undefined> {
+    const deck = this.deck;
     const topHasDevices = deck.top.some((s) => {
       const c = s.item.head.text[0]!.toLowerCase();
       return c !== '.' && c !== 'v' && c !== 'i';
     });
     if (this.options.top) {
       const def = deck.subckts.get(this.options.top.toLowerCase());
-      if (!def) {
-        const f = deck.files[0];
-        this.report(diag('unknown-subckt', f?.file ?? '', { start: { line: 0, character: 0 }, end: { line: 0, character: 0 } }, `--top names '${this.options.top}', which the netlist does not define`));
-      } else circuits.push(yield* this.elaborateStandalone(def));
-    } else if (topHasDevices || deck.subckts.size === 0) {
-      circuits.push(yield* this.elaborateTop());
-    } else {
-      for (const def of deck.subckts.values()) circuits.push(yield* this.elaborateStandalone(def));
+      if (def) return [def];
+      const f = deck.files[0];
+      this.report(diag('unknown-subckt', f?.file ?? '', { start: { line: 0, character: 0 }, end: { line: 0, character: 0 } }, `--top names '${this.options.top}', which the netlist does not define`));
+      return [];
     }
+    if (topHasDevices || deck.subckts.size === 0) return [undefined];
+    return [...deck.subckts.values()];
+  }
+
+  *run(): Steps<ElaborateResult> {
+    const deck = this.deck;
+    yield* this.prepare();
+    const circuits: Circuit[] = [];
+    for (const def of this.circuitPlan()) circuits.push(def === undefined ? yield* this.elaborateTop() : yield* this.elaborateStandalone(def));
     this.reportMissingModels();
     this.checkPlausibleGeometry(circuits);
     const design: Design = {
@@ -700,22 +809,123 @@ class Elaborator {
   private *elaborateStandalone(def: SubcktDefinition): Steps<Circuit> {
     const c = this.newCircuit(def.name, true);
     const t = yield* this.templateSteps(def);
-    const scope = new ParamScope(this.globalScope);
-    for (const d of def.defaults) scope.define(d.name, d.value, d.file);
-    for (const ps of t.params) for (const a of ps.item.items) if (a.kind === 'assign' && a.value) scope.define(a.name.text, a.value, ps.file);
+    const { scope, key } = this.standaloneScope(def, t);
     const netMap = t.localNames.map((n, i) => this.addNet(c, n, t.localOrigins[i]!, false));
-    const key = def.defaults
-      .map((d) => {
-        const v = evaluateValue({ kind: 'word', text: d.name, range: d.range }, d.file, scope, () => undefined);
-        return v === undefined ? 'x' : String(v);
-      })
-      .join(',');
     yield* this.instantiate(c, t, netMap, '', scope, key, [def]);
     c.instanceMosfets = Int32Array.from(this.spans);
     const portNets = def.ports.map((_, i) => netMap[i]!);
     this.assignRails(c, [...portNets, ...netIdsWhere(c, (n) => n.global)]);
     this.assignPorts(c, def, portNets);
     return c;
+  }
+
+  /** A cell analysed on its own: its defaults and body parameters over the global ones, and their key. */
+  private standaloneScope(def: SubcktDefinition, t: Template): { scope: ParamScope; key: string } {
+    const scope = new ParamScope(this.globalScope);
+    for (const d of def.defaults) scope.define(d.name, d.value, d.file);
+    for (const ps of t.params) for (const a of ps.item.items) if (a.kind === 'assign' && a.value) scope.define(a.name.text, a.value, ps.file);
+    const key = def.defaults
+      .map((d) => {
+        const v = evaluateValue({ kind: 'word', text: d.name, range: d.range }, d.file, scope, () => undefined);
+        return v === undefined ? 'x' : String(v);
+      })
+      .join(',');
+    return { scope, key };
+  }
+
+  /**
+   * `run` for a deck that differs from the one `previous` was elaborated from only in values
+   * (parameter and model cards): every template's values are worked out as `run` works them
+   * out, in the same order (so the same findings come out), and each circuit of `previous` is
+   * walked as `instantiate` builds it, without building nets or elements: every device and
+   * instance must be the previous circuit's next one (by its flat name), a MOSFET whose values
+   * or card changed is replaced; any other difference (a passive value, a source, a device left
+   * out now and not before, a list of another length) answers undefined.
+   */
+  *revalue(previous: Design): Steps<RevaluedDesign | undefined> {
+    const deck = this.deck;
+    yield* this.prepare();
+    const plan = this.circuitPlan();
+    if (plan.length !== previous.circuits.length) return undefined;
+    const cards = new SameCards();
+    const circuits: Circuit[] = [];
+    const changed: number[][] = [];
+    for (let i = 0; i < plan.length; i++) {
+      const def = plan[i];
+      const c = previous.circuits[i]!;
+      const walk = new ValueWalk(c, cards);
+      if (def === undefined) {
+        if (c.standalone) return undefined;
+        const t = yield* this.templateSteps(undefined);
+        if (!(yield* this.revalueInstance(walk, t, '', this.globalScope, 'top', []))) return undefined;
+      } else {
+        if (!c.standalone || c.name !== def.name) return undefined;
+        const t = yield* this.templateSteps(def);
+        const { scope, key } = this.standaloneScope(def, t);
+        if (!(yield* this.revalueInstance(walk, t, '', scope, key, [def]))) return undefined;
+      }
+      if (!walk.complete()) return undefined;
+      changed.push(walk.changed);
+      circuits.push(walk.circuit());
+    }
+    this.reportMissingModels();
+    this.checkPlausibleGeometry(circuits);
+    const design: Design = {
+      title: deck.title,
+      circuits,
+      directives: this.directives,
+      geometryScale: { value: this.scale, from: this.scaleFrom },
+      tempC: this.tempC,
+      files: deck.files.map((f) => f.file),
+      modelCards: this.models,
+    };
+    return { design, changed, diagnostics: this.diagnostics };
+  }
+
+  /** `instantiate`'s walk over one instance, comparing values with the previous circuit's (see `revalue`). */
+  private *revalueInstance(w: ValueWalk, t: Template, prefix: string, scope: ParamScope, key: string, defStack: SubcktDefinition[]): Steps<boolean> {
+    const vals = yield* this.values(t, scope, key, defStack);
+    for (let i = 0; i < t.elements.length; i++) {
+      if (++this.copied === ITEMS_PER_SLICE) {
+        this.copied = 0;
+        yield;
+      }
+      const el = t.elements[i]!;
+      const v = vals[i]!;
+      const s = el.syntax;
+      switch (v.kind) {
+        case 'mos':
+          if (!v.card) this.missingModels.get(v.model)!.count++;
+          // a device left out (no card, no polarity by its name) and put in before makes the
+          // next device, or the count at the end, another one
+          if (v.polarity && !w.mosfet(prefix + el.origin.local, v)) return false;
+          break;
+        case 'value':
+          if (s.kind === 'passive' && s.letter === 'c') {
+            if (!w.capacitor(v.value)) return false;
+          } else if (s.kind === 'passive' && s.letter === 'l') w.inductors++;
+          else if (s.kind === 'instance' && this.deviceKindOf(s.subckt!.text.toLowerCase()) === 'capacitor') {
+            if (!w.capacitor(v.value)) return false;
+          } else if (s.kind === 'instance' && this.deviceKindOf(s.subckt!.text.toLowerCase()) === 'diode') w.diodes++;
+          else if (!w.resistor(v.value)) return false;
+          break;
+        case 'wave':
+          if (s.kind === 'source' && !w.source(v.waveform)) return false;
+          break;
+        case 'instance': {
+          const child = this.template(v.target);
+          const name = prefix + el.origin.local;
+          if (!w.instance(name)) return false;
+          if (!(yield* this.revalueInstance(w, child, name + '.', v.scope, v.key, [...defStack, v.target]))) return false;
+          break;
+        }
+        case 'none':
+          if (s.kind === 'diode') w.diodes++;
+          else if (s.kind === 'other') w.others++;
+          break;
+      }
+    }
+    return true;
   }
 
   /** Copies a template into the circuit with its nets bound by `netMap` (local index -> flat id). */

@@ -7,7 +7,7 @@
 // directive or a setting could make a rail, a clock or an input are left to a fresh analysis.
 
 import { DerivedMap } from '../core/overlay';
-import { originIndex, setOriginIndex } from './rewire';
+import { originIndex, setOriginIndex } from './elementIndex';
 import type { EngineOptions } from '../core/options';
 import { DEFAULT_GROUND_PATTERN, DEFAULT_SUPPLY_PATTERN } from '../core/options';
 import { composeRenumberings, movedNets, netInsertion, netRemoval, withNetRows, type NetRenumbering } from '../core/renumber';

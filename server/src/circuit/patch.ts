@@ -13,7 +13,7 @@ import { parseSpiceNumber } from './numbers';
 import { editedStatements, sameItem, sameWords } from '../syntax/compare';
 import type { AssignItem, Item, Statement } from '../syntax/tree';
 import { interpretElement } from './elements';
-import { lineIndex, setLineIndex } from './rewire';
+import { lineIndex, setLineIndex } from './elementIndex';
 
 /** Sizes the patch can take, and how each scales with the geometry scale. */
 export const SIZE_PARAMS: Record<string, 'length' | 'area' | 'count'> = { w: 'length', l: 'length', pd: 'length', ps: 'length', ad: 'area', as: 'area', m: 'count', mult: 'count', nf: 'count' };
