@@ -10,7 +10,6 @@ import { carryToTwin, familyOf, type Family } from './family';
 import { stepDue, runToEnd, type Steps } from '../../core/steps';
 import { NetKeyedMap, OverlayMap, RenumberedMap } from '../../core/overlay';
 import type { ElectricalContext } from './context';
-import type { Mosfet } from '../../circuit/circuit';
 import { capacitanceSignature, islandCapacitance, type CapacitanceBreakdown } from './capacitance';
 import { buildLeakageNetwork, leakageAt, leakageSignature, MAX_SOLVED_GROUPS, type LeakageContributor } from './leakage';
 import { retentionTime } from './retention';
@@ -522,25 +521,6 @@ function originId(o: object): number {
 }
 
 /**
- * A device's defining line and sizes as the keys below quote them (`line:W:L:M:NF:AD:PD:AS:PS`,
- * or `line:W:L:M` for a gate load), written once per MOSFET record: the keys quote every device
- * of a node's group, and writing those numbers out for every node was a quarter of a full
- * analysis. A record is never changed (an edit makes a new one), and the text goes with it.
- */
-const channelSizeTexts = new WeakMap<Mosfet, string>();
-const gateSizeTexts = new WeakMap<Mosfet, string>();
-function channelSizeText(m: Mosfet): string {
-  let t = channelSizeTexts.get(m);
-  if (t === undefined) channelSizeTexts.set(m, (t = `${originId(m.origin)}:${m.wM}:${m.lM}:${m.m}:${m.nf}:${m.adM2}:${m.pdM}:${m.asM2}:${m.psM}`));
-  return t;
-}
-function gateSizeText(m: Mosfet): string {
-  let t = gateSizeTexts.get(m);
-  if (t === undefined) gateSizeTexts.set(m, (t = `${originId(m.origin)}:${m.wM}:${m.lM}:${m.m}`));
-  return t;
-}
-
-/**
  * A key equal for two nodes whose estimates are necessarily equal: the same defining lines,
  * sizes and models for every device of the node's group and every gate on the node, the same
  * position of the node in the group, and the same phase values and witness gate values around
@@ -576,11 +556,11 @@ function structureKey(ctx: ElectricalContext, n: number, floating: Array<{ s: No
       continue;
     }
     const m = c.mosfets[si]!;
-    parts.push(`${channelSizeText(m)}:${code(m.d)}${code(m.g)}${code(m.s)}${code(m.b)}`);
+    parts.push(`${originId(m.origin)}:${m.wM}:${m.lM}:${m.m}:${m.nf}:${m.adM2}:${m.pdM}:${m.asM2}:${m.psM}:${code(m.d)}${code(m.g)}${code(m.s)}${code(m.b)}`);
   }
   for (const i of ctx.gateOf(n)) {
     const m = c.mosfets[i]!;
-    parts.push(`g${gateSizeText(m)}:${code(m.d)}${code(m.s)}${code(m.b)}`);
+    parts.push(`g${originId(m.origin)}:${m.wM}:${m.lM}:${m.m}:${code(m.d)}${code(m.s)}${code(m.b)}`);
   }
   for (const x of comp.nodes) {
     for (const k of ctx.capsOf[x]!) {
