@@ -401,23 +401,26 @@ class Elaborator {
     return [...deck.subckts.values()];
   }
 
-  *run(): Steps<ElaborateResult> {
-    const deck = this.deck;
-    yield* this.prepare();
-    const circuits: Circuit[] = [];
-    for (const def of this.circuitPlan()) circuits.push(def === undefined ? yield* this.elaborateTop() : yield* this.elaborateStandalone(def));
+  /** The findings that count over every circuit, and the design around the circuits. */
+  private finish(circuits: Circuit[]): Design {
     this.reportMissingModels();
     this.checkPlausibleGeometry(circuits);
-    const design: Design = {
-      title: deck.title,
+    return {
+      title: this.deck.title,
       circuits,
       directives: this.directives,
       geometryScale: { value: this.scale, from: this.scaleFrom },
       tempC: this.tempC,
-      files: deck.files.map((f) => f.file),
+      files: this.deck.files.map((f) => f.file),
       modelCards: this.models,
     };
-    return { design, diagnostics: this.diagnostics };
+  }
+
+  *run(): Steps<ElaborateResult> {
+    yield* this.prepare();
+    const circuits: Circuit[] = [];
+    for (const def of this.circuitPlan()) circuits.push(def === undefined ? yield* this.elaborateTop() : yield* this.elaborateStandalone(def));
+    return { design: this.finish(circuits), diagnostics: this.diagnostics };
   }
 
   // ---- cards -----------------------------------------------------------------------------
@@ -843,7 +846,6 @@ class Elaborator {
    * out now and not before, a list of another length) answers undefined.
    */
   *revalue(previous: Design): Steps<RevaluedDesign | undefined> {
-    const deck = this.deck;
     yield* this.prepare();
     const plan = this.circuitPlan();
     if (plan.length !== previous.circuits.length) return undefined;
@@ -868,18 +870,18 @@ class Elaborator {
       changed.push(walk.changed);
       circuits.push(walk.circuit());
     }
-    this.reportMissingModels();
-    this.checkPlausibleGeometry(circuits);
-    const design: Design = {
-      title: deck.title,
-      circuits,
-      directives: this.directives,
-      geometryScale: { value: this.scale, from: this.scaleFrom },
-      tempC: this.tempC,
-      files: deck.files.map((f) => f.file),
-      modelCards: this.models,
-    };
-    return { design, changed, diagnostics: this.diagnostics };
+    return { design: this.finish(circuits), changed, diagnostics: this.diagnostics };
+  }
+
+  /** The circuit's list a two-terminal element with a value goes in (`instantiate` and `revalue` agree on it). */
+  private valueList(s: ElementSyntax): 'capacitors' | 'inductors' | 'diodes' | 'resistors' {
+    if (s.kind === 'passive') return s.letter === 'c' ? 'capacitors' : s.letter === 'l' ? 'inductors' : 'resistors';
+    if (s.kind === 'instance') {
+      const k = this.deviceKindOf(s.subckt!.text.toLowerCase());
+      if (k === 'capacitor') return 'capacitors';
+      if (k === 'diode') return 'diodes';
+    }
+    return 'resistors';
   }
 
   /** `instantiate`'s walk over one instance, comparing values with the previous circuit's (see `revalue`). */
@@ -900,15 +902,13 @@ class Elaborator {
           // next device, or the count at the end, another one
           if (v.polarity && !w.mosfet(prefix + el.origin.local, v)) return false;
           break;
-        case 'value':
-          if (s.kind === 'passive' && s.letter === 'c') {
-            if (!w.capacitor(v.value)) return false;
-          } else if (s.kind === 'passive' && s.letter === 'l') w.inductors++;
-          else if (s.kind === 'instance' && this.deviceKindOf(s.subckt!.text.toLowerCase()) === 'capacitor') {
-            if (!w.capacitor(v.value)) return false;
-          } else if (s.kind === 'instance' && this.deviceKindOf(s.subckt!.text.toLowerCase()) === 'diode') w.diodes++;
-          else if (!w.resistor(v.value)) return false;
+        case 'value': {
+          const list = this.valueList(s);
+          if (list === 'inductors') w.inductors++;
+          else if (list === 'diodes') w.diodes++;
+          else if (!(list === 'capacitors' ? w.capacitor(v.value) : w.resistor(v.value))) return false;
           break;
+        }
         case 'wave':
           if (s.kind === 'source' && !w.source(v.waveform)) return false;
           break;
@@ -976,10 +976,10 @@ class Elaborator {
         case 'value': {
           const a = net(el.nodes[0]!);
           const b = net(el.nodes[1] ?? el.nodes[0]!);
-          if (s.kind === 'passive' && s.letter === 'c') c.capacitors.push({ name, a, b, capacitanceF: v.value, origin: el.origin });
-          else if (s.kind === 'passive' && s.letter === 'l') c.inductors.push({ name, a, b, origin: el.origin });
-          else if (s.kind === 'instance' && this.deviceKindOf(s.subckt!.text.toLowerCase()) === 'capacitor') c.capacitors.push({ name, a, b, capacitanceF: v.value, origin: el.origin });
-          else if (s.kind === 'instance' && this.deviceKindOf(s.subckt!.text.toLowerCase()) === 'diode') c.diodes.push({ name, a, b, model: s.subckt!.text.toLowerCase(), origin: el.origin });
+          const list = this.valueList(s);
+          if (list === 'capacitors') c.capacitors.push({ name, a, b, capacitanceF: v.value, origin: el.origin });
+          else if (list === 'inductors') c.inductors.push({ name, a, b, origin: el.origin });
+          else if (list === 'diodes') c.diodes.push({ name, a, b, model: s.kind === 'instance' ? s.subckt!.text.toLowerCase() : '', origin: el.origin });
           else c.resistors.push({ name, a, b, resistanceOhm: v.value, origin: el.origin });
           break;
         }
