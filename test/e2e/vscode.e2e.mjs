@@ -99,9 +99,13 @@ async function main() {
     ['--bind-addr', `127.0.0.1:${port}`, '--auth', 'none', '--disable-telemetry', '--disable-update-check', '--disable-workspace-trust', '--disable-getting-started-override', '--ignore-last-opened', '--reconnection-grace-time', '5', '--user-data-dir', userData, '--extensions-dir', extensions, workspace],
     { env, stdio: ['ignore', 'pipe', 'pipe'], detached: true },
   );
+  // one log for both streams: neither may end it (the other can still write after its own end),
+  // so it is closed once code-server has exited; a logging error never fails the run
   const serverLog = fs.createWriteStream(path.join(RESULTS, 'e2e-code-server.log'));
-  server.stdout.pipe(serverLog);
-  server.stderr.pipe(serverLog);
+  serverLog.on('error', (e) => console.error(`e2e: code-server log: ${e.message}`));
+  server.stdout.pipe(serverLog, { end: false });
+  server.stderr.pipe(serverLog, { end: false });
+  const exited = new Promise((resolve) => server.once('close', resolve));
   let context;
   try {
     await waitForHealth(`http://127.0.0.1:${port}/healthz`, 60_000);
@@ -184,6 +188,8 @@ async function main() {
     } catch {
       // already gone
     }
+    await Promise.race([exited, new Promise((resolve) => setTimeout(resolve, 10_000))]);
+    serverLog.end();
     fs.rmSync(run, { recursive: true, force: true });
   }
 }
