@@ -343,9 +343,9 @@ export function patchSwitchNetwork(prev: SwitchNetwork, c: Circuit, moved: reado
     }
   }
   for (const g of gatesToRedo) {
-    // the kept groups stay in their order; the rebuilt ones go in at their places, in one merge
-    // of two lists sorted by the first switch each group has on the net (a clock's list holds
-    // thousands of groups, and an edit in a repeated cell puts thousands back)
+    // the kept groups stay in their order; the rebuilt ones go in at their places, by the first
+    // switch each group has on the net (a clock's list holds thousands of groups, and an edit in
+    // a repeated cell puts thousands back)
     const kept = prev.gatedComponents[g]!.filter((id) => !touched.has(id));
     const added = (rebuiltGatedBy.get(g) ?? []).map((comp): [number, number] => [firstGated(comp, g), comp.id]).sort((x, y) => x[0] - y[0]);
     if (added.length === 0) {

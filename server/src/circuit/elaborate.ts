@@ -10,6 +10,7 @@ import type { Range } from '../core/source';
 import { DEFAULT_GROUND_PATTERN, DEFAULT_SUPPLY_PATTERN, type EngineOptions } from '../core/options';
 import type { AssignItem, Statement, ValueItem, WordItem } from '../syntax/tree';
 import type { Circuit, Design, Instance, Mosfet, Net, NetKind, Origin, Polarity, Port, PortDirection, Waveform } from './circuit';
+import { mosfetRecord } from './circuit';
 import type { Deck, Located, SubcktDefinition } from './deck';
 import { emptyDirectives, readDirectives, type DeviceKind, type DirectiveSet } from './directives';
 import { interpretElement, MODELLED_LETTERS, splitItems, type ElementSyntax } from './elements';
@@ -249,13 +250,8 @@ class ValueWalk {
     const m = this.c.mosfets[k];
     if (!m || m.name !== name || m.polarity !== v.polarity) return false;
     if (m.wM === v.wM && m.lM === v.lM && m.m === v.m && m.nf === v.nf && m.adM2 === v.adM2 && m.asM2 === v.asM2 && m.pdM === v.pdM && m.psM === v.psM && m.model === v.model && this.cards.same(m.card, v.card)) return true;
-    // built as the elaborator builds a device, on the previous one's nets and line
-    const next: Mosfet = { name: m.name, polarity: m.polarity, d: m.d, g: m.g, s: m.s, b: m.b, wM: v.wM, lM: v.lM, m: v.m, nf: v.nf, model: v.model, card: v.card, origin: m.origin };
-    if (v.adM2 !== undefined) next.adM2 = v.adM2;
-    if (v.asM2 !== undefined) next.asM2 = v.asM2;
-    if (v.pdM !== undefined) next.pdM = v.pdM;
-    if (v.psM !== undefined) next.psM = v.psM;
-    (this.replaced ??= this.c.mosfets.slice())[k] = next;
+    // the new values on the previous device's nets and line
+    (this.replaced ??= this.c.mosfets.slice())[k] = mosfetRecord(m.name, m.polarity, m.d, m.g, m.s, m.b, v, m.origin);
     this.changed.push(k);
     return true;
   }
@@ -380,7 +376,6 @@ class Elaborator {
     };
     modelStatements(deck.subckts);
     yield* this.chooseScale();
-
   }
 
   /** The circuits to elaborate: the top level (undefined) or standalone cells. */
@@ -611,7 +606,6 @@ class Elaborator {
     return undefined;
   }
 
-  /** Element values for one template under one parameter scope (cached by the scope's key). */
   /** Each element's values in one parameter scope (`key`), worked out once per template and key. */
   private *values(t: Template, scope: ParamScope, key: string, defStack: SubcktDefinition[]): Steps<ElementValues[]> {
     const hit = t.valueCache.get(key);
@@ -873,6 +867,13 @@ class Elaborator {
     return { design: this.finish(circuits), changed, diagnostics: this.diagnostics };
   }
 
+  /** One more element copied (or walked): true when a slice's worth has passed since the last yield. */
+  private sliceDue(): boolean {
+    if (++this.copied < ITEMS_PER_SLICE) return false;
+    this.copied = 0;
+    return true;
+  }
+
   /** The circuit's list a two-terminal element with a value goes in (`instantiate` and `revalue` agree on it). */
   private valueList(s: ElementSyntax): 'capacitors' | 'inductors' | 'diodes' | 'resistors' {
     if (s.kind === 'passive') return s.letter === 'c' ? 'capacitors' : s.letter === 'l' ? 'inductors' : 'resistors';
@@ -888,10 +889,7 @@ class Elaborator {
   private *revalueInstance(w: ValueWalk, t: Template, prefix: string, scope: ParamScope, key: string, defStack: SubcktDefinition[]): Steps<boolean> {
     const vals = yield* this.values(t, scope, key, defStack);
     for (let i = 0; i < t.elements.length; i++) {
-      if (++this.copied === ITEMS_PER_SLICE) {
-        this.copied = 0;
-        yield;
-      }
+      if (this.sliceDue()) yield;
       const el = t.elements[i]!;
       const v = vals[i]!;
       const s = el.syntax;
@@ -939,10 +937,7 @@ class Elaborator {
     const net = (k: number) => (k >= 0 ? netMap[k]! : globalIds[-k - 1]!);
     const vals = yield* this.values(t, scope, key, defStack);
     for (let i = 0; i < t.elements.length; i++) {
-      if (++this.copied === ITEMS_PER_SLICE) {
-        this.copied = 0;
-        yield;
-      }
+      if (this.sliceDue()) yield;
       const el = t.elements[i]!;
       const v = vals[i]!;
       const name = prefix + el.origin.local;
@@ -951,26 +946,7 @@ class Elaborator {
         case 'mos': {
           if (!v.card) this.missingModels.get(v.model)!.count++;
           if (!v.polarity) break;
-          const mos: Mosfet = {
-            name,
-            polarity: v.polarity,
-            d: net(el.nodes[0]!),
-            g: net(el.nodes[1]!),
-            s: net(el.nodes[2]!),
-            b: net(el.nodes[3]!),
-            wM: v.wM,
-            lM: v.lM,
-            m: v.m,
-            nf: v.nf,
-            model: v.model,
-            card: v.card,
-            origin: el.origin,
-          };
-          if (v.adM2 !== undefined) mos.adM2 = v.adM2;
-          if (v.asM2 !== undefined) mos.asM2 = v.asM2;
-          if (v.pdM !== undefined) mos.pdM = v.pdM;
-          if (v.psM !== undefined) mos.psM = v.psM;
-          c.mosfets.push(mos);
+          c.mosfets.push(mosfetRecord(name, v.polarity, net(el.nodes[0]!), net(el.nodes[1]!), net(el.nodes[2]!), net(el.nodes[3]!), v, el.origin));
           break;
         }
         case 'value': {

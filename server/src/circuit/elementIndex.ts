@@ -5,13 +5,8 @@
 import { startLineOf } from '../core/source';
 import type { Origin } from './circuit';
 
+/** The positions of a list's elements by origin (every instance of a line shares one). */
 export type OriginIndex = Map<Origin, number[]>;
-
-/**
- * The positions of a list's elements by origin (every instance of a line shares one), built once
- * per list and carried to the list an edit makes from it, so an edit finds the elements of its
- * lines without reading every element.
- */
 const originIndexes = new WeakMap<readonly object[], OriginIndex>();
 
 export function originIndex(list: ReadonlyArray<{ origin: Origin }>): OriginIndex {
@@ -27,6 +22,11 @@ export function originIndex(list: ReadonlyArray<{ origin: Origin }>): OriginInde
     originIndexes.set(list, index);
   }
   return index;
+}
+
+/** Records `index` as the origin index of `list` (an edit that made the list worked it out). */
+export function setOriginIndex(list: ReadonlyArray<{ origin: Origin }>, index: OriginIndex): void {
+  originIndexes.set(list, index);
 }
 
 /**
@@ -64,10 +64,5 @@ export function carryElementIndexes(from: ReadonlyArray<{ origin: Origin }>, to:
   if (o) originIndexes.set(to, o);
   const l = lineIndexes.get(from);
   if (l) lineIndexes.set(to, l);
-}
-
-/** Records `index` as the origin index of `list` (an edit that made the list worked it out). */
-export function setOriginIndex(list: ReadonlyArray<{ origin: Origin }>, index: OriginIndex): void {
-  originIndexes.set(list, index);
 }
 

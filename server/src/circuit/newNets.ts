@@ -12,6 +12,7 @@ import type { EngineOptions } from '../core/options';
 import { DEFAULT_GROUND_PATTERN, DEFAULT_SUPPLY_PATTERN } from '../core/options';
 import { composeRenumberings, movedNets, netInsertion, netRemoval, withNetRows, type NetRenumbering } from '../core/renumber';
 import type { Circuit, Design, Mosfet, Net } from './circuit';
+import { mosfetRecord } from './circuit';
 import type { NetSlots } from './elaborate';
 
 /** The slots put in: indices into the new slots' local names (ascending), all past the ports. */
@@ -191,7 +192,7 @@ function onNewNets(c: Circuit, ins: NetRenumbering): Pick<Circuit, 'mosfets' | '
   };
   const two = <T extends { a: number; b: number }>(list: T[]) => list.map((x) => (at(x.a) === x.a && at(x.b) === x.b ? x : { ...x, a: at(x.a), b: at(x.b) }));
   const out = {
-    mosfets: c.mosfets.map((m): Mosfet => (at(m.d) === m.d && at(m.g) === m.g && at(m.s) === m.s && at(m.b) === m.b ? m : onTerminals(m, at(m.d), at(m.g), at(m.s), at(m.b)))),
+    mosfets: c.mosfets.map((m): Mosfet => (at(m.d) === m.d && at(m.g) === m.g && at(m.s) === m.s && at(m.b) === m.b ? m : mosfetRecord(m.name, m.polarity, at(m.d), at(m.g), at(m.s), at(m.b), m, m.origin))),
     capacitors: two(c.capacitors),
     resistors: two(c.resistors),
     inductors: two(c.inductors),
@@ -214,19 +215,5 @@ function onNewNets(c: Circuit, ins: NetRenumbering): Pick<Circuit, 'mosfets' | '
   if (lost) return undefined;
   setOriginIndex(out.mosfets, originIndex(c.mosfets));
   setOriginIndex(out.instances, originIndex(c.instances));
-  return out;
-}
-
-/**
- * A MOSFET on other nets, built field by field as the elaborator builds one: a spread of these
- * records (several shapes, from the optional areas) took V8's slow path, about 1.8 us each, and
- * a new net name copies every device after it (about 100,000).
- */
-function onTerminals(m: Mosfet, d: number, g: number, s: number, b: number): Mosfet {
-  const out: Mosfet = { name: m.name, polarity: m.polarity, d, g, s, b, wM: m.wM, lM: m.lM, m: m.m, nf: m.nf, model: m.model, card: m.card, origin: m.origin };
-  if (m.adM2 !== undefined) out.adM2 = m.adM2;
-  if (m.asM2 !== undefined) out.asM2 = m.asM2;
-  if (m.pdM !== undefined) out.pdM = m.pdM;
-  if (m.psM !== undefined) out.psM = m.psM;
   return out;
 }

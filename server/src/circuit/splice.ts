@@ -13,6 +13,7 @@ import { rangeOf, Span, startLineOf, type Range } from '../core/source';
 import type { Diagnostic } from '../core/diagnostics';
 import { splicedList, type NetRenumbering } from '../core/renumber';
 import type { Circuit, Design, Instance, Mosfet, Net, Origin, Polarity } from './circuit';
+import { mosfetRecord } from './circuit';
 import type { ModelCard } from './models';
 import type { Deck } from './deck';
 import { elementNodeWords, guessMicronScale, type NetSlots } from './elaborate';
@@ -440,9 +441,7 @@ function spliceCircuit(c: Circuit, e: SpliceEdit, limit: number): { circuit: Cir
             if (id === undefined) return undefined;
             nets.push(id);
           }
-          const m: Mosfet = { name: x.prefix + l.local, polarity: l.values.polarity, d: nets[0]!, g: nets[1]!, s: nets[2]!, b: nets[3]!, wM: l.values.wM, lM: l.values.lM, m: l.values.m, nf: l.values.nf, model: l.values.model, card: l.values.card, origin: l.origin };
-          for (const k of ['adM2', 'asM2', 'pdM', 'psM'] as const) if (l.values[k] !== undefined) m[k] = l.values[k];
-          added.push(m);
+          added.push(mosfetRecord(x.prefix + l.local, l.values.polarity, nets[0]!, nets[1]!, nets[2]!, nets[3]!, l.values, l.origin));
           inserts.push({ at: lo, prefix: x.prefix });
         }
       }

@@ -9,8 +9,8 @@ import type { Diagnostic, RelatedInfo } from '../core/diagnostics';
 import { rangeOf, type Range } from '../core/source';
 import type { Deck } from '../circuit/deck';
 import type { SyntaxFile } from '../syntax/tree';
-import { sameItem, sameRange } from '../syntax/compare';
-import { movedLinesBetween, sharedRuns } from '../syntax/parser';
+import { sameRange, sameStatement } from '../syntax/compare';
+import { sharedRuns } from '../syntax/parser';
 
 /** Old first line -> line shift, for every meaningful line of one file. */
 interface LineMap {
@@ -94,21 +94,12 @@ function fileMap(a: SyntaxFile, b: SyntaxFile): LineMap | undefined {
     }
     const x = a.statements[i]!;
     const y = b.statements[i]!;
-    // a statement the parse took from the previous one, as it was or moved (see parseNetlist)
-    const moved = movedLinesBetween(x, y);
-    if (moved !== undefined) {
-      spans.push([x.range.start.line, x.range.end.line, moved]);
-      continue;
-    }
+    // (a statement one parse took from the other, as it was or moved, is known without its words)
     const shift = y.range.start.line - x.range.start.line;
-    if (x.range.start.character !== y.range.start.character || !sameItem(x.head, y.head, shift)) return undefined;
-    if (x.items.length !== y.items.length) return undefined;
-    for (let k = 0; k < x.items.length; k++) if (!sameItem(x.items[k]!, y.items[k]!, shift)) return undefined;
-    if (!sameRange(x.range, y.range, shift)) return undefined;
+    if (!sameStatement(x, y, shift)) return undefined;
     spans.push([x.range.start.line, x.range.end.line, shift]);
   }
-  // (statements and chunks come in file order; a statement's span may hold comment lines)
-  spans.sort((p, q) => p[0] - q[0]);
+  // chunks and statements come in file order, so the spans are sorted by their first line
   const m: LineMap = { spans };
   // special comments: inside a shared chunk's span they moved with it; elsewhere their own spans
   const others: Array<[number, number, number]> = [];
