@@ -59,6 +59,22 @@ export function elementNodeWords(item: Statement): { skipped?: undefined; syntax
   return { syntax, nodes };
 }
 
+/** Stand-in ids of the top level's own nets while the elaborator builds the instances below it. */
+const TOP_NET_STAND_IN = 0x40000000;
+
+/** Every element's stand-in top-level net ids (elaborateTop) replaced by the nets' numbers from `first` on. */
+function numberTopNets(c: Circuit, first: number): void {
+  const at = (x: number) => (x >= TOP_NET_STAND_IN ? first + x - TOP_NET_STAND_IN : x);
+  // the records are this elaboration's own, not yet seen by anyone: set in place
+  for (const m of c.mosfets) {
+    if (m.d >= TOP_NET_STAND_IN || m.g >= TOP_NET_STAND_IN || m.s >= TOP_NET_STAND_IN || m.b >= TOP_NET_STAND_IN) (m.d = at(m.d)), (m.g = at(m.g)), (m.s = at(m.s)), (m.b = at(m.b));
+  }
+  for (const list of [c.capacitors, c.resistors, c.inductors, c.diodes]) for (const e of list) (e.a = at(e.a)), (e.b = at(e.b));
+  for (const v of c.sources) (v.p = at(v.p)), (v.n = at(v.n));
+  for (const o of c.others) for (let k = 0; k < o.nets.length; k++) o.nets[k] = at(o.nets[k]!);
+  for (const inst of c.instances) for (let k = 0; k < inst.ports.length; k++) inst.ports[k] = at(inst.ports[k]!);
+}
+
 /**
  * A definition's net slots as its template numbers them: ports first (each its own slot, even
  * when named like a global, so binding stays positional), then the other names in the order
@@ -796,8 +812,16 @@ class Elaborator {
   private *elaborateTop(): Steps<Circuit> {
     const c = this.newCircuit('(top)', false);
     const t = yield* this.templateSteps(undefined);
-    const netMap = t.localNames.map((n, i) => this.addNet(c, n, t.localOrigins[i]!, false));
+    // The top level's own nets are numbered after every other net (globals and the instances'
+    // blocks), so a name put in at the top level moves only the top-level nets after it, not
+    // the whole circuit's (newNets.ts). They are bound to stand-in ids while the instances are
+    // built, then given their numbers; no other net can share a top-level name (instances'
+    // names are prefixed, globals are told apart by their names).
+    const netMap = t.localNames.map((_, i) => TOP_NET_STAND_IN + i);
     yield* this.instantiate(c, t, netMap, '', this.globalScope, 'top', []);
+    const first = c.nets.length;
+    t.localNames.forEach((n, i) => this.addNet(c, n, t.localOrigins[i]!, false));
+    numberTopNets(c, first);
     c.instanceMosfets = Int32Array.from(this.spans);
     this.assignRails(c, netIdsWhere(c, (n) => !n.name.includes('.')));
     return c;

@@ -1,6 +1,7 @@
 // A reconnection that names a net its scope did not have (a new word typed on an element line):
 // the scope's net slots are the old ones with names put in, so every instance of the scope gets
-// its new nets in the block of nets it owns, and every later net moves up. This stage makes the
+// its new nets in the block of nets it owns, and every later net moves up (the top level's own
+// nets come last, so a name put in there moves few). This stage makes the
 // old circuit with those nets put in and nothing on them yet (`widenCircuit`), under the net
 // insertion (core/renumber) that every later stage applies to its own results; the reconnection
 // then wires the edited lines to them as to any other net. Nets put in that a name rule, a
