@@ -319,12 +319,10 @@ export class NetKeyedMap<V> extends DerivedMap<number, V> {
       return new NetKeyedMap(m.base, composeRenumberings(m.oldToNew, oldToNew), composeRenumberings(newToOld, m.newToOld), renumber, count, m.depth);
     }
     if (map instanceof OverlayMap) {
+      // each level's changes read under the renumbering too, when first read: a chain of
+      // overlays after edits in a many-copy cell holds thousands of changed entries
       const o = map as OverlayMap<number, V>;
-      const changes = new Map<number, V | undefined>();
-      for (const [k, v] of o.changes) {
-        const j = oldToNew[k]!;
-        if (j >= 0) changes.set(j, v === undefined ? undefined : renumber(v, oldToNew));
-      }
+      const changes = NetKeyedMap.over(o.changes as ReadonlyMap<number, V>, oldToNew, newToOld, renumber, removed) as ReadonlyMap<number, V | undefined>;
       return OverlayMap.rebased(o, NetKeyedMap.over(o.base, oldToNew, newToOld, renumber, removed), changes, count);
     }
     const depth = map instanceof DerivedMap ? map.depth + 1 : 1;

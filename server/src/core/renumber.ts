@@ -11,12 +11,23 @@ export function renumbered(list: readonly number[], oldToNew: Int32Array): numbe
   return out ? out.filter((j) => j >= 0) : (list as number[]);
 }
 
-/** `first` then `second`: old index to newest, -1 for one either of them deleted. */
+/**
+ * `first` then `second`: old index to newest, -1 for one either of them deleted. Renumberings
+ * are never changed once made, so the composition is kept for the pair: carrying a chain of
+ * overlays under one net renumbering composes the same two arrays at every level.
+ */
 export function composeRenumberings(first: Int32Array, second: Int32Array): Int32Array {
+  let after = composed.get(first);
+  const known = after?.get(second);
+  if (known) return known;
   const out = new Int32Array(first.length);
   for (let i = 0; i < first.length; i++) out[i] = first[i]! < 0 ? -1 : second[first[i]!]!;
+  if (!after) composed.set(first, (after = new WeakMap()));
+  after.set(second, out);
   return out;
 }
+
+const composed = new WeakMap<Int32Array, WeakMap<Int32Array, Int32Array>>();
 
 /**
  * `list` with the entries at `deleted` (old positions, ascending) taken out and new ones put in

@@ -6,7 +6,7 @@ import { newToOldNets, renumbered, withNetCells, type NetRenumbering } from '../
 import { floatsIn, nodeFloatWindow, type NodePhaseResult } from '../classify';
 import { evaluateComponent, newScratch, type Scratch } from '../constants';
 import { mosfetOfSwitch, NetRole, SwitchKind } from '../switchNetwork';
-import { carryToTwin, familyOf, type Family } from './family';
+import { carryToTwin, estimateRecord, familyOf, type Family } from './family';
 import { stepDue, runToEnd, type Steps } from '../../core/steps';
 import { NetKeyedMap, OverlayMap, RenumberedMap } from '../../core/overlay';
 import type { ElectricalContext } from './context';
@@ -200,7 +200,7 @@ export function renameEstimates(estimates: Map<number, NodeEstimate>, names: Rea
     const holderChanged = sh !== undefined && (up !== sh.pullUp || down !== sh.pullDown || inverter(sh.forward) !== sh.forward);
     if (!csChanged && !coupChanged && sk === e.suggestedKeeper && !holderChanged) continue;
     out ??= new Map(estimates);
-    const next: NodeEstimate = { ...e };
+    const next = estimateRecord(e, e.node, e.devices);
     if (csChanged) next.chargeSharing = { ...cs!, when: Object.fromEntries(Object.entries(cs!.when).map(([k, v]) => [name(k), v])) };
     if (coupChanged) next.coupling = { droopV: e.coupling.droopV, aggressors: e.coupling.aggressors.map((a) => ({ net: name(a.net), capacitanceF: a.capacitanceF, droopV: a.droopV, via: a.via })) };
     if (sk) next.suggestedKeeper = sk;
@@ -233,7 +233,7 @@ function renumberEstimate(e: NodeEstimate, oldToNew: Int32Array): NodeEstimate {
   const against = k && renumbered(k.against, oldToNew);
   const aggressorsMove = e.capacitance.aggressors.some((x) => x.device !== undefined && oldToNew[x.device] !== x.device);
   if (devices === e.devices && keeperDevices === k?.devices && against === k?.against && !aggressorsMove) return e;
-  const next: NodeEstimate = { ...e, devices };
+  const next = estimateRecord(e, e.node, devices);
   if (k) next.keeper = { ...k, devices: keeperDevices!, against: against! };
   if (aggressorsMove) next.capacitance = { ...e.capacitance, aggressors: e.capacitance.aggressors.map((x) => (x.device === undefined ? x : { ...x, device: oldToNew[x.device]! })) };
   return next;
@@ -253,7 +253,7 @@ export function widenEstimates(estimates: ReadonlyMap<number, NodeEstimate>, ins
 }
 
 function widenEstimate(e: NodeEstimate, map: Int32Array): NodeEstimate {
-  const next: NodeEstimate = { ...e, node: map[e.node]! };
+  const next = estimateRecord(e, map[e.node]!, e.devices);
   if (e.capacitance.aggressors.some((a) => map[a.net] !== a.net)) next.capacitance = { ...e.capacitance, aggressors: e.capacitance.aggressors.map((a) => ({ ...a, net: map[a.net]! })) };
   const cs = e.chargeSharing;
   if (cs) next.chargeSharing = { ...cs, gates: new Map([...cs.gates].map(([g, v]) => [map[g]!, v])), joined: cs.joined.map((x) => map[x]!) };
@@ -286,12 +286,14 @@ export function nodesReading(ctx: ElectricalContext, mosfets: Iterable<number>):
  */
 function copyEstimate(from: NodeEstimate, n: number, devices: number[]): NodeEstimate | undefined {
   const k = from.keeper;
-  if (!k) return { ...from, node: n, devices };
+  if (!k) return estimateRecord(from, n, devices);
   const own = (d: number) => devices[from.devices.indexOf(d)];
   const keeperDevices = k.devices.map(own);
   const against = k.against.map(own);
   if (keeperDevices.some((d) => d === undefined) || against.some((d) => d === undefined)) return undefined;
-  return { ...from, node: n, devices, keeper: { ...k, devices: keeperDevices as number[], against: against as number[] } };
+  const out = estimateRecord(from, n, devices);
+  out.keeper = { ...k, devices: keeperDevices as number[], against: against as number[] };
+  return out;
 }
 
 /** One pass of estimates over a circuit, with the caches that let repeated cells share solves. */
