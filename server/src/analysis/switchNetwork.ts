@@ -6,7 +6,7 @@
 import type { Circuit } from '../circuit/circuit';
 import type { Clock } from '../phases/clocks';
 import type { MosfetRenumbering } from '../circuit/splice';
-import { composeRenumberings, movedNets, renumbered, splicedList, withNetCells, withNetRows, type NetRenumbering } from '../core/renumber';
+import { composeRenumberings, firstMovedNet, movedNets, renumbered, splicedList, withNetCells, withNetRows, type NetRenumbering } from '../core/renumber';
 import { LIST_ITEMS_PER_SLICE, runToEnd, type Steps } from '../core/steps';
 
 export const enum NetRole {
@@ -442,12 +442,18 @@ const gateCounts = new WeakMap<SwitchNetwork, Int32Array>();
 export function widenNetwork(prev: SwitchNetwork, c: Circuit, ins: NetRenumbering): SwitchNetwork {
   const map = ins.oldToNew;
   const at = (x: number) => map[x]!;
-  const switches = prev.switches.map((s) => {
+  // nets below the first moved one keep their numbers (one comparison per terminal for most)
+  const first = firstMovedNet(ins);
+  let switches: Switch[] | undefined;
+  for (let i = 0; i < prev.switches.length; i++) {
+    const s = prev.switches[i]!;
+    if (s.a < first && s.b < first && s.gate < first) continue;
     const gate = s.gate < 0 ? s.gate : at(s.gate);
-    return at(s.a) === s.a && at(s.b) === s.b && gate === s.gate ? s : { a: at(s.a), b: at(s.b), gate, kind: s.kind, other: s.other };
-  });
+    if (at(s.a) !== s.a || at(s.b) !== s.b || gate !== s.gate) (switches ??= prev.switches.slice())[i] = { a: at(s.a), b: at(s.b), gate, kind: s.kind, other: s.other };
+  }
   const componentOf = withNetCells(prev.componentOf, ins, -1);
   const components = prev.components.map((g): Component => {
+    if (g.nodes.every((x) => x < first) && g.gates.every((x) => x < first)) return g;
     const nodes = movedNets(g.nodes, ins);
     const gates = movedNets(g.gates, ins);
     if (nodes === g.nodes && gates === g.gates) return g;
@@ -460,7 +466,8 @@ export function widenNetwork(prev: SwitchNetwork, c: Circuit, ins: NetRenumberin
   const network: SwitchNetwork = {
     circuit: c,
     role: withNetCells(prev.role, ins, NetRole.Internal),
-    switches,
+    // the same list when no switch moved (a list is never changed once made)
+    switches: switches ?? prev.switches,
     componentOf,
     components,
     gatedComponents: withNetRows(prev.gatedComponents, ins, () => []),

@@ -11,8 +11,8 @@ import { DerivedMap } from '../core/overlay';
 import { originIndex, setOriginIndex } from './elementIndex';
 import type { EngineOptions } from '../core/options';
 import { DEFAULT_GROUND_PATTERN, DEFAULT_SUPPLY_PATTERN } from '../core/options';
-import { composeRenumberings, movedNets, netInsertion, netRemoval, withNetRows, type NetRenumbering } from '../core/renumber';
-import type { Circuit, Design, Mosfet, Net } from './circuit';
+import { composeRenumberings, firstMovedNet, movedNets, netInsertion, netRemoval, withNetRows, type NetRenumbering } from '../core/renumber';
+import type { Circuit, Design, Instance, Mosfet, Net } from './circuit';
 import { mosfetRecord } from './circuit';
 import type { NetSlots } from './elaborate';
 
@@ -173,6 +173,20 @@ export function narrowCircuit(c: Circuit, removed: readonly number[]): { circuit
   return { circuit: { ...c, nets, netByName: NetNumbersByName.over(c.netByName, ins.oldToNew, new Map()), ...moved }, nets: ins };
 }
 
+/** Instances with their ports under a net renumbering; the same list when none moved. */
+function onNewPorts(list: Instance[], first: number, ids: (l: readonly number[]) => number[]): Instance[] {
+  let out: Instance[] | undefined;
+  for (let i = 0; i < list.length; i++) {
+    const inst = list[i]!;
+    let below = true;
+    for (const x of inst.ports) if (x >= first) below = false;
+    if (below) continue;
+    const ports = ids(inst.ports);
+    if (ports !== inst.ports) (out ??= list.slice())[i] = { name: inst.name, subckt: inst.subckt, ports, below: inst.below, origin: inst.origin };
+  }
+  return out ?? list;
+}
+
 /**
  * Every element of `c` on its nets under a net renumbering (those unchanged kept as they are),
  * or undefined when one is on a net taken out. The MOSFET and instance lists keep their places,
@@ -192,8 +206,19 @@ function onNewNets(c: Circuit, ins: NetRenumbering): Pick<Circuit, 'mosfets' | '
     return moved;
   };
   const two = <T extends { a: number; b: number }>(list: T[]) => list.map((x) => (at(x.a) === x.a && at(x.b) === x.b ? x : { ...x, a: at(x.a), b: at(x.b) }));
+  // nets below the first moved one keep their numbers: most MOSFETs need one comparison per
+  // terminal (a name put in at the top level moves only the top level's later nets)
+  const first = firstMovedNet(ins);
+  const mosfet = (m: Mosfet): Mosfet => (m.d < first && m.g < first && m.s < first && m.b < first) || (at(m.d) === m.d && at(m.g) === m.g && at(m.s) === m.s && at(m.b) === m.b) ? m : mosfetRecord(m.name, m.polarity, at(m.d), at(m.g), at(m.s), at(m.b), m, m.origin);
+  let mosfets: Mosfet[] | undefined;
+  for (let i = 0; i < c.mosfets.length; i++) {
+    const m = c.mosfets[i]!;
+    const moved = mosfet(m);
+    if (moved !== m) (mosfets ??= c.mosfets.slice())[i] = moved;
+  }
   const out = {
-    mosfets: c.mosfets.map((m): Mosfet => (at(m.d) === m.d && at(m.g) === m.g && at(m.s) === m.s && at(m.b) === m.b ? m : mosfetRecord(m.name, m.polarity, at(m.d), at(m.g), at(m.s), at(m.b), m, m.origin))),
+    // the same list when no MOSFET moved (a list is never changed once made)
+    mosfets: mosfets ?? c.mosfets,
     capacitors: two(c.capacitors),
     resistors: two(c.resistors),
     inductors: two(c.inductors),
@@ -203,10 +228,7 @@ function onNewNets(c: Circuit, ins: NetRenumbering): Pick<Circuit, 'mosfets' | '
       const moved = ids(o.nets);
       return moved === o.nets ? o : { ...o, nets: moved };
     }),
-    instances: c.instances.map((inst) => {
-      const ports = ids(inst.ports);
-      return ports === inst.ports ? inst : { name: inst.name, subckt: inst.subckt, ports, below: inst.below, origin: inst.origin };
-    }),
+    instances: onNewPorts(c.instances, first, ids),
     ports: c.ports.map((p) => (at(p.net) === p.net ? p : { ...p, net: at(p.net) })),
     supplies: c.supplies.map((s) => (at(s.net) === s.net ? s : { ...s, net: at(s.net) })),
     grounds: ids(c.grounds),
@@ -214,7 +236,7 @@ function onNewNets(c: Circuit, ins: NetRenumbering): Pick<Circuit, 'mosfets' | '
     outputs: ids(c.outputs),
   };
   if (lost) return undefined;
-  setOriginIndex(out.mosfets, originIndex(c.mosfets));
-  setOriginIndex(out.instances, originIndex(c.instances));
+  if (out.mosfets !== c.mosfets) setOriginIndex(out.mosfets, originIndex(c.mosfets));
+  if (out.instances !== c.instances) setOriginIndex(out.instances, originIndex(c.instances));
   return out;
 }

@@ -6,6 +6,8 @@
 import { composeRenumberings } from './renumber';
 
 const MAX_DEPTH = 24;
+/** An overlay level with more changed entries than 1/this of the nets is renumbered lazily (NetKeyedMap.over). */
+const LAZY_CHANGES_FRACTION = 16;
 
 /**
  * The shared mechanism: a subclass answers lookups (`get`, `has`) and says how to make the whole
@@ -319,10 +321,20 @@ export class NetKeyedMap<V> extends DerivedMap<number, V> {
       return new NetKeyedMap(m.base, composeRenumberings(m.oldToNew, oldToNew), composeRenumberings(newToOld, m.newToOld), renumber, count, m.depth);
     }
     if (map instanceof OverlayMap) {
-      // each level's changes read under the renumbering too, when first read: a chain of
-      // overlays after edits in a many-copy cell holds thousands of changed entries
       const o = map as OverlayMap<number, V>;
-      const changes = NetKeyedMap.over(o.changes as ReadonlyMap<number, V>, oldToNew, newToOld, renumber, removed) as ReadonlyMap<number, V | undefined>;
+      // a level's few changes are moved at once; many (edits in a cell with many copies) are
+      // read under the renumbering when first read, which costs a composition of two
+      // renumberings (a pass over every net) at the next renumbering instead
+      let changes: ReadonlyMap<number, V | undefined>;
+      if (o.changes.size * LAZY_CHANGES_FRACTION > oldToNew.length) changes = NetKeyedMap.over(o.changes as ReadonlyMap<number, V>, oldToNew, newToOld, renumber, removed);
+      else {
+        const moved = new Map<number, V | undefined>();
+        for (const [k, v] of o.changes) {
+          const j = oldToNew[k]!;
+          if (j >= 0) moved.set(j, v === undefined ? undefined : renumber(v, oldToNew));
+        }
+        changes = moved;
+      }
       return OverlayMap.rebased(o, NetKeyedMap.over(o.base, oldToNew, newToOld, renumber, removed), changes, count);
     }
     const depth = map instanceof DerivedMap ? map.depth + 1 : 1;

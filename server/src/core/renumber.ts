@@ -114,6 +114,11 @@ export function movedNets(list: readonly number[], ins: NetRenumbering): number[
   return renumbered(list, ins.oldToNew);
 }
 
+/** The lowest old net whose number changes: every net below it keeps its number. */
+export function firstMovedNet(ins: NetRenumbering): number {
+  return Math.min(ins.added[0] ?? ins.oldToNew.length, ins.removed[0] ?? ins.oldToNew.length);
+}
+
 /** New id to old, -1 for a net put in. */
 export function newToOldNets(ins: NetRenumbering): Int32Array {
   const out = new Int32Array(ins.count).fill(-1);
