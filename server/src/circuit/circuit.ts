@@ -146,6 +146,11 @@ export interface Circuit {
   name: string;
   standalone: boolean;
   nets: Net[];
+  /**
+   * How many nets come first, before every definition's own (elaborate numberNetsByScope):
+   * globals, source terminals, rails by name and nets a directive or a setting names.
+   */
+  pinnedNets: number;
   netByName: Map<string, number>;
   mosfets: Mosfet[];
   capacitors: Capacitor[];

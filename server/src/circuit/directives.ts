@@ -6,6 +6,7 @@ import { diag } from '../core/diagnostics';
 import type { Range } from '../core/source';
 import type { DirectiveLine } from '../syntax/tree';
 import { parseSpiceNumber } from './numbers';
+import type { EngineOptions } from '../core/options';
 
 export type DeviceKind = 'nmos' | 'pmos' | 'diode' | 'short' | 'resistor' | 'capacitor';
 
@@ -48,6 +49,19 @@ export interface DirectiveSet {
 
 export function emptyDirectives(): DirectiveSet {
   return { clocks: [], standby: [], supplies: [], grounds: [], inputs: [], outputs: [], tempsC: undefined, budget: undefined, accepts: [], devices: [], scale: undefined };
+}
+
+/** The net names (lower case) directives and settings give a role to: clocks, standby, rails, inputs and outputs. */
+export function roleNames(d: DirectiveSet, options: EngineOptions): Set<string> {
+  const out = new Set<string>();
+  const add = (n: string | undefined) => n !== undefined && out.add(n.toLowerCase());
+  for (const c of d.clocks) (add(c.net), add(c.inverseOf));
+  for (const list of [d.standby, d.supplies, d.grounds, d.inputs, d.outputs]) for (const x of list) add(x.net);
+  for (const c of options.clocks ?? []) (add(c.net), add(c.inverseOf));
+  for (const x of options.standby ?? []) add(x.net);
+  for (const g of options.grounds ?? []) add(g);
+  for (const s of Object.keys(options.supplies ?? {})) add(s);
+  return out;
 }
 
 export const DIRECTIVE_VERBS = ['clock', 'standby', 'supply', 'ground', 'input', 'output', 'temps', 'budget', 'accept', 'device', 'scale'] as const;

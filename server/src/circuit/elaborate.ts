@@ -12,7 +12,7 @@ import type { AssignItem, Statement, ValueItem, WordItem } from '../syntax/tree'
 import type { Circuit, Design, Instance, Mosfet, Net, NetKind, Origin, Polarity, Port, PortDirection, Waveform } from './circuit';
 import { mosfetRecord } from './circuit';
 import type { Deck, Located, SubcktDefinition } from './deck';
-import { emptyDirectives, readDirectives, type DeviceKind, type DirectiveSet } from './directives';
+import { emptyDirectives, readDirectives, roleNames, type DeviceKind, type DirectiveSet } from './directives';
 import { interpretElement, MODELLED_LETTERS, splitItems, type ElementSyntax } from './elements';
 import { readModelCard, selectModel, type ModelCard } from './models';
 import { evaluateValue, ParamScope } from './params';
@@ -59,20 +59,54 @@ export function elementNodeWords(item: Statement): { skipped?: undefined; syntax
   return { syntax, nodes };
 }
 
-/** Stand-in ids of the top level's own nets while the elaborator builds the instances below it. */
-const TOP_NET_STAND_IN = 0x40000000;
-
-/** Every element's stand-in top-level net ids (elaborateTop) replaced by the nets' numbers from `first` on. */
-function numberTopNets(c: Circuit, first: number): void {
-  const at = (x: number) => (x >= TOP_NET_STAND_IN ? first + x - TOP_NET_STAND_IN : x);
-  // the records are this elaboration's own, not yet seen by anyone: set in place
-  for (const m of c.mosfets) {
-    if (m.d >= TOP_NET_STAND_IN || m.g >= TOP_NET_STAND_IN || m.s >= TOP_NET_STAND_IN || m.b >= TOP_NET_STAND_IN) (m.d = at(m.d)), (m.g = at(m.g)), (m.s = at(m.s)), (m.b = at(m.b));
+/**
+ * The flat nets renumbered in runs by the definition whose body names them, the circuit's own
+ * scope (`own`: null for the top level) last, after the definitions from the most copied to the
+ * least (ties in the order first built); before them all the `pinned` nets, those every part of
+ * the circuit reaches and no quick edit can give or take a role: globals, source terminals,
+ * rails by name, nets a directive or a setting names. A name put in to a definition's body then
+ * moves only the nets of its later copies and of the definitions after it (newNets.ts), not
+ * every net built after its first copy, nor the supply and the clocks every device touches: a
+ * name put in at the top level moves only the top level's later nets, one in a cell of a
+ * hundred copies a few thousand. Each copy's own nets stay one run, in slot order. The records
+ * are this elaboration's own, not yet seen by anyone, so they are set in place. Returns old id
+ * -> new id.
+ */
+function numberNetsByScope(c: Circuit, own: string | null, pinned: Uint8Array): Int32Array {
+  const copies = new Map<string, number>();
+  for (const inst of c.instances) copies.set(inst.subckt, (copies.get(inst.subckt) ?? 0) + 1);
+  const scopeOf = (n: Net, x: number): string | null | undefined => (pinned[x] ? undefined : n.origin.subckt);
+  // the scopes in the order first built, then ranked
+  const scopes: Array<string | null | undefined> = [];
+  const seen = new Set<string | null | undefined>();
+  for (let x = 0; x < c.nets.length; x++) {
+    const k = scopeOf(c.nets[x]!, x);
+    if (!seen.has(k)) (seen.add(k), scopes.push(k));
   }
+  const rank = (k: string | null | undefined) => (k === undefined ? -Infinity : k === own ? Infinity : -(copies.get(k as string) ?? 0));
+  const order = scopes.map((k, i) => ({ k, i })).sort((x, y) => rank(x.k) - rank(y.k) || x.i - y.i);
+  const runOf = new Map(order.map(({ k }, r) => [k, r]));
+  // a counting sort: each scope's nets keep their order within its run
+  const start = new Int32Array(order.length + 1);
+  const scopeRun = new Int32Array(c.nets.length);
+  for (let x = 0; x < c.nets.length; x++) start[(scopeRun[x] = runOf.get(scopeOf(c.nets[x]!, x))!) + 1]!++;
+  for (let r = 0; r < order.length; r++) start[r + 1]! += start[r]!;
+  c.pinnedNets = order[0]?.k === undefined ? start[1]! : 0;
+  const oldToNew = new Int32Array(c.nets.length);
+  for (let x = 0; x < c.nets.length; x++) oldToNew[x] = start[scopeRun[x]!]!++;
+  const nets = new Array<Net>(c.nets.length);
+  for (let x = 0; x < c.nets.length; x++) nets[oldToNew[x]!] = c.nets[x]!;
+  c.nets.length = 0;
+  for (const n of nets) c.nets.push(n);
+  c.netByName.clear();
+  for (let x = 0; x < nets.length; x++) c.netByName.set(nets[x]!.name, x);
+  const at = (x: number) => oldToNew[x]!;
+  for (const m of c.mosfets) (m.d = at(m.d)), (m.g = at(m.g)), (m.s = at(m.s)), (m.b = at(m.b));
   for (const list of [c.capacitors, c.resistors, c.inductors, c.diodes]) for (const e of list) (e.a = at(e.a)), (e.b = at(e.b));
   for (const v of c.sources) (v.p = at(v.p)), (v.n = at(v.n));
   for (const o of c.others) for (let k = 0; k < o.nets.length; k++) o.nets[k] = at(o.nets[k]!);
   for (const inst of c.instances) for (let k = 0; k < inst.ports.length; k++) inst.ports[k] = at(inst.ports[k]!);
+  return oldToNew;
 }
 
 /**
@@ -787,6 +821,7 @@ class Elaborator {
       others: [],
       instances: [],
       instanceMosfets: new Int32Array(0),
+      pinnedNets: 0,
       ports: [],
       supplies: [],
       grounds: [],
@@ -812,19 +847,28 @@ class Elaborator {
   private *elaborateTop(): Steps<Circuit> {
     const c = this.newCircuit('(top)', false);
     const t = yield* this.templateSteps(undefined);
-    // The top level's own nets are numbered after every other net (globals and the instances'
-    // blocks), so a name put in at the top level moves only the top-level nets after it, not
-    // the whole circuit's (newNets.ts). They are bound to stand-in ids while the instances are
-    // built, then given their numbers; no other net can share a top-level name (instances'
-    // names are prefixed, globals are told apart by their names).
-    const netMap = t.localNames.map((_, i) => TOP_NET_STAND_IN + i);
+    const netMap = t.localNames.map((n, i) => this.addNet(c, n, t.localOrigins[i]!, false));
     yield* this.instantiate(c, t, netMap, '', this.globalScope, 'top', []);
-    const first = c.nets.length;
-    t.localNames.forEach((n, i) => this.addNet(c, n, t.localOrigins[i]!, false));
-    numberTopNets(c, first);
+    yield;
+    numberNetsByScope(c, null, this.pinnedNets(c));
     c.instanceMosfets = Int32Array.from(this.spans);
     this.assignRails(c, netIdsWhere(c, (n) => !n.name.includes('.')));
     return c;
+  }
+
+  /** The nets numbered first (numberNetsByScope): what every part of the circuit reaches and no quick edit gives or takes a role. */
+  private pinnedNets(c: Circuit): Uint8Array {
+    const pinned = new Uint8Array(c.nets.length);
+    for (const s of c.sources) (pinned[s.p] = 1), (pinned[s.n] = 1);
+    for (const name of roleNames(this.directives, this.options)) {
+      const id = c.netByName.get(name);
+      if (id !== undefined) pinned[id] = 1;
+    }
+    for (let x = 0; x < c.nets.length; x++) {
+      const n = c.nets[x]!;
+      if (n.global || (!n.name.includes('.') && (this.supplyRe.test(n.name) || this.groundRe.test(n.name)))) pinned[x] = 1;
+    }
+    return pinned;
   }
 
   private *elaborateStandalone(def: SubcktDefinition): Steps<Circuit> {
@@ -833,8 +877,10 @@ class Elaborator {
     const { scope, key } = this.standaloneScope(def, t);
     const netMap = t.localNames.map((n, i) => this.addNet(c, n, t.localOrigins[i]!, false));
     yield* this.instantiate(c, t, netMap, '', scope, key, [def]);
+    yield;
+    const oldToNew = numberNetsByScope(c, def.name, this.pinnedNets(c));
     c.instanceMosfets = Int32Array.from(this.spans);
-    const portNets = def.ports.map((_, i) => netMap[i]!);
+    const portNets = def.ports.map((_, i) => oldToNew[netMap[i]!]!);
     this.assignRails(c, [...portNets, ...netIdsWhere(c, (n) => n.global)]);
     this.assignPorts(c, def, portNets);
     return c;

@@ -1,7 +1,7 @@
 // A reconnection that names a net its scope did not have (a new word typed on an element line):
 // the scope's net slots are the old ones with names put in, so every instance of the scope gets
-// its new nets in the block of nets it owns, and every later net moves up (the top level's own
-// nets come last, so a name put in there moves few). This stage makes the
+// its new nets in the run of nets it owns, and every later net moves up (elaborate
+// numberNetsByScope keeps that to few). This stage makes the
 // old circuit with those nets put in and nothing on them yet (`widenCircuit`), under the net
 // insertion (core/renumber) that every later stage applies to its own results; the reconnection
 // then wires the edited lines to them as to any other net. Nets put in that a name rule, a
@@ -15,6 +15,7 @@ import { composeRenumberings, firstMovedNet, movedNets, netInsertion, netRemoval
 import type { Circuit, Design, Instance, Mosfet, Net } from './circuit';
 import { mosfetRecord } from './circuit';
 import type { NetSlots } from './elaborate';
+import { roleNames } from './directives';
 
 /** The slots put in: indices into the new slots' local names (ascending), all past the ports. */
 export function insertedSlots(before: NetSlots, after: NetSlots, portCount: number): number[] | undefined {
@@ -41,16 +42,7 @@ export function removedSlots(before: NetSlots, after: NetSlots, portCount: numbe
 
 /** Names a directive or a setting gives a role to: a net put in with one of them takes the full path. */
 export function namedNets(design: Design, options: EngineOptions): Set<string> {
-  const d = design.directives;
-  const out = new Set<string>();
-  const add = (n: string | undefined) => n !== undefined && out.add(n.toLowerCase());
-  for (const c of d.clocks) (add(c.net), add(c.inverseOf));
-  for (const list of [d.standby, d.supplies, d.grounds, d.inputs, d.outputs]) for (const x of list) add(x.net);
-  for (const c of options.clocks ?? []) (add(c.net), add(c.inverseOf));
-  for (const x of options.standby ?? []) add(x.net);
-  for (const g of options.grounds ?? []) add(g);
-  for (const s of Object.keys(options.supplies ?? {})) add(s);
-  return out;
+  return roleNames(design.directives, options);
 }
 
 /**
@@ -72,7 +64,7 @@ export function widenCircuit(
   const supplyRe = new RegExp(options.supplyNamePattern ?? DEFAULT_SUPPLY_PATTERN, 'i');
   const groundRe = new RegExp(options.groundNamePattern ?? DEFAULT_GROUND_PATTERN, 'i');
   const insertedSet = new Set(inserted);
-  // each new slot goes in before the next kept internal slot's net, or after the last one's
+  // each new slot goes in before the next kept internal slot's net (pinned nets apart), or after the last one's
   const puts: Array<{ before: number; name: string; slot: number }> = [];
   for (const prefix of contexts) {
     let lastKept = -1;
@@ -85,6 +77,8 @@ export function widenCircuit(
       }
       const id = c.netByName.get(prefix + after.localNames[j]!);
       if (id === undefined) return undefined;
+      // a pinned net (a rail, a clock source's) is numbered apart, before every definition's
+      if (id < c.pinnedNets) continue;
       ids.push(id);
       for (const s of pending) puts.push({ before: id, name: prefix + after.localNames[s]!, slot: s });
       pending.length = 0;
@@ -166,6 +160,7 @@ class NetNumbersByName extends DerivedMap<string, number> {
  * them, every element on its nets under the new numbers; undefined when one is still used.
  */
 export function narrowCircuit(c: Circuit, removed: readonly number[]): { circuit: Circuit; nets: NetRenumbering } | undefined {
+  if (removed.some((x) => x < c.pinnedNets)) return undefined;
   const ins = netRemoval(c.nets.length, removed);
   const moved = onNewNets(c, ins);
   if (!moved) return undefined;
