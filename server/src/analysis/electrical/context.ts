@@ -111,11 +111,20 @@ export function rewiredContext(ctx: ElectricalContext, circuit: Circuit, network
     const out = new Map<number, number[]>();
     if (indices.length === 0) return out;
     const movedSet = new Set(indices);
-    const nets = new Set<number>();
-    for (const i of indices) for (const c of [before, circuit]) for (const x of netsOf(i, c)) nets.add(x);
-    for (const x of nets) {
+    // each net the moved elements were or are on, with those now on it (in one pass: a cell
+    // of a hundred copies moves hundreds of elements)
+    const nowOn = new Map<number, number[]>();
+    for (const i of indices) for (const x of netsOf(i, before)) if (!nowOn.has(x)) nowOn.set(x, []);
+    for (const i of indices) {
+      for (const x of netsOf(i, circuit)) {
+        const on = nowOn.get(x);
+        if (on === undefined) nowOn.set(x, [i]);
+        else if (on[on.length - 1] !== i) on.push(i);
+      }
+    }
+    for (const [x, on] of nowOn) {
       const kept = lists(x).filter((i) => !movedSet.has(i));
-      for (const i of indices) if (netsOf(i, circuit).includes(x)) kept.push(i);
+      for (const i of on) kept.push(i);
       out.set(x, kept.sort((a, b) => a - b));
     }
     return out;
