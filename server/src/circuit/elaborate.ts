@@ -72,7 +72,10 @@ export function elementNodeWords(item: Statement): { skipped?: undefined; syntax
  * are this elaboration's own, not yet seen by anyone, so they are set in place. Returns old id
  * -> new id.
  */
-function numberNetsByScope(c: Circuit, own: string | null, pinned: Uint8Array): Int32Array {
+function* numberNetsByScope(c: Circuit, own: string | null, pinned: Uint8Array): Steps<Int32Array> {
+  // a pass over every record: it yields, as the rest of elaboration does
+  const due = stepDue();
+  const pause = (k: number) => (k & 4095) === 0 && due();
   const copies = new Map<string, number>();
   for (const inst of c.instances) copies.set(inst.subckt, (copies.get(inst.subckt) ?? 0) + 1);
   const scopeOf = (n: Net, x: number): string | null | undefined => (pinned[x] ? undefined : n.origin.subckt);
@@ -98,14 +101,26 @@ function numberNetsByScope(c: Circuit, own: string | null, pinned: Uint8Array): 
   for (let x = 0; x < c.nets.length; x++) nets[oldToNew[x]!] = c.nets[x]!;
   c.nets.length = 0;
   for (const n of nets) c.nets.push(n);
+  yield;
   c.netByName.clear();
-  for (let x = 0; x < nets.length; x++) c.netByName.set(nets[x]!.name, x);
+  for (let x = 0; x < nets.length; x++) {
+    if (pause(x)) yield;
+    c.netByName.set(nets[x]!.name, x);
+  }
   const at = (x: number) => oldToNew[x]!;
-  for (const m of c.mosfets) (m.d = at(m.d)), (m.g = at(m.g)), (m.s = at(m.s)), (m.b = at(m.b));
+  for (let i = 0; i < c.mosfets.length; i++) {
+    if (pause(i)) yield;
+    const m = c.mosfets[i]!;
+    (m.d = at(m.d)), (m.g = at(m.g)), (m.s = at(m.s)), (m.b = at(m.b));
+  }
   for (const list of [c.capacitors, c.resistors, c.inductors, c.diodes]) for (const e of list) (e.a = at(e.a)), (e.b = at(e.b));
   for (const v of c.sources) (v.p = at(v.p)), (v.n = at(v.n));
   for (const o of c.others) for (let k = 0; k < o.nets.length; k++) o.nets[k] = at(o.nets[k]!);
-  for (const inst of c.instances) for (let k = 0; k < inst.ports.length; k++) inst.ports[k] = at(inst.ports[k]!);
+  for (let i = 0; i < c.instances.length; i++) {
+    if (pause(i)) yield;
+    const ports = c.instances[i]!.ports;
+    for (let k = 0; k < ports.length; k++) ports[k] = at(ports[k]!);
+  }
   return oldToNew;
 }
 
@@ -850,7 +865,7 @@ class Elaborator {
     const netMap = t.localNames.map((n, i) => this.addNet(c, n, t.localOrigins[i]!, false));
     yield* this.instantiate(c, t, netMap, '', this.globalScope, 'top', []);
     yield;
-    numberNetsByScope(c, null, this.pinnedNets(c));
+    yield* numberNetsByScope(c, null, this.pinnedNets(c));
     c.instanceMosfets = Int32Array.from(this.spans);
     this.assignRails(c, netIdsWhere(c, (n) => !n.name.includes('.')));
     return c;
@@ -878,7 +893,7 @@ class Elaborator {
     const netMap = t.localNames.map((n, i) => this.addNet(c, n, t.localOrigins[i]!, false));
     yield* this.instantiate(c, t, netMap, '', scope, key, [def]);
     yield;
-    const oldToNew = numberNetsByScope(c, def.name, this.pinnedNets(c));
+    const oldToNew = yield* numberNetsByScope(c, def.name, this.pinnedNets(c));
     c.instanceMosfets = Int32Array.from(this.spans);
     const portNets = def.ports.map((_, i) => oldToNew[netMap[i]!]!);
     this.assignRails(c, [...portNets, ...netIdsWhere(c, (n) => n.global)]);
