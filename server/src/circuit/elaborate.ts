@@ -102,7 +102,8 @@ function* numberNetsByScope(c: Circuit, own: string | null, pinned: Uint8Array):
   c.nets.length = 0;
   for (const n of nets) c.nets.push(n);
   yield;
-  c.netByName.clear();
+  // every name is in the map already: new values, no entries put in (the map keeps the order the
+  // nets were built in; nothing walks it)
   for (let x = 0; x < nets.length; x++) {
     if (pause(x)) yield;
     c.netByName.set(nets[x]!.name, x);

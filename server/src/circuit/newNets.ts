@@ -147,7 +147,7 @@ class NetNumbersByName extends DerivedMap<string, number> {
     return this.get(name) !== undefined;
   }
 
-  // in net order, as the elaborator fills it
+  // in net order (nothing walks a name index; the order is only kept stable)
   protected build(): Map<string, number> {
     const all = [...this.base].map(([k, v]): [string, number] => [k, this.oldToNew[v]!]).filter(([, j]) => j >= 0);
     for (const e of this.added) all.push(e);
