@@ -77,12 +77,17 @@ function* numberNetsByScope(c: Circuit, own: string | null, pinned: Uint8Array):
   const due = stepDue();
   const pause = (k: number) => (k & 4095) === 0 && due();
   const copies = new Map<string, number>();
-  for (const inst of c.instances) copies.set(inst.subckt, (copies.get(inst.subckt) ?? 0) + 1);
+  for (let i = 0; i < c.instances.length; i++) {
+    if (pause(i)) yield;
+    const name = c.instances[i]!.subckt;
+    copies.set(name, (copies.get(name) ?? 0) + 1);
+  }
   const scopeOf = (n: Net, x: number): string | null | undefined => (pinned[x] ? undefined : n.origin.subckt);
   // the scopes in the order first built, then ranked
   const scopes: Array<string | null | undefined> = [];
   const seen = new Set<string | null | undefined>();
   for (let x = 0; x < c.nets.length; x++) {
+    if (pause(x)) yield;
     const k = scopeOf(c.nets[x]!, x);
     if (!seen.has(k)) (seen.add(k), scopes.push(k));
   }
@@ -92,16 +97,18 @@ function* numberNetsByScope(c: Circuit, own: string | null, pinned: Uint8Array):
   // a counting sort: each scope's nets keep their order within its run
   const start = new Int32Array(order.length + 1);
   const scopeRun = new Int32Array(c.nets.length);
-  for (let x = 0; x < c.nets.length; x++) start[(scopeRun[x] = runOf.get(scopeOf(c.nets[x]!, x))!) + 1]!++;
+  for (let x = 0; x < c.nets.length; x++) {
+    if (pause(x)) yield;
+    start[(scopeRun[x] = runOf.get(scopeOf(c.nets[x]!, x))!) + 1]!++;
+  }
   for (let r = 0; r < order.length; r++) start[r + 1]! += start[r]!;
   c.pinnedNets = order[0]?.k === undefined ? start[1]! : 0;
   const oldToNew = new Int32Array(c.nets.length);
   for (let x = 0; x < c.nets.length; x++) oldToNew[x] = start[scopeRun[x]!]!++;
   const nets = new Array<Net>(c.nets.length);
   for (let x = 0; x < c.nets.length; x++) nets[oldToNew[x]!] = c.nets[x]!;
-  c.nets.length = 0;
-  for (const n of nets) c.nets.push(n);
   yield;
+  for (let x = 0; x < nets.length; x++) c.nets[x] = nets[x]!;
   // every name is in the map already: new values, no entries put in (the map keeps the order the
   // nets were built in; nothing walks it)
   for (let x = 0; x < nets.length; x++) {
@@ -866,7 +873,9 @@ class Elaborator {
     const netMap = t.localNames.map((n, i) => this.addNet(c, n, t.localOrigins[i]!, false));
     yield* this.instantiate(c, t, netMap, '', this.globalScope, 'top', []);
     yield;
-    yield* numberNetsByScope(c, null, this.pinnedNets(c));
+    const pinned = this.pinnedNets(c);
+    yield;
+    yield* numberNetsByScope(c, null, pinned);
     c.instanceMosfets = Int32Array.from(this.spans);
     this.assignRails(c, netIdsWhere(c, (n) => !n.name.includes('.')));
     return c;
@@ -894,7 +903,9 @@ class Elaborator {
     const netMap = t.localNames.map((n, i) => this.addNet(c, n, t.localOrigins[i]!, false));
     yield* this.instantiate(c, t, netMap, '', scope, key, [def]);
     yield;
-    const oldToNew = yield* numberNetsByScope(c, def.name, this.pinnedNets(c));
+    const pinned = this.pinnedNets(c);
+    yield;
+    const oldToNew = yield* numberNetsByScope(c, def.name, pinned);
     c.instanceMosfets = Int32Array.from(this.spans);
     const portNets = def.ports.map((_, i) => oldToNew[netMap[i]!]!);
     this.assignRails(c, [...portNets, ...netIdsWhere(c, (n) => n.global)]);
