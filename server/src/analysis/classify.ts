@@ -453,7 +453,15 @@ export function widenClassification(cl: Classification, net: SwitchNetwork, plan
     for (const [key, w] of memo) {
       const nets = movedNets(w.nets, ins);
       // a check that read a net taken out no longer exists in that shape
-      if (nets.length === w.nets.length) next.set(key, { nets, mosfets: w.mosfets, results: w.results.map((r) => r && result(r)) });
+      if (nets.length !== w.nets.length) continue;
+      let results = w.results;
+      for (let k = 0; k < results.length; k++) {
+        const r = results[k];
+        const moved = r && result(r);
+        if (moved !== r) (results === w.results ? (results = results.slice()) : results)[k] = moved;
+      }
+      // an entry on nets that kept their numbers is shared (most, with the nets numbered by definition)
+      next.set(key, nets === w.nets && results === w.results ? w : { nets, mosfets: w.mosfets, results });
     }
     witnessMemos.set(out, next);
   }
@@ -462,7 +470,10 @@ export function widenClassification(cl: Classification, net: SwitchNetwork, plan
 
 function widenResult(r: NodePhaseResult, oldToNew: Int32Array): NodePhaseResult {
   const g = r.gateAssignment;
-  if (!g || g.every(([x]) => oldToNew[x] === x)) return r;
+  if (!g) return r;
+  let k = 0;
+  while (k < g.length && oldToNew[g[k]![0]] === g[k]![0]) k++;
+  if (k === g.length) return r;
   return { ...r, gateAssignment: g.map(([x, v]) => [oldToNew[x]!, v]) };
 }
 
