@@ -82,29 +82,28 @@ function* numberNetsByScope(c: Circuit, own: string | null, pinned: Uint8Array):
     const name = c.instances[i]!.subckt;
     copies.set(name, (copies.get(name) ?? 0) + 1);
   }
-  const scopeOf = (n: Net, x: number): string | null | undefined => (pinned[x] ? undefined : n.origin.subckt);
-  // the scopes in the order first built, then ranked
+  // each net's scope (undefined: pinned), as an index into the scopes in the order first built
   const scopes: Array<string | null | undefined> = [];
-  const seen = new Set<string | null | undefined>();
+  const scopeIndex = new Map<string | null | undefined, number>();
+  const scopeOfNet = new Int32Array(c.nets.length);
   for (let x = 0; x < c.nets.length; x++) {
     if (pause(x)) yield;
-    const k = scopeOf(c.nets[x]!, x);
-    if (!seen.has(k)) (seen.add(k), scopes.push(k));
+    const k = pinned[x] ? undefined : c.nets[x]!.origin.subckt;
+    let i = scopeIndex.get(k);
+    if (i === undefined) (scopeIndex.set(k, (i = scopes.length)), scopes.push(k));
+    scopeOfNet[x] = i;
   }
   const rank = (k: string | null | undefined) => (k === undefined ? -Infinity : k === own ? Infinity : -(copies.get(k as string) ?? 0));
   const order = scopes.map((k, i) => ({ k, i })).sort((x, y) => rank(x.k) - rank(y.k) || x.i - y.i);
-  const runOf = new Map(order.map(({ k }, r) => [k, r]));
+  const runOf = new Int32Array(scopes.length);
+  order.forEach(({ i }, r) => (runOf[i] = r));
   // a counting sort: each scope's nets keep their order within its run
   const start = new Int32Array(order.length + 1);
-  const scopeRun = new Int32Array(c.nets.length);
-  for (let x = 0; x < c.nets.length; x++) {
-    if (pause(x)) yield;
-    start[(scopeRun[x] = runOf.get(scopeOf(c.nets[x]!, x))!) + 1]!++;
-  }
+  for (let x = 0; x < c.nets.length; x++) start[runOf[scopeOfNet[x]!]! + 1]!++;
   for (let r = 0; r < order.length; r++) start[r + 1]! += start[r]!;
-  c.pinnedNets = order[0]?.k === undefined ? start[1]! : 0;
+  c.pinnedNets = order.length > 0 && order[0]!.k === undefined ? start[1]! : 0;
   const oldToNew = new Int32Array(c.nets.length);
-  for (let x = 0; x < c.nets.length; x++) oldToNew[x] = start[scopeRun[x]!]!++;
+  for (let x = 0; x < c.nets.length; x++) oldToNew[x] = start[runOf[scopeOfNet[x]!]!]!++;
   const nets = new Array<Net>(c.nets.length);
   for (let x = 0; x < c.nets.length; x++) nets[oldToNew[x]!] = c.nets[x]!;
   yield;
@@ -872,13 +871,18 @@ class Elaborator {
     const t = yield* this.templateSteps(undefined);
     const netMap = t.localNames.map((n, i) => this.addNet(c, n, t.localOrigins[i]!, false));
     yield* this.instantiate(c, t, netMap, '', this.globalScope, 'top', []);
-    yield;
-    const pinned = this.pinnedNets(c);
-    yield;
-    yield* numberNetsByScope(c, null, pinned);
+    yield* this.numberNets(c, null);
     c.instanceMosfets = Int32Array.from(this.spans);
     this.assignRails(c, netIdsWhere(c, (n) => !n.name.includes('.')));
     return c;
+  }
+
+  /** The circuit's nets numbered in runs by scope (numberNetsByScope), its own scope `own` last: old id -> new id. */
+  private *numberNets(c: Circuit, own: string | null): Steps<Int32Array> {
+    yield;
+    const pinned = this.pinnedNets(c);
+    yield;
+    return yield* numberNetsByScope(c, own, pinned);
   }
 
   /** The nets numbered first (numberNetsByScope): what every part of the circuit reaches and no quick edit gives or takes a role. */
@@ -902,10 +906,7 @@ class Elaborator {
     const { scope, key } = this.standaloneScope(def, t);
     const netMap = t.localNames.map((n, i) => this.addNet(c, n, t.localOrigins[i]!, false));
     yield* this.instantiate(c, t, netMap, '', scope, key, [def]);
-    yield;
-    const pinned = this.pinnedNets(c);
-    yield;
-    const oldToNew = yield* numberNetsByScope(c, def.name, pinned);
+    const oldToNew = yield* this.numberNets(c, def.name);
     c.instanceMosfets = Int32Array.from(this.spans);
     const portNets = def.ports.map((_, i) => oldToNew[netMap[i]!]!);
     this.assignRails(c, [...portNets, ...netIdsWhere(c, (n) => n.global)]);
