@@ -103,6 +103,19 @@ describe('a parse from the previous parse of the file reads what a fresh parse r
     ['the hierarchical netlist', hierarchicalNetlist(5_000)],
     ...fs.readdirSync(path.join(ROOT, 'samples')).filter((f) => f.endsWith('.sp')).map((f): [string, string] => [f, fs.readFileSync(path.join(ROOT, 'samples', f), 'utf8')]),
   ];
+  it('lone CR and CRLF line ends: a parse from an earlier text of other lines', () => {
+    // a lone CR ends a line for the parser, so a statement's lines must be told apart by it too
+    // (an earlier statement was once taken for a later one whose lines were cut at '\n' only)
+    const piece = fc.constantFrom('\r', '\n', '\r\n', 'M1 a b c d nch w=1u', 'I', 'x', '+ w=1u', '* note', '7J', ' ', '.end');
+    fc.assert(
+      fc.property(fc.array(piece, { maxLength: 30 }), fc.array(piece, { maxLength: 30 }), (a, b) => {
+        const earlier = parseNetlist('/x.sp', a.join(''), { hasTitle: true });
+        const fromEarlier = parseNetlist('/x.sp', b.join(''), { hasTitle: true }, earlier);
+        expect(JSON.stringify(fromEarlier)).toBe(JSON.stringify(parseNetlist('/x.sp', b.join(''), { hasTitle: true })));
+      }),
+      { numRuns: 3000, seed: 41 },
+    );
+  });
   for (const [name, text] of texts) {
     it(`${name}: random edits, one and two in a row`, () => {
       const first = parseNetlist('/x.sp', text, { hasTitle: true });

@@ -437,10 +437,17 @@ export function movedLinesBetween(x: Statement, y: Statement): number | undefine
 /** Earlier statements by the text of their lines (whole lines, from the first to the last). */
 type StatementsByText = Map<string, Statement[]>;
 
-/** The start offset of each line of a chunk's text. */
+/** The start offset of each line of a chunk's text (a lone CR breaks a line too, as the parser counts lines). */
 function lineStartsOf(chunkText: string): number[] {
   const out = [0];
-  for (let at = chunkText.indexOf('\n'); at >= 0 && at + 1 < chunkText.length; at = chunkText.indexOf('\n', at + 1)) out.push(at + 1);
+  if (chunkText.indexOf('\r') < 0) {
+    for (let at = chunkText.indexOf('\n'); at >= 0 && at + 1 < chunkText.length; at = chunkText.indexOf('\n', at + 1)) out.push(at + 1);
+    return out;
+  }
+  for (let i = 0; i + 1 < chunkText.length; i++) {
+    const c = chunkText.charCodeAt(i);
+    if (c === 10 || (c === 13 && chunkText.charCodeAt(i + 1) !== 10)) out.push(i + 1);
+  }
   return out;
 }
 
