@@ -453,7 +453,6 @@ export function widenNetwork(prev: SwitchNetwork, c: Circuit, ins: NetRenumberin
   }
   const componentOf = withNetCells(prev.componentOf, ins, -1);
   const components = prev.components.map((g): Component => {
-    if (g.nodes.every((x) => x < first) && g.gates.every((x) => x < first)) return g;
     const nodes = movedNets(g.nodes, ins);
     const gates = movedNets(g.gates, ins);
     if (nodes === g.nodes && gates === g.gates) return g;

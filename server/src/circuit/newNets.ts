@@ -169,13 +169,10 @@ export function narrowCircuit(c: Circuit, removed: readonly number[]): { circuit
 }
 
 /** Instances with their ports under a net renumbering; the same list when none moved. */
-function onNewPorts(list: Instance[], first: number, ids: (l: readonly number[]) => number[]): Instance[] {
+function onNewPorts(list: Instance[], ids: (l: readonly number[]) => number[]): Instance[] {
   let out: Instance[] | undefined;
   for (let i = 0; i < list.length; i++) {
     const inst = list[i]!;
-    let below = true;
-    for (const x of inst.ports) if (x >= first) below = false;
-    if (below) continue;
     const ports = ids(inst.ports);
     if (ports !== inst.ports) (out ??= list.slice())[i] = { name: inst.name, subckt: inst.subckt, ports, below: inst.below, origin: inst.origin };
   }
@@ -223,7 +220,7 @@ function onNewNets(c: Circuit, ins: NetRenumbering): Pick<Circuit, 'mosfets' | '
       const moved = ids(o.nets);
       return moved === o.nets ? o : { ...o, nets: moved };
     }),
-    instances: onNewPorts(c.instances, first, ids),
+    instances: onNewPorts(c.instances, ids),
     ports: c.ports.map((p) => (at(p.net) === p.net ? p : { ...p, net: at(p.net) })),
     supplies: c.supplies.map((s) => (at(s.net) === s.net ? s : { ...s, net: at(s.net) })),
     grounds: ids(c.grounds),
