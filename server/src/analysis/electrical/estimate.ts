@@ -10,6 +10,7 @@ import { carryToTwin, estimateRecord, familyOf, type Family } from './family';
 import { stepDue, runToEnd, type Steps } from '../../core/steps';
 import { NetKeyedMap, OverlayMap, RenumberedMap } from '../../core/overlay';
 import type { ElectricalContext } from './context';
+import type { Mosfet } from '../../circuit/circuit';
 import { capacitanceSignature, islandCapacitance, type CapacitanceBreakdown } from './capacitance';
 import { buildLeakageNetwork, leakageAt, leakageSignature, MAX_SOLVED_GROUPS, type LeakageContributor } from './leakage';
 import { retentionTime } from './retention';
@@ -302,6 +303,7 @@ class EstimateRun {
   private readonly internalCache = new Map<string, { estimate: NodeEstimate; position: Map<number, number> }>();
   private readonly storageCache = new Map<string, { estimate: NodeEstimate; position: Map<number, number>; family?: Family }>();
   private readonly constantEverywhere: (n: number) => boolean;
+  private readonly keyNumbers: KeyNumbers;
   /** Node -> the node whose solve its estimate copies. */
   readonly shareOf = new Map<number, number>();
 
@@ -309,6 +311,7 @@ class EstimateRun {
     private readonly ctx: ElectricalContext,
     private readonly twins = true,
   ) {
+    this.keyNumbers = new KeyNumbers(ctx.circuit.mosfets);
     const values = ctx.classification.phaseValues;
     this.constantEverywhere = (n: number) => Number.isFinite(ctx.railVolts[n]!) || values.every((v) => v[n] !== 2 && v[n] === values[0]![n]);
   }
@@ -324,7 +327,7 @@ class EstimateRun {
     if (floating.length === 0) return undefined;
     // Nodes repeat with every instance of a cell: one leakage solve serves all instances whose
     // group has the same devices, sizes and surroundings (checked by structureKey).
-    const { key, devices } = structureKey(ctx, n, floating, values);
+    const { key, devices } = structureKey(ctx, n, floating, values, this.keyNumbers);
     if (cl.storage[n]) {
       const prior = this.storageCache.get(key);
       // an identically wired twin takes the first node's estimate with its own nets put in
@@ -527,58 +530,89 @@ function originId(o: object): number {
  * sizes and models for every device of the node's group and every gate on the node, the same
  * position of the node in the group, and the same phase values and witness gate values around
  * it. Also returns the group's devices in a canonical order, to carry contributor indices over.
+ * The key is a list of small integers (KeyWriter), with the numbers and devices it quotes
+ * numbered by the pass (`ids`): every floating node of the circuit gets one, so it is kept cheap.
  */
-function structureKey(ctx: ElectricalContext, n: number, floating: Array<{ s: NodePhaseResult; i: number }>, values: Uint8Array[]): { key: string; devices: number[] } {
+function structureKey(ctx: ElectricalContext, n: number, floating: Array<{ s: NodePhaseResult; i: number }>, values: Uint8Array[], ids: KeyNumbers): { key: string; devices: number[] } {
   const net = ctx.network;
   const c = ctx.circuit;
   const comp = net.components[net.componentOf[n]!]!;
-  const local = new Map<number, number>(comp.nodes.map((x, k) => [x, k]));
-  const assignments = floating.map((f) => new Map<number, 0 | 1>(f.s.gateAssignment ?? []));
+  const nodes = comp.nodes;
+  // groups are mostly a handful of nets: a scan is cheaper than building a map per key
+  const local = nodes.length > 16 ? new Map<number, number>(nodes.map((x, k) => [x, k])) : undefined;
+  const key = new KeyWriter();
   // nets outside the group are numbered in the order met, with their role and their value in
   // each floating phase: two nodes match only if their surroundings are wired alike
   const outside = new Map<number, number>();
-  const code = (x: number): string => {
-    const l = local.get(x);
-    if (l !== undefined) return x === n ? 'N' : 'L' + l;
+  const code = (x: number): void => {
+    const l = local ? (local.get(x) ?? -1) : nodes.indexOf(x);
+    if (l >= 0) {
+      if (x === n) key.tag(1);
+      else key.tag(2).int(l);
+      return;
+    }
     const rail = ctx.railVolts[x]!;
-    if (Number.isFinite(rail)) return 'R' + rail;
+    if (Number.isFinite(rail)) {
+      key.tag(3).int(ids.number(rail));
+      return;
+    }
     const k = outside.get(x);
-    if (k !== undefined) return '#' + k;
+    if (k !== undefined) {
+      key.tag(4).int(k);
+      return;
+    }
+    key.tag(5).int(outside.size).int(net.role[x]!);
     outside.set(x, outside.size);
-    let s = `#${outside.size - 1}r${net.role[x]}v`;
-    for (let f = 0; f < floating.length; f++) s += String(assignments[f]!.get(x) ?? values[floating[f]!.i]![x]!);
-    return s;
+    for (let f = 0; f < floating.length; f++) key.int(assignedGate(floating[f]!.s.gateAssignment, x) ?? values[floating[f]!.i]![x]!);
   };
-  const parts: string[] = [floating.map((f) => `${f.i}${f.s.state}`).join(','), String(originId(c.nets[n]!.origin))];
+  key.int(floating.length);
+  for (const f of floating) key.int(f.i).int(stateId(f.s.state));
+  key.int(originId(c.nets[n]!.origin));
   const devices = canonicalDevices(ctx, n);
   for (const si of comp.switches) {
     const s = net.switches[si]!;
     if (s.kind === SwitchKind.On) {
-      parts.push(`r${code(s.a)}${code(s.b)}`);
+      key.tag(6);
+      code(s.a);
+      code(s.b);
       continue;
     }
     const m = c.mosfets[si]!;
-    parts.push(`${originId(m.origin)}:${m.wM}:${m.lM}:${m.m}:${m.nf}:${m.adM2}:${m.pdM}:${m.asM2}:${m.psM}:${code(m.d)}${code(m.g)}${code(m.s)}${code(m.b)}`);
+    key.tag(7).int(ids.device(si));
+    code(m.d);
+    code(m.g);
+    code(m.s);
+    code(m.b);
   }
   for (const i of ctx.gateOf(n)) {
     const m = c.mosfets[i]!;
-    parts.push(`g${originId(m.origin)}:${m.wM}:${m.lM}:${m.m}:${code(m.d)}${code(m.s)}${code(m.b)}`);
+    key.tag(8).int(ids.device(i));
+    code(m.d);
+    code(m.s);
+    code(m.b);
   }
-  for (const x of comp.nodes) {
+  for (const x of nodes) {
     for (const k of ctx.capsOf[x]!) {
       const cap = c.capacitors[k]!;
-      parts.push(`C${cap.capacitanceF}:${code(cap.a)}${code(cap.b)}`);
+      key.tag(9).int(ids.number(cap.capacitanceF));
+      code(cap.a);
+      code(cap.b);
     }
   }
   // what the input variants read (inputVariants): the inputs each float needs, and the groups
   // driving the gates that come from logic, wired as they are
   for (const f of floating) {
-    const needed: string[] = [];
-    for (const [name, v] of Object.entries(f.s.when ?? {})) {
-      const id = c.netByName.get(name);
-      if (id !== undefined && outside.has(id)) needed.push(`${outside.get(id)}=${v}`);
-    }
-    parts.push('W' + needed.sort().join(','));
+    const needed: number[] = [];
+    const when = f.s.when;
+    if (when)
+      for (const name in when) {
+        const id = c.netByName.get(name);
+        const k = id === undefined ? undefined : outside.get(id);
+        if (k !== undefined) needed.push(k * 2 + when[name]!);
+      }
+    needed.sort((a, b) => a - b);
+    key.tag(10).int(needed.length);
+    for (const x of needed) key.int(x);
   }
   const drivers = new Set<number>();
   for (const si of comp.switches) {
@@ -588,10 +622,97 @@ function structureKey(ctx: ElectricalContext, n: number, floating: Array<{ s: No
   for (const id of drivers) {
     for (const si of net.components[id]!.switches) {
       const sw = net.switches[si]!;
-      parts.push(`D${sw.kind}${sw.gate < 0 ? '-' : code(sw.gate)}${code(sw.a)}${code(sw.b)}`);
+      key.tag(11).int(sw.kind);
+      if (sw.gate < 0) key.tag(0);
+      else code(sw.gate);
+      code(sw.a);
+      code(sw.b);
     }
   }
-  return { key: parts.join(';'), devices };
+  return { key: key.text(), devices };
+}
+
+/**
+ * A key as text, one character per 15 bits of each non-negative integer (the high bit marks a
+ * continuation): equal texts are equal lists of integers. Much cheaper than writing the numbers
+ * out in decimal, which was most of a key's cost.
+ */
+class KeyWriter {
+  private readonly codes: number[] = [];
+  tag(t: number): this {
+    this.codes.push(t);
+    return this;
+  }
+  int(v: number): this {
+    while (v >= 0x8000) {
+      this.codes.push((v & 0x7fff) | 0x8000);
+      v = Math.floor(v / 0x8000);
+    }
+    this.codes.push(v);
+    return this;
+  }
+  text(): string {
+    const codes = this.codes;
+    let out = '';
+    for (let i = 0; i < codes.length; i += 4096) out += String.fromCharCode(...codes.slice(i, i + 4096));
+    return out;
+  }
+}
+
+/** A witness's value for a gate net, if it sets one (the list is a few gates long). */
+function assignedGate(assignment: ReadonlyArray<readonly [number, 0 | 1]> | undefined, x: number): 0 | 1 | undefined {
+  if (assignment) for (const [g, v] of assignment) if (g === x) return v;
+  return undefined;
+}
+
+const stateIds = new Map<string, number>();
+function stateId(state: string): number {
+  let id = stateIds.get(state);
+  if (id === undefined) stateIds.set(state, (id = stateIds.size));
+  return id;
+}
+
+/**
+ * Small integers for what one pass's keys quote: numbers (volts, farads) and each MOSFET's
+ * defining line, sizes, multiplier, fingers, areas and perimeters. Valid within the pass (keys
+ * are compared only there), so nothing outlives it. The devices of one line nearly always have
+ * one set of values: each line's first device is compared field by field, and only a device
+ * with other values is written out.
+ */
+class KeyNumbers {
+  private readonly devices: Int32Array;
+  private readonly numbers = new Map<number | undefined, number>();
+  private readonly tuples = new Map<string, number>();
+  private readonly firstOfLine = new Map<object, { m: Mosfet; id: number }>();
+  constructor(private readonly mosfets: readonly Mosfet[]) {
+    this.devices = new Int32Array(mosfets.length).fill(-1);
+  }
+  number(v: number | undefined): number {
+    let id = this.numbers.get(v);
+    if (id === undefined) this.numbers.set(v, (id = this.numbers.size));
+    return id;
+  }
+  device(i: number): number {
+    let id = this.devices[i]!;
+    if (id < 0) this.devices[i] = id = this.deviceOf(this.mosfets[i]!);
+    return id;
+  }
+  private deviceOf(m: Mosfet): number {
+    const first = this.firstOfLine.get(m.origin);
+    if (first && sameValues(first.m, m)) return first.id;
+    const tuple = [m.wM, m.lM, m.m, m.nf, m.adM2, m.pdM, m.asM2, m.psM].map((v) => this.number(v)).join(',');
+    const at = `${originId(m.origin)}:${tuple}`;
+    let id = this.tuples.get(at);
+    if (id === undefined) this.tuples.set(at, (id = this.tuples.size));
+    if (!first) this.firstOfLine.set(m.origin, { m, id });
+    return id;
+  }
+}
+
+/** The values a key quotes, compared as KeyNumbers.number tells them apart (NaN equal to NaN). */
+function sameValues(a: Mosfet, b: Mosfet): boolean {
+  const eq = (x: number | undefined, y: number | undefined) => x === y || (x !== x && y !== y);
+  return eq(a.wM, b.wM) && eq(a.lM, b.lM) && eq(a.m, b.m) && eq(a.nf, b.nf) && eq(a.adM2, b.adM2) && eq(a.pdM, b.pdM) && eq(a.asM2, b.asM2) && eq(a.psM, b.psM);
 }
 
 /** The devices of a node's group (in switch order) and those its gate loads, as structureKey lists them. */
