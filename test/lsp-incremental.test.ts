@@ -154,6 +154,24 @@ describe('incremental and responsive analysis over the real protocol', () => {
     expect(client.proc.exitCode).toBeNull();
   }, 120_000);
 
+  it('a device added to the domino cell (1,260 copies, over what an edit may patch): the full analysis starts from the design built from the previous one, and its findings and a hover are a fresh analysis\'s', async () => {
+    const edited = current.replace(/^(Mkp dyn out.*)$/m, '$1\nMx dyn clk vdd vdd bp w=0.1u l=0.1u');
+    expect(edited).not.toBe(current);
+    const expected = engineFindings(file, edited);
+    const answered = client.diagnosticsFor(uri, (p) => published(p).join('\n') === expected.join('\n'));
+    await client.change(uri, edited, 80);
+    expect(published(await answered)).toEqual(expected);
+    current = edited;
+    const line = edited.split('\n').findIndex((l) => l.startsWith('Mx dyn'));
+    const position = { line, character: 4 };
+    const hover = (await client.conn.sendRequest('textDocument/hover', { textDocument: { uri }, position })) as { contents: { value: string } } | null;
+    const fresh = analyse(memoryHost({ [file]: edited }), file);
+    const spot = locate(fresh.deck.files.find((x) => x.file === file)!, position);
+    expect(spot?.kind).toBe('net');
+    expect(hover?.contents.value).toBe(netHover(fresh, file, spot as Extract<NonNullable<typeof spot>, { kind: 'net' }>));
+    expect(client.proc.exitCode).toBeNull();
+  }, 120_000);
+
   it('an edit in an open included file re-analyses the netlist that includes it, at once for a size edit', async () => {
     const cells = CELLS_INC;
     const top = topIncludingCells(1);

@@ -98,7 +98,19 @@ export function* analyseSteps(host: FileHost, file: string, options: EngineOptio
   yield;
   const { design, diagnostics } = yield* elaborateSteps(deck, options);
   yield;
-  const frontEnd = [...deck.diagnostics, ...diagnostics];
+  return yield* analyseDesignSteps({ deck, design, frontEnd: [...deck.diagnostics, ...diagnostics] }, options);
+}
+
+/** A deck and its elaboration, with the front end's findings (parse, includes, elaboration). */
+export interface Elaborated {
+  deck: Deck;
+  design: Design;
+  frontEnd: Diagnostic[];
+}
+
+/** The stages after elaboration, in slices (see `analyseSteps`, `reelaborate`). */
+export function* analyseDesignSteps(elaborated: Elaborated, options: EngineOptions = {}): Steps<AnalysisResult> {
+  const { deck, design, frontEnd } = elaborated;
   const circuits: CircuitAnalysis[] = [];
   if (options.frontEndOnly !== true) {
     for (const circuit of design.circuits) {
@@ -120,6 +132,33 @@ export function* analyseSteps(host: FileHost, file: string, options: EngineOptio
     }
   }
   return finish(deck, design, circuits, frontEnd, options);
+}
+
+/**
+ * When `reanalyse` declines a reconnection or added or deleted devices because the edit reaches
+ * too much of the circuit (a cell with thousands of copies), the new design is still built from
+ * the previous one, in a fraction of an elaboration's time: the caller runs the later stages
+ * on it (`analyseDesignSteps`). Equal to elaborating `deck` afresh (the tests hold it);
+ * undefined for an edit of another kind, or one whose front-end findings may change.
+ */
+export function reelaborate(previous: AnalysisResult, deck: Deck, options: EngineOptions = {}): Elaborated | undefined {
+  if (options.frontEndOnly === true) return undefined;
+  const noLimit = () => Infinity;
+  const rewired = rewireNets(previous.deck, previous.design, deck, noLimit, options);
+  if (rewired) {
+    if (previous.frontEnd.some((d) => onEditedLine(d, rewired.moved))) return undefined;
+    // nets left unused are taken out, as afterRewire takes them out
+    const design = rewired.narrowed.some((x) => x) ? { ...rewired.design, circuits: rewired.design.circuits.map((c, i) => rewired.narrowed[i]?.circuit ?? c) } : rewired.design;
+    return { deck, design, frontEnd: previous.frontEnd };
+  }
+  const sp = spliceDevices(previous.deck, previous.design, deck, noLimit, options);
+  if (!sp) return undefined;
+  const gone = sp.removedLines;
+  const onRemoved = (d: Diagnostic) => gone !== undefined && d.file === gone.file && d.range.start.line >= gone.from && d.range.start.line <= gone.to;
+  // as afterSplice: findings that count devices, quote line numbers or stand on a deleted line are not moved
+  if (previous.frontEnd.some((d) => onRemoved(d) || d.rule === 'duplicate-definition' || d.rule === 'geometry-scale')) return undefined;
+  if (JSON.stringify(shiftDiagnostics(previous.deck.diagnostics, sp.shift)) !== JSON.stringify(deck.diagnostics)) return undefined;
+  return { deck, design: sp.design, frontEnd: shiftDiagnostics(previous.frontEnd, sp.shift) };
 }
 
 /**

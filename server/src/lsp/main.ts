@@ -20,7 +20,7 @@ import {
 import { TextDocument } from 'vscode-languageserver-textdocument';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import * as path from 'node:path';
-import { analyseSteps, readDeck, reanalyse, type AnalysisResult } from '../engine';
+import { analyseDesignSteps, analyseSteps, readDeck, reanalyse, reelaborate, type AnalysisResult, type Elaborated } from '../engine';
 import { performance } from 'node:perf_hooks';
 import { carryOver } from '../service/carryOver';
 import type { Deck } from '../circuit/deck';
@@ -166,6 +166,11 @@ const COMPACT_IDLE_MS = 2000;
 const quickInARow = new Map<string, number>();
 /** Longest stretch the analysis holds the thread before letting protocol messages in. */
 const SLICE_MS = 8;
+/**
+ * An edit's design built from the last analysis's (engine `reelaborate`) when the quick answer
+ * declined it, for the full analysis of that generation to start from: it skips the elaboration.
+ */
+const elaboratedFor = new Map<string, { gen: number; texts: Map<string, string | undefined>; elaborated: Elaborated }>();
 
 function fresh(c: Cached): boolean {
   for (const [f, t] of c.texts) if (host.readFile(f) !== t) return false;
@@ -196,9 +201,14 @@ function analysisOf(uri: string): Promise<Cached | undefined> {
 async function runAnalysis(uri: string, gen: number, compacting = false): Promise<Cached | undefined> {
   const file = fileURLToPath(uri);
   // every text the run reads, as it read it (all reads happen in its first slice)
-  const { texts, noting } = notingHost();
+  const noted = notingHost();
+  let texts = noted.texts;
   const lines = countLines(host.readFile(file) ?? '');
-  const steps = analyseSteps(noting, file, engineOptions(lines));
+  const built = elaboratedFor.get(uri);
+  if (built && built.gen <= gen) elaboratedFor.delete(uri);
+  const fromDesign = built && built.gen === gen && [...built.texts].every(([f, t]) => host.readFile(f) === t);
+  if (fromDesign) texts = built.texts;
+  const steps = fromDesign ? analyseDesignSteps(built.elaborated, engineOptions(lines)) : analyseSteps(noted.noting, file, engineOptions(lines));
   let sliceStart = performance.now();
   for (;;) {
     const r = steps.next();
@@ -366,7 +376,12 @@ function quickAnswer(uri: string): void {
     return;
   }
   const result = reanalyse(last.result, deck, engineOptions(lines));
-  if (!result) return;
+  if (!result) {
+    // too much to patch: the design is still built from the last one, for the full analysis
+    const elaborated = reelaborate(last.result, deck, engineOptions(lines));
+    if (elaborated) elaboratedFor.set(uri, { gen: genOf(uri), texts, elaborated });
+    return;
+  }
   results.set(uri, { texts, result });
   send(uri, result.diagnostics);
   const chain = (quickInARow.get(uri) ?? 0) + 1;
