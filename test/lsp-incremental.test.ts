@@ -172,6 +172,23 @@ describe('incremental and responsive analysis over the real protocol', () => {
     expect(client.proc.exitCode).toBeNull();
   }, 120_000);
 
+  it('the supply\'s volts edited: answered from the previous analysis (phases and classification kept, every estimate redone), with a fresh analysis\'s findings and hover', async () => {
+    const edited = current.replace(/^vdd vdd 0 1\.0$/m, 'vdd vdd 0 0.9');
+    expect(edited).not.toBe(current);
+    const expected = engineFindings(file, edited);
+    const answered = client.diagnosticsFor(uri, (p) => published(p).join('\n') === expected.join('\n'));
+    await client.change(uri, edited, 90);
+    expect(published(await answered)).toEqual(expected);
+    current = edited;
+    const line = edited.split('\n').findIndex((l) => l.startsWith('Mpre dyn'));
+    const position = { line, character: 6 };
+    const hover = (await client.conn.sendRequest('textDocument/hover', { textDocument: { uri }, position })) as { contents: { value: string } } | null;
+    const fresh = analyse(memoryHost({ [file]: edited }), file);
+    const spot = locate(fresh.deck.files.find((x) => x.file === file)!, position);
+    expect(hover?.contents.value).toBe(netHover(fresh, file, spot as Extract<NonNullable<typeof spot>, { kind: 'net' }>));
+    expect(client.proc.exitCode).toBeNull();
+  }, 120_000);
+
   it('an edit in an open included file re-analyses the netlist that includes it, at once for a size edit', async () => {
     const cells = CELLS_INC;
     const top = topIncludingCells(1);

@@ -9,16 +9,17 @@ import { loadDeck, type Deck } from './circuit/deck';
 import { elaborateSteps } from './circuit/elaborate';
 import type { Circuit, Design } from './circuit/circuit';
 import { findClocks } from './phases/clocks';
-import { buildPhases, widenPlan, type PhasePlan } from './phases/phases';
+import { buildPhases, samePhasePattern, widenPlan, type PhasePlan } from './phases/phases';
 import { buildSwitchNetworkSteps, patchSwitchNetwork, widenNetwork, type NetworkPatch } from './analysis/switchNetwork';
 import { classifySteps, reclassify, renameStates, renumberDevices, widenClassification, type Classification } from './analysis/classify';
 import { classificationFindings, reviseClassificationFindings, widenClassificationFacts } from './findings/classificationFindings';
 import { applyAccepts } from './findings/accepts';
-import { buildContextSteps, renumberedContext, rewiredContext, widenedContext, type ElectricalContext } from './analysis/electrical/context';
+import { buildContextSteps, railVoltsOf, renumberedContext, rewiredContext, widenedContext, type ContextOptions, type ElectricalContext } from './analysis/electrical/context';
 import { estimateNodeSteps, nodesAround, nodesReading, reestimate, renameEstimates, renumberEstimates, updateEstimates, widenEstimates, type NodeEstimate } from './analysis/electrical/estimate';
 import { patchSizes, type SizePatch } from './circuit/patch';
 import { reelaborateValues } from './circuit/valueEdit';
 import { acceptEdit } from './circuit/acceptEdit';
+import { electricalEdit } from './circuit/electricalEdit';
 import { renameNets, type NetRename } from './circuit/rename';
 import { rewireNets, type Rewiring } from './circuit/rewire';
 import { shiftDiagnostics, spliceDevices, type DeviceSplice } from './circuit/splice';
@@ -181,6 +182,8 @@ export function reanalyse(previous: AnalysisResult, deck: Deck, options: EngineO
   if (renamed) return afterRename(previous, deck, renamed, options);
   const patch = patchSizes(previous.deck, previous.design, deck);
   if (!patch) {
+    const electrical = electricalEdit(previous.deck, previous.design, deck, previous.frontEnd);
+    if (electrical) return afterElectrical(previous, deck, electrical.design, options);
     const limit = (i: number) => rewireLimit(previous.circuits[i]!.classification.network.components.length);
     const rewired = rewireNets(previous.deck, previous.design, deck, limit, options);
     if (rewired) return afterRewire(previous, deck, rewired, options);
@@ -223,6 +226,40 @@ function afterSizes(previous: AnalysisResult, deck: Deck, patch: SizePatch, fron
     };
   });
   return finish(deck, patch.design, circuits, frontEnd, options);
+}
+
+/**
+ * After an edit of what the estimates read for the whole circuit (circuit/electricalEdit.ts: a
+ * supply's volts, a clock's timing, the budget, the corners): when every circuit's phases keep
+ * their pattern (the same clocks, and the same phases with the same clock values, only their
+ * times moved), the switch network and the classification stand. The context takes the new
+ * supply, corners and budget, and every estimate is worked out again, one solve per family of
+ * nodes that shared one (estimate updateEstimates); the findings are written again (the
+ * classification's from the same results, with the phases' new times).
+ */
+function afterElectrical(previous: AnalysisResult, deck: Deck, design: Design, options: EngineOptions): AnalysisResult | undefined {
+  const circuits: CircuitAnalysis[] = [];
+  for (let i = 0; i < previous.circuits.length; i++) {
+    const a = previous.circuits[i]!;
+    const circuit = design.circuits[i]!;
+    const clocks = findClocks(circuit, design.directives, options);
+    const plan = buildPhases(circuit, clocks.clocks, design.directives, options);
+    if (!samePhasePattern(a.plan, plan)) return undefined;
+    const network = { ...a.classification.network, circuit };
+    const classification: Classification = { ...a.classification, network, plan };
+    const settings = electricalSettings(circuit, design, options);
+    const ctx: ElectricalContext = { ...a.electrical!, circuit, network, plan, classification, ...settings, railVolts: railVoltsOf(circuit, network, settings.vddV) };
+    const estimates = updateEstimates(ctx, a.estimates!, 'all');
+    circuits.push({
+      circuit,
+      plan,
+      classification,
+      electrical: ctx,
+      estimates,
+      findings: { phases: [...clocks.diagnostics, ...plan.diagnostics], classification: reviseClassificationFindings(circuit, classification, a.classification, [], options), electrical: electricalFindings(ctx, estimates), models: a.findings.models },
+    });
+  }
+  return finish(deck, design, circuits, previous.frontEnd, options);
 }
 
 /**
@@ -432,16 +469,24 @@ function finish(deck: Deck, design: Design, circuits: CircuitAnalysis[], frontEn
   return { deck, design, circuits, diagnostics: findings, frontEnd };
 }
 
-/** Supply, corners and budget: directives win over settings, settings over defaults. */
-function* electricalContext(circuit: Circuit, design: Design, plan: PhasePlan, classification: Classification, options: EngineOptions): Steps<ElectricalContext> {
+/** Supply, corners and budget: directives win over settings, settings over defaults. The budget set by a receiver is left to electricalContext. */
+function electricalSettings(circuit: Circuit, design: Design, options: EngineOptions): ContextOptions {
   const known = circuit.supplies.map((s) => s.volts).filter((v): v is number => v !== null && v > 0);
   const vddV = known.length ? Math.max(...known) : (options.defaultSupplyVolts ?? FALLBACK_SUPPLY_V);
   const vddFrom = known.length ? 'netlist' : options.defaultSupplyVolts !== undefined ? 'setting' : 'fallback';
   const temps = design.directives.tempsC?.values ?? options.tempsC ?? DEFAULT_TEMPS_C;
   const corners = temps.map((t) => ({ tempC: t, tempK: celsiusToKelvin(t) }));
   const b = design.directives.budget ?? options.budget ?? {};
-  const base = yield* buildContextSteps(circuit, buildNetworkOf(classification), plan, classification, { vddV, vddFrom, corners, budgetV: DEFAULT_BUDGET_FRACTION * vddV });
-  let budgetV = b.volts ?? (b.fraction !== undefined ? b.fraction * vddV : DEFAULT_BUDGET_FRACTION * vddV);
+  const budgetV = b.volts ?? (b.fraction !== undefined ? b.fraction * vddV : DEFAULT_BUDGET_FRACTION * vddV);
+  return { vddV, vddFrom, corners, budgetV };
+}
+
+function* electricalContext(circuit: Circuit, design: Design, plan: PhasePlan, classification: Classification, options: EngineOptions): Steps<ElectricalContext> {
+  const settings = electricalSettings(circuit, design, options);
+  const { vddV, corners } = settings;
+  const b = design.directives.budget ?? options.budget ?? {};
+  const base = yield* buildContextSteps(circuit, buildNetworkOf(classification), plan, classification, { ...settings, budgetV: DEFAULT_BUDGET_FRACTION * vddV });
+  let budgetV = settings.budgetV;
   if (b.receiver) {
     // the first storage node's receiving inverter sets the threshold
     for (let n = 0; n < circuit.nets.length; n++) {

@@ -13,7 +13,7 @@ import type { Circuit, Design, Instance, Mosfet, Net, NetKind, Origin, Polarity,
 import { mosfetRecord } from './circuit';
 import type { Deck, Located, SubcktDefinition } from './deck';
 import { emptyDirectives, readDirectives, roleNames, type DeviceKind, type DirectiveSet } from './directives';
-import { interpretElement, MODELLED_LETTERS, splitItems, type ElementSyntax } from './elements';
+import { interpretElement, MODELLED_LETTERS, splitItems, type ElementSyntax, type WaveformSyntax } from './elements';
 import { readModelCard, selectModel, type ModelCard } from './models';
 import { evaluateValue, ParamScope } from './params';
 import { parseSpiceNumber } from './numbers';
@@ -798,31 +798,7 @@ class Elaborator {
   }
 
   private waveform(s: Extract<ElementSyntax, { kind: 'source' }>, file: string, scope: ParamScope): Waveform {
-    const w = s.waveform;
-    if (w.kind === 'dc') return { kind: 'dc', volts: w.value ? this.num(w.value, file, scope) : 0 };
-    const a = w.args.map((x) => this.num(x, file, scope));
-    const at = (i: number, dflt: number) => a[i] ?? dflt;
-    switch (w.kind) {
-      case 'pulse':
-        return { kind: 'pulse', v1: at(0, 0), v2: at(1, 0), delayS: at(2, 0), riseS: at(3, 0), fallS: at(4, 0), widthS: at(5, Infinity), periodS: at(6, Infinity) };
-      case 'pwl': {
-        const points: Array<[number, number]> = [];
-        for (let i = 0; i + 1 < a.length; i += 2) points.push([a[i] ?? 0, a[i + 1] ?? 0]);
-        const pwl: Waveform = { kind: 'pwl', points };
-        for (const o of w.options) {
-          const k = o.name.text.toLowerCase();
-          const v = this.num(o.value, file, scope);
-          if (v === undefined) continue;
-          if (k === 'r') pwl.repeatFromS = v;
-          else if (k === 'td') pwl.delayS = v;
-        }
-        return pwl;
-      }
-      case 'sin':
-        return { kind: 'sin', offset: at(0, 0), amplitude: at(1, 0), freqHz: at(2, 0), delayS: at(3, 0) };
-      default:
-        return { kind: 'other', name: w.kind };
-    }
+    return waveformOf(s.waveform, (v) => this.num(v, file, scope));
   }
 
   // ---- flattening --------------------------------------------------------------------------
@@ -1202,4 +1178,32 @@ function netIdsWhere(c: Circuit, keep: (n: Net) => boolean): number[] {
   const out: number[] = [];
   c.nets.forEach((n, i) => keep(n) && out.push(i));
   return out;
+}
+
+/** A source's waveform, its values read by `num` (the elaborator's, or plain numbers alone: see circuit/electricalEdit). */
+export function waveformOf(w: WaveformSyntax, num: (v: ValueItem | undefined) => number | undefined): Waveform {
+  if (w.kind === 'dc') return { kind: 'dc', volts: w.value ? num(w.value) : 0 };
+  const a = w.args.map((x) => num(x));
+  const at = (i: number, dflt: number) => a[i] ?? dflt;
+  switch (w.kind) {
+    case 'pulse':
+      return { kind: 'pulse', v1: at(0, 0), v2: at(1, 0), delayS: at(2, 0), riseS: at(3, 0), fallS: at(4, 0), widthS: at(5, Infinity), periodS: at(6, Infinity) };
+    case 'pwl': {
+      const points: Array<[number, number]> = [];
+      for (let i = 0; i + 1 < a.length; i += 2) points.push([a[i] ?? 0, a[i + 1] ?? 0]);
+      const pwl: Waveform = { kind: 'pwl', points };
+      for (const o of w.options) {
+        const k = o.name.text.toLowerCase();
+        const v = num(o.value);
+        if (v === undefined) continue;
+        if (k === 'r') pwl.repeatFromS = v;
+        else if (k === 'td') pwl.delayS = v;
+      }
+      return pwl;
+    }
+    case 'sin':
+      return { kind: 'sin', offset: at(0, 0), amplitude: at(1, 0), freqHz: at(2, 0), delayS: at(3, 0) };
+    default:
+      return { kind: 'other', name: w.kind };
+  }
 }

@@ -184,6 +184,21 @@ export function floatWindow(plan: PhasePlan, floatsIn: (p: Phase) => boolean): n
   return best > 0 ? best : null;
 }
 
+/**
+ * Two plans with the same pattern: the same clock nets, and the same phases in the same order
+ * with the same clock values, names and standby flags (their times may differ). A classification
+ * reads nothing else of a plan.
+ */
+export function samePhasePattern(a: PhasePlan, b: PhasePlan): boolean {
+  if (a.clocks.length !== b.clocks.length || a.clocks.some((k, i) => k.net !== b.clocks[i]!.net || k.inverseOf !== b.clocks[i]!.inverseOf)) return false;
+  if (a.phases.length !== b.phases.length || a.cycle.length !== b.cycle.length) return false;
+  const sameClocks = (x: Map<number, 0 | 1>, y: Map<number, 0 | 1>) => x.size === y.size && [...x].every(([k, v]) => y.get(k) === v);
+  return a.phases.every((p, i) => {
+    const q = b.phases[i]!;
+    return p.name === q.name && p.standby === q.standby && sameClocks(p.clocks, q.clocks);
+  });
+}
+
 /** The plan with its clock nets under a net insertion (core/renumber): the same phases and times. */
 export function widenPlan(plan: PhasePlan, ins: NetRenumbering): PhasePlan {
   const at = (x: number) => ins.oldToNew[x]!;

@@ -45,13 +45,7 @@ export function buildContext(circuit: Circuit, network: SwitchNetwork, plan: Pha
 
 /** `buildContext` in slices: the per-net device lists are long loops on a large circuit. */
 export function* buildContextSteps(circuit: Circuit, network: SwitchNetwork, plan: PhasePlan, classification: Classification, opts: ContextOptions): Steps<ElectricalContext> {
-  const railVolts = new Float64Array(circuit.nets.length).fill(NaN);
-  for (let i = 0; i < circuit.nets.length; i++) {
-    const r = network.role[i];
-    if (r === NetRole.Rail0) railVolts[i] = 0;
-    else if (r === NetRole.Rail1) railVolts[i] = opts.vddV;
-  }
-  for (const s of circuit.supplies) if (s.volts !== null) railVolts[s.net] = s.volts;
+  const railVolts = railVoltsOf(circuit, network, opts.vddV);
   const channelOf: number[][] = Array.from({ length: circuit.nets.length }, () => []);
   yield;
   const gateOf: number[][] = Array.from({ length: circuit.nets.length }, () => []);
@@ -88,6 +82,18 @@ export function* buildContextSteps(circuit: Circuit, network: SwitchNetwork, pla
       return x;
     },
   };
+}
+
+/** Volts of each rail net (NaN for the others): a supply's own volts, else `vddV`. */
+export function railVoltsOf(circuit: Circuit, network: SwitchNetwork, vddV: number): Float64Array {
+  const railVolts = new Float64Array(circuit.nets.length).fill(NaN);
+  for (let i = 0; i < circuit.nets.length; i++) {
+    const r = network.role[i];
+    if (r === NetRole.Rail0) railVolts[i] = 0;
+    else if (r === NetRole.Rail1) railVolts[i] = vddV;
+  }
+  for (const s of circuit.supplies) if (s.volts !== null) railVolts[s.net] = s.volts;
+  return railVolts;
 }
 
 /** Drain/source diffusion geometry: AD/AS/PD/PS when given, else W times an assumed diffusion

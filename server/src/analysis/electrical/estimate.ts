@@ -117,22 +117,28 @@ const sharedSolves = new WeakMap<ReadonlyMap<number, NodeEstimate>, Int32Array>(
  * that shared one solve before share one again (their groups changed alike), so each family
  * is solved once; the result equals a full pass (the tests compare them).
  */
-export function updateEstimates(ctx: ElectricalContext, previous: ReadonlyMap<number, NodeEstimate>, affected: readonly number[]): Map<number, NodeEstimate> {
+export function updateEstimates(ctx: ElectricalContext, previous: ReadonlyMap<number, NodeEstimate>, affected: readonly number[] | 'all'): Map<number, NodeEstimate> {
   const run = new EstimateRun(ctx);
-  // the redone nodes laid over the previous map (no node comes or goes: the classification stands)
+  const every = affected === 'all';
+  // the redone nodes laid over the previous map (no node comes or goes: the classification
+  // stands), or, when every node is redone (an edit of the supply, the corners or a clock's
+  // times), a map of their own
   const changes = new Map<number, NodeEstimate | undefined>();
   const before = sharedSolves.get(previous);
   const shareOf = before ? before.slice() : new Int32Array(ctx.circuit.nets.length).fill(-1);
-  const affectedSet = new Set(affected);
+  const affectedSet = every ? undefined : new Set(affected);
   // the family's first affected node is solved; the others copy it when they are internal nodes
   const solvedFor = new Map<number, { estimate: NodeEstimate; family?: Family }>();
   const unchangedFamilies = new Set<number>();
-  for (const n of affected) {
+  for (const n of every ? previous.keys() : affected) {
     // the classification did not change, so neither did which nodes have an estimate
-    if (!previous.has(n)) continue;
+    if (!every && !previous.has(n)) continue;
     const family = before && before[n]! >= 0 ? before[n]! : undefined;
-    const first = family !== undefined && affectedSet.has(family) ? solvedFor.get(family) : undefined;
-    if (first && unchangedFamilies.has(family!)) continue;
+    const first = family !== undefined && (every || affectedSet!.has(family)) ? solvedFor.get(family) : undefined;
+    if (first && unchangedFamilies.has(family!)) {
+      if (every) changes.set(n, previous.get(n));
+      continue;
+    }
     if (first) {
       // an internal node's figures carry over as they are; a storage node's name its own nets
       const devices = canonicalDevices(ctx, n);
@@ -159,7 +165,8 @@ export function updateEstimates(ctx: ElectricalContext, previous: ReadonlyMap<nu
       shareOf[n] = -1;
     }
   }
-  const out = OverlayMap.over(previous, changes);
+  const whole = every && ![...changes.values()].includes(undefined);
+  const out = whole ? (changes as Map<number, NodeEstimate>) : OverlayMap.over(previous, changes);
   sharedSolves.set(out, shareOf);
   return out;
 }

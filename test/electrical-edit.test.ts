@@ -1,0 +1,99 @@
+// The path for edits of what the estimates read for the whole circuit (circuit/electricalEdit.ts,
+// engine `reanalyse`): a supply's volts, a clock source's edges and period, the values of the
+// `clock`, `standby`, `budget` and `temps` directives. When the phases keep their pattern the
+// classification stands and every estimate is worked out again; the answer must equal a fresh
+// analysis of the new text, finding for finding and figure for figure. Random edits over every
+// sample, the fixtures and a generated datapath, one and two in a row; edits that change the
+// phases' pattern or could make a rail appear or go are declined.
+
+import * as fs from 'node:fs';
+import * as path from 'node:path';
+import fc from 'fast-check';
+import { describe, expect, it } from 'vitest';
+import { analyse, readDeck, reanalyse } from '../server/src/engine';
+import { memoryHost, type FileHost } from '../server/src/core/host';
+import { overlay } from './support/edits';
+import { checkRandomEdits, same } from './support/sameAnalysis';
+import { hierarchicalNetlist } from '../scripts/netlists';
+
+const FACTORS = [0.5, 0.8, 0.97, 1.1, 1.25, 2, 3];
+const SOURCE_LINE = /^\s*[vi]\S*\s+\S+\s+\S+\s/i;
+const DIRECTIVE_LINE = /^\s*\*\s*tidemark:\s*(clock|standby|budget|temps)\b/i;
+
+/** Where the numbers are on source lines (after the nodes) and on those directives' lines. */
+function electricalValues(lines: string[]): Array<{ line: number; start: number; end: number; value: number }> {
+  const out: Array<{ line: number; start: number; end: number; value: number }> = [];
+  lines.forEach((l, i) => {
+    const source = SOURCE_LINE.exec(l);
+    const directive = DIRECTIVE_LINE.exec(l);
+    if (!source && !directive) return;
+    const from = source ? source[0].length : directive![0].length;
+    for (const m of l.slice(from).matchAll(/(?<![\w.])(-?\d+(?:\.\d+)?(?:e[-+]?\d+)?)(?=[a-z%]*(?![\w.]))/gi)) {
+      const start = from + m.index!;
+      out.push({ line: i, start, end: start + m[1]!.length, value: Number(m[1]) });
+    }
+  });
+  return out;
+}
+
+/** One such number scaled by a factor (its unit suffix kept). */
+function editValue(text: string, pick: number, factor: number): string {
+  const lines = text.split('\n');
+  const spots = electricalValues(lines);
+  if (spots.length === 0) return text;
+  const s = spots[pick % spots.length]!;
+  const next = Number((s.value * FACTORS[factor % FACTORS.length]!).toPrecision(4));
+  const l = lines[s.line]!;
+  lines[s.line] = l.slice(0, s.start) + String(next) + l.slice(s.end);
+  return lines.join('\n');
+}
+
+function check(file: string, original: string, hostFor: (t: string) => FileHost, runs: number): number {
+  return checkRandomEdits(file, original, hostFor, runs, 31, [fc.nat(5000), fc.nat(50)], (t, [pick, factor]) => editValue(t, pick!, factor!));
+}
+
+describe('supply, clock, budget and corner values reuse the classification and equal a fresh analysis', () => {
+  let total = 0;
+  const SAMPLES = path.join(__dirname, '..', 'samples');
+  for (const name of fs.readdirSync(SAMPLES).filter((f) => f.endsWith('.sp'))) {
+    it(`${name}: random values on its sources and directives`, () => {
+      const file = path.join(SAMPLES, name);
+      total += check(file, fs.readFileSync(file, 'utf8'), (t) => overlay(file, t), 14);
+    }, 120_000);
+  }
+  for (const kind of ['classify', 'electrical']) {
+    const dir = path.join(__dirname, 'fixtures', kind);
+    it(`the ${kind} fixtures: random values on their sources and directives`, () => {
+      for (const name of fs.readdirSync(dir).filter((f) => /\.(sp|cdl)$/.test(f))) {
+        const file = path.join(dir, name);
+        const text = fs.readFileSync(file, 'utf8');
+        if (electricalValues(text.split('\n')).length) total += check(file, text, (t) => overlay(file, t), 6);
+      }
+    }, 120_000);
+  }
+
+  it('a generated hierarchical datapath (2k transistors): the supply, both clocks, a budget and corners', () => {
+    const file = '/datapath.sp';
+    const text = hierarchicalNetlist(2_000).replace('\n.end\n', '\n* tidemark: budget 12%\n* tidemark: temps 25 110\n.end\n');
+    total += check(file, text, (t) => memoryHost({ [file]: t }), 10);
+    const before = analyse(memoryHost({ [file]: text }), file);
+    const cases: Array<[string, string, boolean]> = [
+      ['the supply at 1.1 V', text.replace('vdd vdd 0 1.0', 'vdd vdd 0 1.1'), true],
+      ['both clocks at half the frequency', text.replace('PULSE(0 1 0 10p 10p 0.5n 1n)', 'PULSE(0 1 0 10p 10p 1n 2n)').replace('PULSE(1 0 0 10p 10p 0.5n 1n)', 'PULSE(1 0 0 10p 10p 1n 2n)'), true],
+      ['a tighter budget', text.replace('budget 12%', 'budget 5%'), true],
+      ['a budget in volts', text.replace('budget 12%', 'budget 0.08V'), true],
+      ['a hotter corner', text.replace('temps 25 110', 'temps 25 125'), true],
+      // declined: the supply to 0 V makes it a ground; one clock at another period changes the phases
+      ['the supply at 0 V', text.replace('vdd vdd 0 1.0', 'vdd vdd 0 0'), false],
+      ['one clock at another period', text.replace('PULSE(0 1 0 10p 10p 0.5n 1n)', 'PULSE(0 1 0 10p 10p 0.7n 1.5n)'), false],
+    ];
+    for (const [what, edited, answered] of cases) {
+      expect(edited, what).not.toBe(text);
+      const host = memoryHost({ [file]: edited });
+      const fast = reanalyse(before, readDeck(host, file));
+      expect(fast !== undefined, what).toBe(answered);
+      if (fast) same(file, fast, analyse(host, file));
+    }
+    expect(total).toBeGreaterThan(40);
+  }, 120_000);
+});
