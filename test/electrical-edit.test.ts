@@ -14,6 +14,7 @@ import { analyse, readDeck, reanalyse } from '../server/src/engine';
 import { memoryHost, type FileHost } from '../server/src/core/host';
 import { overlay } from './support/edits';
 import { checkRandomEdits, same } from './support/sameAnalysis';
+import { samplesAndElectricalFixtures } from './support/fixtures';
 import { hierarchicalNetlist } from '../scripts/netlists';
 
 const FACTORS = [0.5, 0.8, 0.97, 1.1, 1.25, 2, 3];
@@ -48,6 +49,25 @@ function editValue(text: string, pick: number, factor: number): string {
   return lines.join('\n');
 }
 
+/** A budget or corners line put in before a line, or a budget, corners, clock or standby line taken out. */
+function editDirectiveLine(text: string, pick: number, kind: number): string {
+  const lines = text.split('\n');
+  const existing = lines.flatMap((l, i) => (DIRECTIVE_LINE.test(l) ? [i] : []));
+  if (kind % 3 === 2) {
+    if (!existing.length) return text;
+    lines.splice(existing[pick % existing.length]!, 1);
+    return lines.join('\n');
+  }
+  const end = lines.findIndex((l) => /^\.end\b/i.test(l.trim()));
+  const at = 1 + (pick % Math.max(1, (end < 0 ? lines.length : end) - 1));
+  lines.splice(at, 0, kind % 3 === 0 ? `* tidemark: budget ${5 + (pick % 20)}%` : `* tidemark: temps 25 ${80 + (pick % 50)}`);
+  return lines.join('\n');
+}
+
+function checkLines(file: string, original: string, hostFor: (t: string) => FileHost, runs: number): number {
+  return checkRandomEdits(file, original, hostFor, runs, 37, [fc.nat(5000), fc.nat(50)], (t, [pick, kind]) => editDirectiveLine(t, pick!, kind!));
+}
+
 function check(file: string, original: string, hostFor: (t: string) => FileHost, runs: number): number {
   return checkRandomEdits(file, original, hostFor, runs, 31, [fc.nat(5000), fc.nat(50)], (t, [pick, factor]) => editValue(t, pick!, factor!));
 }
@@ -72,6 +92,12 @@ describe('supply, clock, budget and corner values reuse the classification and e
     }, 120_000);
   }
 
+  it('budget and corners lines put in and directive lines taken out, on every sample and electrical fixture: every later line moves', () => {
+    let taken = 0;
+    for (const file of samplesAndElectricalFixtures()) taken += checkLines(file, fs.readFileSync(file, 'utf8'), (t) => overlay(file, t), 8);
+    expect(taken).toBeGreaterThan(20);
+  }, 120_000);
+
   it('a generated hierarchical datapath (2k transistors): the supply, both clocks, a budget and corners', () => {
     const file = '/datapath.sp';
     const text = hierarchicalNetlist(2_000).replace('\n.end\n', '\n* tidemark: budget 12%\n* tidemark: temps 25 110\n.end\n');
@@ -83,6 +109,8 @@ describe('supply, clock, budget and corner values reuse the classification and e
       ['a tighter budget', text.replace('budget 12%', 'budget 5%'), true],
       ['a budget in volts', text.replace('budget 12%', 'budget 0.08V'), true],
       ['a hotter corner', text.replace('temps 25 110', 'temps 25 125'), true],
+      ['the budget line taken out (the default budget)', text.replace('* tidemark: budget 12%\n', ''), true],
+      ['a budget line put in at the top', text.replace('\n', '\n* tidemark: budget 9%\n'), true],
       // declined: the supply to 0 V makes it a ground; one clock at another period changes the phases
       ['the supply at 0 V', text.replace('vdd vdd 0 1.0', 'vdd vdd 0 0'), false],
       ['one clock at another period', text.replace('PULSE(0 1 0 10p 10p 0.5n 1n)', 'PULSE(0 1 0 10p 10p 0.7n 1.5n)'), false],

@@ -19,10 +19,10 @@ import { estimateNodeSteps, nodesAround, nodesReading, reestimate, renameEstimat
 import { patchSizes, type SizePatch } from './circuit/patch';
 import { reelaborateValues } from './circuit/valueEdit';
 import { acceptEdit } from './circuit/acceptEdit';
-import { electricalEdit } from './circuit/electricalEdit';
+import { electricalDirectiveLines, electricalEdit } from './circuit/electricalEdit';
 import { renameNets, type NetRename } from './circuit/rename';
 import { rewireNets, type Rewiring } from './circuit/rewire';
-import { shiftDiagnostics, spliceDevices, type DeviceSplice } from './circuit/splice';
+import { shiftDiagnostics, spliceDevices, type DeviceSplice, type LineShift } from './circuit/splice';
 import { sameRange } from './syntax/compare';
 import type { Range } from './core/source';
 import { runToEnd, type Steps } from './core/steps';
@@ -178,6 +178,9 @@ export function reanalyse(previous: AnalysisResult, deck: Deck, options: EngineO
   // accept directives alone: the same results, marked again
   const accepted = acceptEdit(previous.deck, previous.design, deck, previous.frontEnd);
   if (accepted) return afterSplice(previous, deck, { design: accepted.design, renumbering: previous.circuits.map(() => undefined), shift: accepted.shift, removedLines: undefined, widened: [] }, options, accepted.frontEnd);
+  // a budget, corners, clock or standby line put in or taken out
+  const lines = electricalDirectiveLines(previous.deck, previous.design, deck, previous.frontEnd);
+  if (lines) return afterElectrical(previous, deck, lines.design, options, lines.shift, lines.frontEnd);
   const renamed = renameNets(previous.deck, previous.design, deck, options);
   if (renamed) return afterRename(previous, deck, renamed, options);
   const patch = patchSizes(previous.deck, previous.design, deck);
@@ -235,9 +238,10 @@ function afterSizes(previous: AnalysisResult, deck: Deck, patch: SizePatch, fron
  * times moved), the switch network and the classification stand. The context takes the new
  * supply, corners and budget, and every estimate is worked out again, one solve per family of
  * nodes that shared one (estimate updateEstimates); the findings are written again (the
- * classification's from the same results, with the phases' new times).
+ * classification's from the same results, with the phases' new times). `shift`: the lines a
+ * directive line put in or taken out moved, with `frontEnd` the new text's front-end findings.
  */
-function afterElectrical(previous: AnalysisResult, deck: Deck, design: Design, options: EngineOptions): AnalysisResult | undefined {
+function afterElectrical(previous: AnalysisResult, deck: Deck, design: Design, options: EngineOptions, shift?: LineShift, frontEnd = previous.frontEnd): AnalysisResult | undefined {
   const circuits: CircuitAnalysis[] = [];
   for (let i = 0; i < previous.circuits.length; i++) {
     const a = previous.circuits[i]!;
@@ -256,10 +260,10 @@ function afterElectrical(previous: AnalysisResult, deck: Deck, design: Design, o
       classification,
       electrical: ctx,
       estimates,
-      findings: { phases: [...clocks.diagnostics, ...plan.diagnostics], classification: reviseClassificationFindings(circuit, classification, a.classification, [], options), electrical: electricalFindings(ctx, estimates), models: a.findings.models },
+      findings: { phases: [...clocks.diagnostics, ...plan.diagnostics], classification: reviseClassificationFindings(circuit, classification, a.classification, [], options), electrical: electricalFindings(ctx, estimates), models: shift ? shiftDiagnostics(a.findings.models, shift) : a.findings.models },
     });
   }
-  return finish(deck, design, circuits, previous.frontEnd, options);
+  return finish(deck, design, circuits, frontEnd, options);
 }
 
 /**

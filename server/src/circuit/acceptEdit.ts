@@ -6,7 +6,7 @@
 
 import type { Diagnostic } from '../core/diagnostics';
 import { startLineOf } from '../core/source';
-import type { DirectiveLine } from '../syntax/tree';
+import type { DirectiveLine, SyntaxFile } from '../syntax/tree';
 import { sameRange, sameStatement } from '../syntax/compare';
 import type { Design } from './circuit';
 import type { Deck, SubcktDefinition } from './deck';
@@ -21,17 +21,47 @@ export interface AcceptEdit {
 }
 
 export function acceptEdit(previousDeck: Deck, previous: Design, deck: Deck, previousFrontEnd: readonly Diagnostic[]): AcceptEdit | undefined {
+  const isAccept = (d: DirectiveLine) => d.verb === 'accept';
+  const edit = directiveLinesEdit(previousDeck, deck, isAccept);
+  if (!edit) return undefined;
+  const { x, shift } = edit;
+
+  // the accepts read again, in the elaborator's order (the top level's, then each definition's)
+  const into = emptyDirectives();
+  const found: Diagnostic[] = [];
+  readDirectives(deck.directives.filter((l) => isAccept(l.item)), into, found);
+  const collect = (defs: Map<string, SubcktDefinition>) => {
+    for (const def of defs.values()) {
+      const before = into.accepts.length;
+      readDirectives(def.directives.filter((l) => isAccept(l.item)), into, found);
+      for (let i = before; i < into.accepts.length; i++) into.accepts[i]!.subckt = def.name;
+      collect(def.local);
+    }
+  };
+  collect(deck.subckts);
+  const shifted = shiftedDesign(previous, shift);
+  const design: Design = { ...shifted, directives: { ...shifted.directives, accepts: into.accepts } };
+  // the old accept lines' findings (a malformed accept) give way to the new lines'
+  const oldAcceptLines = new Set(x.directives.filter(isAccept).map((l) => l.range.start.line));
+  const kept = previousFrontEnd.filter((f) => !(f.rule === 'directive' && f.file === x.file && oldAcceptLines.has(f.range.start.line)));
+  return { design, shift, frontEnd: [...shiftDiagnostics(kept, shift), ...found] };
+}
+
+/**
+ * When two parses differ in one file, and there only in directive lines that `changing` picks
+ * (put in, taken out or changed), with every statement, other directive, pin line and finding
+ * the same and moved by the edit's line count after it: the two files and the shift. Undefined
+ * for any other edit, or one with no such directive on either side.
+ */
+export function directiveLinesEdit(previousDeck: Deck, deck: Deck, changing: (d: DirectiveLine) => boolean): { x: SyntaxFile; y: SyntaxFile; shift: LineShift } | undefined {
   const changed = oneChangedFile(previousDeck.files, deck.files);
   if (!changed) return undefined;
   const [x, y] = changed;
   if (x.statements.length !== y.statements.length || x.pinInfos.length !== y.pinInfos.length) return undefined;
-  const isAccept = (d: DirectiveLine) => d.verb === 'accept';
-  const xd = x.directives.filter((d) => !isAccept(d));
-  const yd = y.directives.filter((d) => !isAccept(d));
-  if (xd.length === yd.length && xd.length === x.directives.length && x.directives.length === y.directives.length) {
-    // no accept on either side: not this kind of edit
-    return undefined;
-  }
+  const xd = x.directives.filter((d) => !changing(d));
+  const yd = y.directives.filter((d) => !changing(d));
+  // none of them on either side: not this kind of edit
+  if (xd.length === x.directives.length && yd.length === y.directives.length) return undefined;
   if (xd.length !== yd.length) return undefined;
   const d = y.lineCount - x.lineCount;
   // every other line moves by 0 before the edit and by d after it: pairs of (old line, moved by)
@@ -65,24 +95,5 @@ export function acceptEdit(previousDeck: Deck, previous: Design, deck: Deck, pre
   const shift: LineShift = { file: x.file, fromLine, lines: d };
   if (JSON.stringify(shiftDiagnostics(x.diagnostics, shift)) !== JSON.stringify(y.diagnostics)) return undefined;
   if (JSON.stringify(shiftDiagnostics(previousDeck.diagnostics, shift)) !== JSON.stringify(deck.diagnostics)) return undefined;
-
-  // the accepts read again, in the elaborator's order (the top level's, then each definition's)
-  const into = emptyDirectives();
-  const found: Diagnostic[] = [];
-  readDirectives(deck.directives.filter((l) => isAccept(l.item)), into, found);
-  const collect = (defs: Map<string, SubcktDefinition>) => {
-    for (const def of defs.values()) {
-      const before = into.accepts.length;
-      readDirectives(def.directives.filter((l) => isAccept(l.item)), into, found);
-      for (let i = before; i < into.accepts.length; i++) into.accepts[i]!.subckt = def.name;
-      collect(def.local);
-    }
-  };
-  collect(deck.subckts);
-  const shifted = shiftedDesign(previous, shift);
-  const design: Design = { ...shifted, directives: { ...shifted.directives, accepts: into.accepts } };
-  // the old accept lines' findings (a malformed accept) give way to the new lines'
-  const oldAcceptLines = new Set(x.directives.filter(isAccept).map((l) => l.range.start.line));
-  const kept = previousFrontEnd.filter((f) => !(f.rule === 'directive' && f.file === x.file && oldAcceptLines.has(f.range.start.line)));
-  return { design, shift, frontEnd: [...shiftDiagnostics(kept, shift), ...found] };
+  return { x, y, shift };
 }

@@ -14,10 +14,12 @@ import { sameStatement } from '../syntax/compare';
 import type { DirectiveLine, Statement, ValueItem } from '../syntax/tree';
 import type { Circuit, Design, Origin, Source, Supply, Waveform } from './circuit';
 import type { Deck, SubcktDefinition } from './deck';
+import { directiveLinesEdit } from './acceptEdit';
 import { emptyDirectives, readDirectives, type DirectiveSet } from './directives';
 import { waveformOf } from './elaborate';
 import { interpretElement } from './elements';
 import { parseSpiceNumber } from './numbers';
+import { shiftDiagnostics, shiftedDesign, type LineShift } from './splice';
 
 /** Directives whose values the estimates read for the whole circuit, and nothing else does. */
 const ELECTRICAL_VERBS = new Set(['budget', 'temps', 'clock', 'standby']);
@@ -74,6 +76,25 @@ export function electricalEdit(previousDeck: Deck, previous: Design, deck: Deck,
   }
   // a source edited in a cell no circuit uses changes nothing; one used nowhere is still read as the elaborator reads it
   return { design: { ...previous, circuits, directives } };
+}
+
+/**
+ * A `budget`, `temps`, `clock` or `standby` line put in or taken out (or changed) in one file,
+ * everything else the same and moved by the edit's line count after it (acceptEdit
+ * directiveLinesEdit): the previous design with its lines moved and its directives read again.
+ * An edit that keeps the line count is `electricalEdit`'s.
+ */
+export function electricalDirectiveLines(previousDeck: Deck, previous: Design, deck: Deck, previousFrontEnd: readonly Diagnostic[]): { design: Design; shift: LineShift; frontEnd: Diagnostic[] } | undefined {
+  const isElectrical = (d: DirectiveLine) => ELECTRICAL_VERBS.has(d.verb);
+  const edit = directiveLinesEdit(previousDeck, deck, isElectrical);
+  if (!edit || edit.shift.lines === 0) return undefined;
+  const { x, shift } = edit;
+  // a finding on one of the old lines (a malformed directive) would have to go
+  const oldLines = new Set(x.directives.filter(isElectrical).map((l) => l.range.start.line));
+  if (previousFrontEnd.some((f) => f.file === x.file && oldLines.has(f.range.start.line))) return undefined;
+  const shifted = shiftedDesign(previous, shift);
+  const directives = rereadDirectives(deck, shifted.directives);
+  return directives && { design: { ...shifted, directives }, shift, frontEnd: shiftDiagnostics([...previousFrontEnd], shift) };
 }
 
 /** Two directive lines of one verb on the same lines, with as many words. */
@@ -151,8 +172,9 @@ function suppliesFrom(c: Circuit, sources: readonly Source[]): Supply[] | undefi
 
 /**
  * The deck's directives read again as the elaborator reads them (the top level's, then each
- * definition's), when they differ from the previous ones only in values: the same clocks and
- * standby scenarios on the same nets, the same everything else, and no finding in the reading.
+ * definition's), when they differ from the previous ones only in values (a budget or corners
+ * put in or taken out included): the same clocks and standby scenarios on the same nets, the
+ * same everything else, and no finding in the reading.
  */
 function rereadDirectives(deck: Deck, previous: DirectiveSet): DirectiveSet | undefined {
   const into = emptyDirectives();
@@ -172,8 +194,8 @@ function rereadDirectives(deck: Deck, previous: DirectiveSet): DirectiveSet | un
   const shape = (d: DirectiveSet) =>
     JSON.stringify({
       ...d,
-      budget: d.budget !== undefined,
-      tempsC: d.tempsC !== undefined,
+      budget: undefined,
+      tempsC: undefined,
       clocks: d.clocks.map((k) => [k.net, k.inverseOf, k.file, k.range.start.line, k.periodS !== undefined, k.highS !== undefined, k.delayS !== undefined, k.duty !== undefined]),
       standby: d.standby.map((s) => [s.net, s.level, s.file, s.range.start.line]),
     });
