@@ -49,6 +49,7 @@ async function main(): Promise<void> {
     // what every estimate reads: the phases and classification kept, every node estimated again
     // (one solve per family of twins)
     ['the supply at 1.1 V (every estimate redone)', (l) => l.startsWith('vdd vdd 0 '), (l) => l.replace(' 1.0', ' 1.1')],
+    ['a droop budget line put in (every estimate redone, every later line moved)', (l) => l.startsWith('vdd vdd 0 '), (l) => `* tidemark: budget 8%\n${l}`, 'the budget line taken out again'],
     // a device in a cell with 4,200 copies: over the splice's limit, the full analysis runs (on
     // the design built from the previous one)
     ['a device added to the domino cell (full analysis, elaboration skipped)', (l) => l.startsWith('Mkp dyn out'), (l) => `${l}\nMx dyn clk vdd vdd bp w=0.1u l=0.1u`],
