@@ -49,6 +49,24 @@ function editValue(text: string, pick: number, factor: number): string {
   return lines.join('\n');
 }
 
+/** A size on a MOSFET line, or a parameter on an instance line, written as an expression of its value. */
+function editElementValue(text: string, pick: number, factor: number): string {
+  const lines = text.split('\n');
+  const spots: Array<{ line: number; start: number; end: number; value: number }> = [];
+  lines.forEach((l, i) => {
+    if (!/^[mx]/i.test(l.trim())) return;
+    for (const m of l.matchAll(/\b(w|l)=(-?\d+(?:\.\d+)?(?:e[-+]?\d+)?)u(?![\w.])/gi)) {
+      const start = m.index! + m[1]!.length + 1;
+      spots.push({ line: i, start, end: start + m[2]!.length + 1, value: Number(m[2]) });
+    }
+  });
+  if (spots.length === 0) return text;
+  const s = spots[pick % spots.length]!;
+  const l = lines[s.line]!;
+  lines[s.line] = `${l.slice(0, s.start)}{${s.value}u*${FACTORS[factor % FACTORS.length]}}${l.slice(s.end)}`;
+  return lines.join('\n');
+}
+
 function check(file: string, original: string, hostFor: (t: string) => FileHost, runs: number): number {
   return checkRandomEdits(file, original, hostFor, runs, 23, [fc.nat(5000), fc.nat(50)], (t, [pick, factor]) => editValue(t, pick!, factor!));
 }
@@ -79,13 +97,22 @@ describe('values on parameter and model cards reuse the previous analysis and eq
     const text = hierarchicalNetlist(2_000);
     total += check(file, text, (t) => memoryHost({ [file]: t }), 8);
     const before = analyse(memoryHost({ [file]: text }), file);
-    // the benchmark's edit: the parameter every latch's pass gates read
-    const edited = text.replace(/^\.param lpass=0\.05u$/m, '.param lpass=0.06u');
-    expect(edited).not.toBe(text);
-    const fast = reanalyse(before, readDeck(memoryHost({ [file]: edited }), file));
-    expect(fast, 'a length parameter edited is answered from the previous analysis').toBeDefined();
-    same(file, fast!, analyse(memoryHost({ [file]: edited }), file));
+    // the benchmark's edit: the parameter every latch's pass gates read; and that length
+    // written as an expression on the pass gate's line in the latch cell
+    for (const edited of [text.replace(/^\.param lpass=0\.05u$/m, '.param lpass=0.06u'), text.replace('Mtn d clk st vss bn w=0.3u l=lpass', 'Mtn d clk st vss bn w=0.3u l={lpass*1.2}')]) {
+      expect(edited).not.toBe(text);
+      const fast = reanalyse(before, readDeck(memoryHost({ [file]: edited }), file));
+      expect(fast, 'a length parameter edited is answered from the previous analysis').toBeDefined();
+      same(file, fast!, analyse(memoryHost({ [file]: edited }), file));
+    }
     expect(total).toBeGreaterThan(60);
+  }, 120_000);
+  it('sizes on MOSFET lines written as expressions, on every sample, the electrical fixtures and a 2k datapath', () => {
+    let taken = 0;
+    const files: Array<[string, string, (t: string) => FileHost]> = [...fs.readdirSync(SAMPLES).filter((f) => f.endsWith('.sp')).map((f) => path.join(SAMPLES, f)), ...fs.readdirSync(path.join(__dirname, 'fixtures', 'electrical')).filter((f) => f.endsWith('.sp')).map((f) => path.join(__dirname, 'fixtures', 'electrical', f))].map((f) => [f, fs.readFileSync(f, 'utf8'), (t: string) => overlay(f, t)]);
+    files.push(['/datapath.sp', hierarchicalNetlist(2_000), (t) => memoryHost({ '/datapath.sp': t })]);
+    for (const [file, text, hostFor] of files) taken += checkRandomEdits(file, text, hostFor, 6, 29, [fc.nat(5000), fc.nat(50)], (t, [pick, factor]) => editElementValue(t, pick!, factor!));
+    expect(taken).toBeGreaterThan(30);
   }, 120_000);
   // the shapes the values-only walk (elaborate revalue) must follow as a fresh elaboration does
   // each edit: the text replaced, and whether it is answered from the previous analysis (else the
@@ -126,6 +153,12 @@ describe('values on parameter and model cards reuse the previous analysis and eq
         // the foot device moves to the longer bin's card
         ['lk=0.1u', 'lk=0.2u'],
         ['kp=180u', 'kp=150u'],
+        // element lines: an instance parameter (a longer value moves the line's end), an
+        // expression on a MOSFET line in a cell, an instance parameter given by an expression
+        ['w=1.2u', 'w=1.25u'],
+        ['w={wn}', 'w={wn*1.5}'],
+        ['cinv w={wp}', 'cinv w={wp*2}'],
+        ['w=0.15u l={lk}', 'w=0.15u l={lk*2}'],
       ],
     ],
     [

@@ -193,7 +193,7 @@ export function reanalyse(previous: AnalysisResult, deck: Deck, options: EngineO
     const spliced = spliceDevices(previous.deck, previous.design, deck, limit, options);
     if (spliced) return afterSplice(previous, deck, spliced, options);
     const values = reelaborateValues(previous.deck, previous.design, deck, previous.frontEnd, options);
-    return values && afterSizes(previous, deck, { design: values.design, changed: values.changed, moved: [] }, values.frontEnd, options);
+    return values && afterSizes(previous, deck, { design: values.design, changed: values.changed, moved: values.moved ?? [] }, values.frontEnd, options);
   }
   // a front-end finding on an edited line may change with it (a parameter, a bin, the scale)
   if (previous.frontEnd.some((d) => onEditedLine(d, patch.moved))) return undefined;

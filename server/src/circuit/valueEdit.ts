@@ -1,9 +1,11 @@
 // The elaboration stage's answer to an edit of parameter and model cards: when every edited
 // statement is a `.model` card whose values are plain numbers (same name, type and bin bounds),
 // the devices on each card take the new one, with no elaboration. Otherwise, when every edited
-// statement is a `.param` or `.model` card that stays on its lines, every cell's values are
-// worked out again (once per parameter set) and laid over the previous circuits (elaborate
-// `revalue`). When only MOSFET sizes, models or model cards differ (every net, connection,
+// statement is a `.param` or `.model` card, or a MOSFET or instance line whose `name=value`
+// parameters took other values (an expression, an instance parameter: plain-number sizes are
+// circuit/patch.ts's), that stays on its lines, every cell's values are worked out again (once
+// per parameter set) and laid over the previous circuits (elaborate `revalue`), the edited
+// element lines' devices and instances taking the lines' new extents. When only MOSFET sizes, models or model cards differ (every net, connection,
 // source, passive value, directive and line the same), the previous circuit is kept with those
 // devices replaced, as after a size edit. Anything else (a
 // supply, clock, capacitor or resistor that follows the parameter, a geometry scale that moved)
@@ -11,13 +13,15 @@
 
 import type { Diagnostic } from '../core/diagnostics';
 import type { EngineOptions } from '../core/options';
-import type { Design, Mosfet } from './circuit';
+import type { Design, Instance, Mosfet, Origin } from './circuit';
 import type { Deck } from './deck';
 import { revalue } from './elaborate';
 import { readModelCard, type ModelCard } from './models';
 import { parseSpiceNumber } from './numbers';
-import { editedStatements } from '../syntax/compare';
-import type { Statement } from '../syntax/tree';
+import { editedStatements, sameRange } from '../syntax/compare';
+import { startLineOf, type Range } from '../core/source';
+import { lineIndex, setLineIndex } from './elementIndex';
+import type { Item, Statement } from '../syntax/tree';
 
 export interface ValueEdit {
   design: Design;
@@ -25,6 +29,8 @@ export interface ValueEdit {
   changed: number[][];
   /** The front end's findings of the new text (parameter errors follow the parameters). */
   frontEnd: Diagnostic[];
+  /** Element lines edited whose extent changed: old range -> new range (findings on them move). */
+  moved?: Array<{ file: string; from: Range; to: Range }>;
 }
 
 const CARD_HEADS = new Set(['.param', '.params', '.parameter', '.parameters', '.model']);
@@ -32,19 +38,88 @@ const CARD_HEADS = new Set(['.param', '.params', '.parameter', '.parameters', '.
 export function reelaborateValues(previousDeck: Deck, previous: Design, deck: Deck, previousFrontEnd: readonly Diagnostic[], options: EngineOptions): ValueEdit | undefined {
   const edited = editedStatements(previousDeck.files, deck.files, (file, before: Statement, after: Statement) => {
     const head = before.head.text.toLowerCase();
-    if (head !== after.head.text.toLowerCase() || !CARD_HEADS.has(head)) return undefined;
+    if (head !== after.head.text.toLowerCase()) return undefined;
     // on the same lines, so that nothing after it moves
-    return before.range.start.line === after.range.start.line && before.range.end.line === after.range.end.line ? { file, before, after } : undefined;
+    if (before.range.start.line !== after.range.start.line || before.range.end.line !== after.range.end.line || before.range.start.character !== after.range.start.character) return undefined;
+    if (CARD_HEADS.has(head)) return { file, before, after, element: false };
+    // a MOSFET or instance line whose parameters took other values (an expression, an instance parameter)
+    return (head[0] === 'm' || head[0] === 'x') && onlyParameterValues(before, after) ? { file, before, after, element: true } : undefined;
   });
   if (!edited || edited.length === 0) return undefined;
   // model cards with plain numbers: the cards are replaced, with no elaboration
-  const replaced = replaceModelCards(previous, edited, previousFrontEnd);
+  const replaced = edited.every((e) => !e.element) ? replaceModelCards(previous, edited, previousFrontEnd) : undefined;
   if (replaced) return replaced;
   // the values of every cell worked out again and laid over the previous circuits (elaborate
   // revalue): nets, connections, passive values and sources must come out the same
   const revalued = revalue(deck, previous, options);
   if (!revalued || !sameDesignFacts(previous, revalued.design)) return undefined;
-  return { design: revalued.design, changed: revalued.changed, frontEnd: [...deck.diagnostics, ...revalued.diagnostics] };
+  const lines = edited.filter((e) => e.element && !sameRange(e.before.range, e.after.range, 0));
+  const design = lines.length ? withLineExtents(revalued.design, lines) : revalued.design;
+  return { design, changed: revalued.changed, frontEnd: [...deck.diagnostics, ...revalued.diagnostics], moved: lines.map((e) => ({ file: e.file, from: e.before.range, to: e.after.range })) };
+}
+
+/**
+ * Two parses of a MOSFET or instance line with the same words but for the values of its
+ * `name=value` parameters (the same names, in the same order).
+ */
+function onlyParameterValues(x: Statement, y: Statement): boolean {
+  if (x.head.text !== y.head.text || x.items.length !== y.items.length) return false;
+  let differs = false;
+  for (let k = 0; k < x.items.length; k++) {
+    const p = x.items[k]!;
+    const q = y.items[k]!;
+    if (p.kind === 'assign' && q.kind === 'assign') {
+      if (p.name.text.toLowerCase() !== q.name.text.toLowerCase()) return false;
+      if (itemText(p.value) !== itemText(q.value)) differs = true;
+      continue;
+    }
+    if (p.kind !== q.kind || itemText(p) !== itemText(q)) return false;
+  }
+  return differs;
+}
+
+function itemText(it: Item | undefined): string {
+  if (!it) return '';
+  if (it.kind === 'group') return `(${it.items.map(itemText).join(' ')})`;
+  if (it.kind === 'assign') return `${it.name.text}=${itemText(it.value)}`;
+  return it.text;
+}
+
+/**
+ * The devices and instances written on edited element lines (every copy) with the lines' new
+ * extents, as a fresh elaboration records where each was written (a longer value moves the
+ * line's end). Their nets are named by words before the values, which keep their places.
+ */
+function withLineExtents(design: Design, lines: ReadonlyArray<{ file: string; before: Statement; after: Statement }>): Design {
+  const moved = new Map<Origin, Origin>();
+  const next = (o: Origin): Origin | undefined => {
+    let to = moved.get(o);
+    if (to) return to;
+    const e = lines.find((l) => l.file === o.file && sameRange(l.before.range, o.range, 0));
+    if (!e) return undefined;
+    moved.set(o, (to = { ...o, range: e.after.range }));
+    return to;
+  };
+  const circuits = design.circuits.map((c) => {
+    const index = lineIndex(c.mosfets);
+    let mosfets: Mosfet[] | undefined;
+    for (const e of lines) {
+      for (const k of index.get(startLineOf(e.before.range)) ?? []) {
+        const m = c.mosfets[k]!;
+        const o = next(m.origin);
+        if (o) (mosfets ??= c.mosfets.slice())[k] = { ...m, origin: o };
+      }
+    }
+    // every device stays on its line
+    if (mosfets) setLineIndex(mosfets, index);
+    let instances: Instance[] | undefined;
+    c.instances.forEach((x, k) => {
+      const o = next(x.origin);
+      if (o) (instances ??= c.instances.slice())[k] = { ...x, origin: o };
+    });
+    return mosfets || instances ? { ...c, ...(mosfets ? { mosfets } : {}), ...(instances ? { instances } : {}) } : c;
+  });
+  return { ...design, circuits };
 }
 
 /**
