@@ -12,7 +12,7 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { analyse, readDeck, reanalyse } from '../server/src/engine';
 import { memoryHost, type FileHost } from '../server/src/core/host';
-import { overlay } from './support/edits';
+import { overlay, scaleNumber, type NumberSpot } from './support/edits';
 import { checkRandomEdits, same } from './support/sameAnalysis';
 import { samplesAndElectricalFixtures } from './support/fixtures';
 import { hierarchicalNetlist } from '../scripts/netlists';
@@ -22,8 +22,8 @@ const SOURCE_LINE = /^\s*[vi]\S*\s+\S+\s+\S+\s/i;
 const DIRECTIVE_LINE = /^\s*\*\s*tidemark:\s*(clock|standby|budget|temps)\b/i;
 
 /** Where the numbers are on source lines (after the nodes) and on those directives' lines. */
-function electricalValues(lines: string[]): Array<{ line: number; start: number; end: number; value: number }> {
-  const out: Array<{ line: number; start: number; end: number; value: number }> = [];
+function electricalValues(lines: string[]): NumberSpot[] {
+  const out: NumberSpot[] = [];
   lines.forEach((l, i) => {
     const source = SOURCE_LINE.exec(l);
     const directive = DIRECTIVE_LINE.exec(l);
@@ -39,14 +39,7 @@ function electricalValues(lines: string[]): Array<{ line: number; start: number;
 
 /** One such number scaled by a factor (its unit suffix kept). */
 function editValue(text: string, pick: number, factor: number): string {
-  const lines = text.split('\n');
-  const spots = electricalValues(lines);
-  if (spots.length === 0) return text;
-  const s = spots[pick % spots.length]!;
-  const next = Number((s.value * FACTORS[factor % FACTORS.length]!).toPrecision(4));
-  const l = lines[s.line]!;
-  lines[s.line] = l.slice(0, s.start) + String(next) + l.slice(s.end);
-  return lines.join('\n');
+  return scaleNumber(text, electricalValues, pick, FACTORS[factor % FACTORS.length]!);
 }
 
 /** A budget or corners line put in before a line, or a budget, corners, clock or standby line taken out. */

@@ -50,6 +50,23 @@ describe('incremental and responsive analysis over the real protocol', () => {
     fs.rmSync(dir, { recursive: true, force: true });
   });
 
+  /** The document changed to `edited`: the diagnostics it settles on are a fresh analysis's. */
+  async function changeSettlesAsFresh(edited: string, version: number): Promise<void> {
+    const expected = engineFindings(file, edited);
+    const answered = client.diagnosticsFor(uri, (p) => published(p).join('\n') === expected.join('\n'));
+    await client.change(uri, edited, version);
+    expect(published(await answered)).toEqual(expected);
+  }
+
+  /** A hover on a net of `text` (the document's text now) answers as a fresh analysis of it does. */
+  async function hoverIsFresh(text: string, position: { line: number; character: number }): Promise<void> {
+    const hover = (await client.conn.sendRequest('textDocument/hover', { textDocument: { uri }, position })) as { contents: { value: string } } | null;
+    const fresh = analyse(memoryHost({ [file]: text }), file);
+    const spot = locate(fresh.deck.files.find((x) => x.file === file)!, position);
+    expect(spot?.kind).toBe('net');
+    expect(hover?.contents.value).toBe(netHover(fresh, file, spot as Extract<NonNullable<typeof spot>, { kind: 'net' }>));
+  }
+
   it('carries findings over a comment line, moved to their new lines, equal to a re-analysis', async () => {
     expect(first.diagnostics.length).toBeGreaterThan(0);
     const lines = text.split('\n');
@@ -114,16 +131,9 @@ describe('incremental and responsive analysis over the real protocol', () => {
     lines[lines.findIndex((l) => l.startsWith('Mkp dyn out'))] = 'Mkp dyn out vdd vdd bp w=0.15u l=0.4u';
     lines[target] = lines[target]!.replace('Xb1 a1 ', 'Xb1 a3 ');
     const edited = lines.join('\n');
-    const settled = client.diagnosticsFor(uri, (p) => published(p).join('\n') === engineFindings(file, edited).join('\n'));
-    await client.change(uri, edited, 40);
-    expect(published(await settled)).toEqual(engineFindings(file, edited));
+    await changeSettlesAsFresh(edited, 40);
     current = edited;
-    const position = { line: target, character: 5 };
-    const hover = (await client.conn.sendRequest('textDocument/hover', { textDocument: { uri }, position })) as { contents: { value: string } } | null;
-    const fresh = analyse(memoryHost({ [file]: edited }), file);
-    const spot = locate(fresh.deck.files.find((x) => x.file === file)!, position);
-    expect(spot?.kind).toBe('net');
-    expect(hover?.contents.value).toBe(netHover(fresh, file, spot as Extract<NonNullable<typeof spot>, { kind: 'net' }>));
+    await hoverIsFresh(edited, { line: target, character: 5 });
     expect(client.proc.exitCode).toBeNull();
   }, 120_000);
 
@@ -136,56 +146,29 @@ describe('incremental and responsive analysis over the real protocol', () => {
       else lines.splice(lines.findIndex((l) => l.startsWith(`Xs${k + 2} `)) + 1, 0, `Mk${k} w${k + 2} clk vdd vdd bp w=0.2u l=0.1u`);
       edits.push(lines.join('\n'));
     }
-    for (const edited of edits) {
-      const expected = engineFindings(file, edited);
-      const answered = client.diagnosticsFor(uri, (p) => published(p).join('\n') === expected.join('\n'));
-      await client.change(uri, edited, version++);
-      expect(published(await answered)).toEqual(expected);
-    }
+    for (const edited of edits) await changeSettlesAsFresh(edited, version++);
     const last = edits[edits.length - 1]!;
     // the server's idle-time analysis runs; a hover afterwards answers as a fresh analysis does
     await new Promise((r) => setTimeout(r, 3_000));
-    const dynLine = last.split('\n').findIndex((l) => l.startsWith('Mpre dyn'));
-    const position = { line: dynLine, character: 6 };
-    const hover = (await client.conn.sendRequest('textDocument/hover', { textDocument: { uri }, position })) as { contents: { value: string } } | null;
-    const fresh = analyse(memoryHost({ [file]: last }), file);
-    const spot = locate(fresh.deck.files.find((x) => x.file === file)!, position);
-    expect(hover?.contents.value).toBe(netHover(fresh, file, spot as Extract<NonNullable<typeof spot>, { kind: 'net' }>));
+    await hoverIsFresh(last, { line: last.split('\n').findIndex((l) => l.startsWith('Mpre dyn')), character: 6 });
     expect(client.proc.exitCode).toBeNull();
   }, 120_000);
 
   it('a device added to the domino cell (1,260 copies, over what an edit may patch): the full analysis starts from the design built from the previous one, and its findings and a hover are a fresh analysis\'s', async () => {
     const edited = current.replace(/^(Mkp dyn out.*)$/m, '$1\nMx dyn clk vdd vdd bp w=0.1u l=0.1u');
     expect(edited).not.toBe(current);
-    const expected = engineFindings(file, edited);
-    const answered = client.diagnosticsFor(uri, (p) => published(p).join('\n') === expected.join('\n'));
-    await client.change(uri, edited, 80);
-    expect(published(await answered)).toEqual(expected);
+    await changeSettlesAsFresh(edited, 80);
     current = edited;
-    const line = edited.split('\n').findIndex((l) => l.startsWith('Mx dyn'));
-    const position = { line, character: 4 };
-    const hover = (await client.conn.sendRequest('textDocument/hover', { textDocument: { uri }, position })) as { contents: { value: string } } | null;
-    const fresh = analyse(memoryHost({ [file]: edited }), file);
-    const spot = locate(fresh.deck.files.find((x) => x.file === file)!, position);
-    expect(spot?.kind).toBe('net');
-    expect(hover?.contents.value).toBe(netHover(fresh, file, spot as Extract<NonNullable<typeof spot>, { kind: 'net' }>));
+    await hoverIsFresh(edited, { line: edited.split('\n').findIndex((l) => l.startsWith('Mx dyn')), character: 4 });
     expect(client.proc.exitCode).toBeNull();
   }, 120_000);
 
   it('the supply\'s volts edited: answered from the previous analysis (phases and classification kept, every estimate redone), with a fresh analysis\'s findings and hover', async () => {
     const edited = current.replace(/^vdd vdd 0 1\.0$/m, 'vdd vdd 0 0.9');
     expect(edited).not.toBe(current);
-    const expected = engineFindings(file, edited);
-    const answered = client.diagnosticsFor(uri, (p) => published(p).join('\n') === expected.join('\n'));
-    await client.change(uri, edited, 90);
-    expect(published(await answered)).toEqual(expected);
+    await changeSettlesAsFresh(edited, 90);
     current = edited;
-    const line = edited.split('\n').findIndex((l) => l.startsWith('Mpre dyn'));
-    const position = { line, character: 6 };
-    const hover = (await client.conn.sendRequest('textDocument/hover', { textDocument: { uri }, position })) as { contents: { value: string } } | null;
-    const fresh = analyse(memoryHost({ [file]: edited }), file);
-    const spot = locate(fresh.deck.files.find((x) => x.file === file)!, position);
-    expect(hover?.contents.value).toBe(netHover(fresh, file, spot as Extract<NonNullable<typeof spot>, { kind: 'net' }>));
+    await hoverIsFresh(edited, { line: edited.split('\n').findIndex((l) => l.startsWith('Mpre dyn')), character: 6 });
     expect(client.proc.exitCode).toBeNull();
   }, 120_000);
 

@@ -13,7 +13,7 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { analyse, readDeck, reanalyse } from '../server/src/engine';
 import { memoryHost, type FileHost } from '../server/src/core/host';
-import { overlay } from './support/edits';
+import { overlay, scaleNumber, type NumberSpot } from './support/edits';
 import { checkRandomEdits, same } from './support/sameAnalysis';
 import { hierarchicalNetlist } from '../scripts/netlists';
 
@@ -22,8 +22,8 @@ const LIBRARY = path.join(SAMPLES, 'models', 'tern45.lib');
 const FACTORS = [0.5, 0.8, 0.97, 1.25, 2, 10];
 
 /** Where the plain numbers on `.param` and `.model` cards (and their continuation lines) are. */
-function cardValues(lines: string[]): Array<{ line: number; start: number; end: number; value: number }> {
-  const out: Array<{ line: number; start: number; end: number; value: number }> = [];
+function cardValues(lines: string[]): NumberSpot[] {
+  const out: NumberSpot[] = [];
   let onCard = false;
   lines.forEach((l, i) => {
     const head = l.trimStart().toLowerCase();
@@ -37,22 +37,15 @@ function cardValues(lines: string[]): Array<{ line: number; start: number; end: 
   return out;
 }
 
-/** One value on a card scaled by a factor (its unit suffix, if any, kept). */
+/** One such number scaled by a factor (its unit suffix kept). */
 function editValue(text: string, pick: number, factor: number): string {
-  const lines = text.split('\n');
-  const spots = cardValues(lines);
-  if (spots.length === 0) return text;
-  const s = spots[pick % spots.length]!;
-  const next = Number((s.value * FACTORS[factor % FACTORS.length]!).toPrecision(4));
-  const l = lines[s.line]!;
-  lines[s.line] = l.slice(0, s.start) + String(next) + l.slice(s.end);
-  return lines.join('\n');
+  return scaleNumber(text, cardValues, pick, FACTORS[factor % FACTORS.length]!);
 }
 
 /** A size on a MOSFET line, or a parameter on an instance line, written as an expression of its value. */
 function editElementValue(text: string, pick: number, factor: number): string {
   const lines = text.split('\n');
-  const spots: Array<{ line: number; start: number; end: number; value: number }> = [];
+  const spots: NumberSpot[] = [];
   lines.forEach((l, i) => {
     if (!/^[mx]/i.test(l.trim())) return;
     for (const m of l.matchAll(/\b(w|l)=(-?\d+(?:\.\d+)?(?:e[-+]?\d+)?)u(?![\w.])/gi)) {

@@ -17,3 +17,23 @@ export function report(file: string, r: AnalysisResult): unknown {
   addToReport(rep, file, r, { allNodes: true });
   return JSON.parse(JSON.stringify(rep));
 }
+
+/** Where a number sits on a line of a text, and its value (a unit suffix after it is kept). */
+export interface NumberSpot {
+  line: number;
+  start: number;
+  end: number;
+  value: number;
+}
+
+/** One of the numbers `find` picks out of the text's lines, scaled by a factor (four significant digits). */
+export function scaleNumber(text: string, find: (lines: string[]) => NumberSpot[], pick: number, factor: number): string {
+  const lines = text.split('\n');
+  const spots = find(lines);
+  if (spots.length === 0) return text;
+  const s = spots[pick % spots.length]!;
+  const next = Number((s.value * factor).toPrecision(4));
+  const l = lines[s.line]!;
+  lines[s.line] = l.slice(0, s.start) + String(next) + l.slice(s.end);
+  return lines.join('\n');
+}
