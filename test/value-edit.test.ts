@@ -21,13 +21,13 @@ const SAMPLES = path.join(__dirname, '..', 'samples');
 const LIBRARY = path.join(SAMPLES, 'models', 'tern45.lib');
 const FACTORS = [0.5, 0.8, 0.97, 1.25, 2, 10];
 
-/** Where the plain numbers on `.param` and `.model` cards (and their continuation lines) are. */
+/** Where the plain numbers on `.param`, `.model` and `.subckt` lines (and their continuation lines) are. */
 function cardValues(lines: string[]): NumberSpot[] {
   const out: NumberSpot[] = [];
   let onCard = false;
   lines.forEach((l, i) => {
     const head = l.trimStart().toLowerCase();
-    onCard = head.startsWith('+') ? onCard : /^\.(param|params|model)\b/.test(head);
+    onCard = head.startsWith('+') ? onCard : /^\.(param|params|model|subckt)\b/.test(head);
     if (!onCard) return;
     for (const m of l.matchAll(/=\s*(-?\d+(?:\.\d+)?(?:e[-+]?\d+)?)(?![\d.e])/gi)) {
       const start = m.index! + m[0].length - m[1]!.length;
@@ -152,6 +152,8 @@ describe('values on parameter and model cards reuse the previous analysis and eq
         ['w={wn}', 'w={wn*1.5}'],
         ['cinv w={wp}', 'cinv w={wp*2}'],
         ['w=0.15u l={lk}', 'w=0.15u l={lk*2}'],
+        // a default on the subcircuit line (every instance that does not set it)
+        ['vss w=1u', 'vss w=1.4u'],
       ],
     ],
     [

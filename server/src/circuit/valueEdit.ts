@@ -1,9 +1,9 @@
 // The elaboration stage's answer to an edit of parameter and model cards: when every edited
 // statement is a `.model` card whose values are plain numbers (same name, type and bin bounds),
 // the devices on each card take the new one, with no elaboration. Otherwise, when every edited
-// statement is a `.param` or `.model` card, or a MOSFET or instance line whose `name=value`
-// parameters took other values (an expression, an instance parameter: plain-number sizes are
-// circuit/patch.ts's), that stays on its lines, every cell's values are worked out again (once
+// statement is a `.param` or `.model` card, a `.subckt` line's defaults, or a MOSFET or instance
+// line whose `name=value` parameters took other values (an expression, an instance parameter:
+// plain-number sizes are circuit/patch.ts's), that stays on its lines, every cell's values are worked out again (once
 // per parameter set) and laid over the previous circuits (elaborate `revalue`), the edited
 // element lines' devices and instances taking the lines' new extents. When only MOSFET sizes, models or model cards differ (every net, connection,
 // source, passive value, directive and line the same), the previous circuit is kept with those
@@ -42,19 +42,23 @@ export function reelaborateValues(previousDeck: Deck, previous: Design, deck: De
     // on the same lines, so that nothing after it moves
     if (before.range.start.line !== after.range.start.line || before.range.end.line !== after.range.end.line || before.range.start.character !== after.range.start.character) return undefined;
     if (CARD_HEADS.has(head)) return { file, before, after, element: false };
-    // a MOSFET or instance line whose parameters took other values (an expression, an instance parameter)
+    // a subcircuit's defaults, or a MOSFET or instance line whose parameters took other values
+    // (an expression, an instance parameter)
+    if (head === '.subckt') return onlyParameterValues(before, after) ? { file, before, after, element: false } : undefined;
     return (head[0] === 'm' || head[0] === 'x') && onlyParameterValues(before, after) ? { file, before, after, element: true } : undefined;
   });
   if (!edited || edited.length === 0) return undefined;
   // model cards with plain numbers: the cards are replaced, with no elaboration
-  const replaced = edited.every((e) => !e.element) ? replaceModelCards(previous, edited, previousFrontEnd) : undefined;
+  const replaced = edited.every((e) => CARD_HEADS.has(e.before.head.text.toLowerCase())) ? replaceModelCards(previous, edited, previousFrontEnd) : undefined;
   if (replaced) return replaced;
   // the values of every cell worked out again and laid over the previous circuits (elaborate
   // revalue): nets, connections, passive values and sources must come out the same
   const revalued = revalue(deck, previous, options);
   if (!revalued || !sameDesignFacts(previous, revalued.design)) return undefined;
-  const lines = edited.filter((e) => e.element && !sameRange(e.before.range, e.after.range, 0));
-  const design = lines.length ? withLineExtents(revalued.design, lines) : revalued.design;
+  // element and subcircuit lines whose extent changed: what was written on them moves with them
+  const lines = edited.filter((e) => !CARD_HEADS.has(e.before.head.text.toLowerCase()) && !sameRange(e.before.range, e.after.range, 0));
+  const elements = lines.filter((e) => e.element);
+  const design = elements.length ? withLineExtents(revalued.design, elements) : revalued.design;
   return { design, changed: revalued.changed, frontEnd: [...deck.diagnostics, ...revalued.diagnostics], moved: lines.map((e) => ({ file: e.file, from: e.before.range, to: e.after.range })) };
 }
 
