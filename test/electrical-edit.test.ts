@@ -19,7 +19,7 @@ import { hierarchicalNetlist } from '../scripts/netlists';
 
 const FACTORS = [0.5, 0.8, 0.97, 1.1, 1.25, 2, 3];
 const SOURCE_LINE = /^\s*[vi]\S*\s+\S+\s+\S+\s/i;
-const DIRECTIVE_LINE = /^\s*\*\s*tidemark:\s*(clock|standby|budget|temps)\b/i;
+const DIRECTIVE_LINE = /^\s*\*\s*tidemark:\s*(clock|standby|budget|temps|supply)\b/i;
 
 /** Where the numbers are on source lines (after the nodes) and on those directives' lines. */
 function electricalValues(lines: string[]): NumberSpot[] {
@@ -102,6 +102,7 @@ describe('supply, clock, budget and corner values reuse the classification and e
       ['a tighter budget', text.replace('budget 12%', 'budget 5%'), true],
       ['a budget in volts', text.replace('budget 12%', 'budget 0.08V'), true],
       ['a hotter corner', text.replace('temps 25 110', 'temps 25 125'), true],
+      ['a supply declared by a directive at another volts', text.replace('* tidemark: budget 12%', '* tidemark: budget 12%\n* tidemark: supply vdd=1.05'), false],
       ['the budget line taken out (the default budget)', text.replace('* tidemark: budget 12%\n', ''), true],
       ['a budget line put in at the top', text.replace('\n', '\n* tidemark: budget 9%\n'), true],
       // declined: the supply to 0 V makes it a ground; one clock at another period changes the phases
@@ -113,6 +114,16 @@ describe('supply, clock, budget and corner values reuse the classification and e
       const host = memoryHost({ [file]: edited });
       const fast = reanalyse(before, readDeck(host, file));
       expect(fast !== undefined, what).toBe(answered);
+      if (fast) same(file, fast, analyse(host, file));
+    }
+    // the supply declared by a directive instead of a source: its volts edited there
+    const declared = text.replace('vdd vdd 0 1.0\n', '').replace('* tidemark: budget 12%', '* tidemark: budget 12%\n* tidemark: supply vdd=1.0');
+    expect(declared).toContain('supply vdd=1.0');
+    const beforeDeclared = analyse(memoryHost({ [file]: declared }), file);
+    for (const [edited, answered] of [[declared.replace('supply vdd=1.0', 'supply vdd=1.2'), true], [declared.replace('supply vdd=1.0', 'supply vdd=0'), false]] as const) {
+      const host = memoryHost({ [file]: edited });
+      const fast = reanalyse(beforeDeclared, readDeck(host, file));
+      expect(fast !== undefined, edited.includes('vdd=0') ? 'the directive supply at 0 V' : 'the directive supply at 1.2 V').toBe(answered);
       if (fast) same(file, fast, analyse(host, file));
     }
     expect(total).toBeGreaterThan(40);

@@ -1,8 +1,9 @@
 // The elaboration stage's answer to an edit that changes only settings the electrical estimates
 // read for the whole circuit: the values of voltage and current sources written as plain numbers
-// (a supply's volts, a clock's edges and period) and the `budget`, `temps`, `clock` and `standby`
-// directives' values. Every net, device and connection stays; the sources take their new
-// waveforms, each supply set by a source its new volts, and the design its new directives.
+// (a supply's volts, a clock's edges and period) and the `budget`, `temps`, `clock`, `standby`
+// and `supply` directives' values. Every net, device and connection stays; the sources take
+// their new waveforms, each supply set by a source or a directive its new volts, and the design
+// its new directives.
 // Whether the phases keep their pattern (so that the classification stands) is the engine's
 // question; this answers undefined for an edit of any other kind, one that could make a net a
 // rail or take that away (a supply's volts to or from zero, a DC source turned into a pulse),
@@ -22,7 +23,7 @@ import { parseSpiceNumber } from './numbers';
 import { shiftDiagnostics, shiftedDesign, type LineShift } from './splice';
 
 /** Directives whose values the estimates read for the whole circuit, and nothing else does. */
-const ELECTRICAL_VERBS = new Set(['budget', 'temps', 'clock', 'standby']);
+const ELECTRICAL_VERBS = new Set(['budget', 'temps', 'clock', 'standby', 'supply']);
 
 interface EditedSource {
   file: string;
@@ -72,7 +73,7 @@ export function electricalEdit(previousDeck: Deck, previous: Design, deck: Deck,
   for (const c of previous.circuits) {
     const next = withSources(c, sources);
     if (!next) return undefined;
-    circuits.push(next);
+    circuits.push(directivesChanged ? withDirectiveSupplies(next, directives) : next);
   }
   // a source edited in a cell no circuit uses changes nothing; one used nowhere is still read as the elaborator reads it
   return { design: { ...previous, circuits, directives } };
@@ -94,7 +95,9 @@ export function electricalDirectiveLines(previousDeck: Deck, previous: Design, d
   if (previousFrontEnd.some((f) => f.file === x.file && oldLines.has(f.range.start.line))) return undefined;
   const shifted = shiftedDesign(previous, shift);
   const directives = rereadDirectives(deck, shifted.directives);
-  return directives && { design: { ...shifted, directives }, shift, frontEnd: shiftDiagnostics([...previousFrontEnd], shift) };
+  if (!directives) return undefined;
+  const circuits = shifted.circuits.map((c) => withDirectiveSupplies(c, directives));
+  return { design: { ...shifted, circuits, directives }, shift, frontEnd: shiftDiagnostics([...previousFrontEnd], shift) };
 }
 
 /** Two directive lines of one verb on the same lines, with as many words. */
@@ -144,6 +147,21 @@ function withSources(c: Circuit, edited: EditedSource[]): Circuit | undefined {
   if (!dcChanged) return { ...c, sources: list };
   const supplies = suppliesFrom(c, list);
   return supplies && { ...c, sources: list, supplies };
+}
+
+/**
+ * The supplies a `supply` directive sets at the volts it now gives: the first directive naming
+ * the net, as elaborate assignRails takes it (whether a net is a supply or a ground, by a volts
+ * of zero, is the same: rereadDirectives holds it).
+ */
+function withDirectiveSupplies(c: Circuit, directives: DirectiveSet): Circuit {
+  let out: Supply[] | undefined;
+  c.supplies.forEach((s, i) => {
+    if (s.from !== 'directive') return;
+    const d = directives.supplies.find((x) => c.netByName.get(x.net.toLowerCase()) === s.net);
+    if (d && d.volts !== s.volts) (out ??= c.supplies.slice())[i] = { ...s, volts: d.volts };
+  });
+  return out ? { ...c, supplies: out } : c;
 }
 
 /**
@@ -198,6 +216,8 @@ function rereadDirectives(deck: Deck, previous: DirectiveSet): DirectiveSet | un
       tempsC: undefined,
       clocks: d.clocks.map((k) => [k.net, k.inverseOf, k.file, k.range.start.line, k.periodS !== undefined, k.highS !== undefined, k.delayS !== undefined, k.duty !== undefined]),
       standby: d.standby.map((s) => [s.net, s.level, s.file, s.range.start.line]),
+      // a supply's volts may change, but not to or from zero (a ground)
+      supplies: d.supplies.map((s) => [s.net, s.volts === 0, s.file, s.range.start.line]),
     });
   return shape(into) === shape(previous) ? into : undefined;
 }
