@@ -97,6 +97,13 @@ describe('values on parameter and model cards reuse the previous analysis and eq
       const fast = reanalyse(before, readDeck(memoryHost({ [file]: edited }), file));
       expect(fast, 'a length parameter edited is answered from the previous analysis').toBeDefined();
       same(file, fast!, analyse(memoryHost({ [file]: edited }), file));
+      // then a value on the p-channel card: every p-channel device takes it (the cards read
+      // again by that answer must be the ones its devices hold, or none of them would)
+      const card = edited.replace(/^(\.model bp .*)kp=80u/m, '$1kp=85u');
+      expect(card).not.toBe(edited);
+      const next = reanalyse(fast!, readDeck(memoryHost({ [file]: card }), file));
+      expect(next).toBeDefined();
+      same(file, next!, analyse(memoryHost({ [file]: card }), file));
     }
     expect(total).toBeGreaterThan(60);
   }, 120_000);

@@ -297,6 +297,10 @@ class SameCards {
     if (same) this.seen.set(next, old);
     return same;
   }
+  /** The previous card a card read again was found equal to, else the card itself. */
+  kept(next: ModelCard): ModelCard {
+    return this.seen.get(next) ?? next;
+  }
 }
 
 /** Where `revalue`'s walk stands in a previous circuit's lists, and the MOSFETs it replaced. */
@@ -938,7 +942,11 @@ class Elaborator {
       changed.push(walk.changed);
       circuits.push(walk.circuit());
     }
-    return { design: this.finish(circuits), changed, diagnostics: this.diagnostics };
+    const design = this.finish(circuits);
+    // a card read again equal to the one the previous devices keep stands in the design's table
+    // as that one, so that every device's card is the table's (a later card edit finds its devices)
+    const modelCards = new Map([...design.modelCards].map(([k, list]) => [k, list.map((c) => cards.kept(c))]));
+    return { design: { ...design, modelCards }, changed, diagnostics: this.diagnostics };
   }
 
   /** One more element copied (or walked): true when a slice's worth has passed since the last yield. */
