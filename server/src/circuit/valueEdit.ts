@@ -13,14 +13,14 @@
 
 import type { Diagnostic } from '../core/diagnostics';
 import type { EngineOptions } from '../core/options';
-import type { Design, Instance, Mosfet, Origin } from './circuit';
+import { mosfetRecord, type Design, type Instance, type Mosfet, type Origin } from './circuit';
 import type { Deck } from './deck';
 import { revalue } from './elaborate';
 import { readModelCard, type ModelCard } from './models';
 import { parseSpiceNumber } from './numbers';
 import { editedStatements, sameRange } from '../syntax/compare';
 import { startLineOf, type Range } from '../core/source';
-import { lineIndex, setLineIndex } from './elementIndex';
+import { carryElementIndexes, lineIndex, setLineIndex } from './elementIndex';
 import type { Item, Statement } from '../syntax/tree';
 
 export interface ValueEdit {
@@ -161,11 +161,15 @@ function replaceModelCards(previous: Design, edited: ReadonlyArray<{ file: strin
       const m = c.mosfets[k]!;
       const card = m.card && swap.get(m.card);
       if (!card) continue;
-      (mosfets ??= c.mosfets.slice())[k] = { ...m, card };
+      // field by field: a spread copy of a device record takes V8's slow path (circuit mosfetRecord)
+      (mosfets ??= c.mosfets.slice())[k] = mosfetRecord(m.name, m.polarity, m.d, m.g, m.s, m.b, { wM: m.wM, lM: m.lM, m: m.m, nf: m.nf, adM2: m.adM2, asM2: m.asM2, pdM: m.pdM, psM: m.psM, model: m.model, card }, m.origin);
       indices.push(k);
     }
     changed.push(indices);
-    return mosfets ? { ...c, mosfets } : c;
+    if (!mosfets) return c;
+    // every device stays in its place and on its line
+    carryElementIndexes(c.mosfets, mosfets);
+    return { ...c, mosfets };
   });
   return { design: { ...previous, circuits, modelCards }, changed, frontEnd: [...previousFrontEnd] };
 }

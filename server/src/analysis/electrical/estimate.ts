@@ -130,9 +130,12 @@ export function updateEstimates(ctx: ElectricalContext, previous: ReadonlyMap<nu
   // the family's first affected node is solved; the others copy it when they are internal nodes
   const solvedFor = new Map<number, { estimate: NodeEstimate; family?: Family }>();
   const unchangedFamilies = new Set<number>();
-  for (const n of every ? previous.keys() : affected) {
+  // more nodes affected than estimated (an edit of a card every device of a kind reads): walk
+  // the estimated ones in node order and skip the rest, instead of asking the map for each
+  const walk = every ? previous.keys() : affected.length > previous.size ? [...previous.keys()].filter((n) => affectedSet!.has(n)) : affected;
+  for (const n of walk) {
     // the classification did not change, so neither did which nodes have an estimate
-    if (!every && !previous.has(n)) continue;
+    if (!every && walk === affected && !previous.has(n)) continue;
     const family = before && before[n]! >= 0 ? before[n]! : undefined;
     const first = family !== undefined && (every || affectedSet!.has(family)) ? solvedFor.get(family) : undefined;
     if (first && unchangedFamilies.has(family!)) {
@@ -165,7 +168,7 @@ export function updateEstimates(ctx: ElectricalContext, previous: ReadonlyMap<nu
       shareOf[n] = -1;
     }
   }
-  const whole = every && ![...changes.values()].includes(undefined);
+  const whole = changes.size === previous.size && ![...changes.values()].includes(undefined);
   const out = whole ? (changes as Map<number, NodeEstimate>) : OverlayMap.over(previous, changes);
   sharedSolves.set(out, shareOf);
   return out;
