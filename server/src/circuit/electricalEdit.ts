@@ -75,15 +75,17 @@ export function electricalEdit(previousDeck: Deck, previous: Design, deck: Deck,
     if (!next) return undefined;
     circuits.push(directivesChanged ? withDirectiveSupplies(next, directives) : next);
   }
-  // a source edited in a cell no circuit uses changes nothing; one used nowhere is still read as the elaborator reads it
+  // (a source line in a cell no circuit instantiates leaves every circuit as it was)
   return { design: { ...previous, circuits, directives } };
 }
 
 /**
- * A `budget`, `temps`, `clock` or `standby` line put in or taken out (or changed) in one file,
- * everything else the same and moved by the edit's line count after it (acceptEdit
- * directiveLinesEdit): the previous design with its lines moved and its directives read again.
- * An edit that keeps the line count is `electricalEdit`'s.
+ * A `budget` or `temps` line put in or taken out in one file (with those and the `supply`,
+ * `clock` and `standby` lines' values changed or not), everything else the same and moved by
+ * the edit's line count after it (acceptEdit directiveLinesEdit): the previous design with its
+ * lines moved and its directives read again. A `supply`, `clock` or `standby` line put in or
+ * taken out names other nets, which rereadDirectives declines. An edit that keeps the line
+ * count is `electricalEdit`'s.
  */
 export function electricalDirectiveLines(previousDeck: Deck, previous: Design, deck: Deck, previousFrontEnd: readonly Diagnostic[]): { design: Design; shift: LineShift; frontEnd: Diagnostic[] } | undefined {
   const isElectrical = (d: DirectiveLine) => ELECTRICAL_VERBS.has(d.verb);
