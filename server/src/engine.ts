@@ -153,13 +153,20 @@ export function reelaborate(previous: AnalysisResult, deck: Deck, options: Engin
     return { deck, design, frontEnd: previous.frontEnd };
   }
   const sp = spliceDevices(previous.deck, previous.design, deck, noLimit, options);
-  if (!sp) return undefined;
+  return sp && splicedFrontEnd(previous, deck, sp) ? { deck, design: sp.design, frontEnd: shiftDiagnostics(previous.frontEnd, sp.shift) } : undefined;
+}
+
+/**
+ * Whether the previous front-end findings carry over a splice, moved with their lines; and which
+ * findings stood on a deleted line. Findings that count devices, quote line numbers or stand on
+ * a deleted line are not moved (undefined), nor are the parse's when they differ from the moved ones.
+ */
+function splicedFrontEnd(previous: AnalysisResult, deck: Deck, sp: DeviceSplice): { onRemoved(d: Diagnostic): boolean } | undefined {
   const gone = sp.removedLines;
   const onRemoved = (d: Diagnostic) => gone !== undefined && d.file === gone.file && d.range.start.line >= gone.from && d.range.start.line <= gone.to;
-  // as afterSplice: findings that count devices, quote line numbers or stand on a deleted line are not moved
   if (previous.frontEnd.some((d) => onRemoved(d) || d.rule === 'duplicate-definition' || d.rule === 'geometry-scale')) return undefined;
   if (JSON.stringify(shiftDiagnostics(previous.deck.diagnostics, sp.shift)) !== JSON.stringify(deck.diagnostics)) return undefined;
-  return { deck, design: sp.design, frontEnd: shiftDiagnostics(previous.frontEnd, sp.shift) };
+  return { onRemoved };
 }
 
 /**
@@ -366,11 +373,9 @@ function widenAnalysis(a: CircuitAnalysis, circuit: Circuit, ins: NetRenumbering
  * the new text's front-end findings.
  */
 function afterSplice(previous: AnalysisResult, deck: Deck, sp: DeviceSplice, options: EngineOptions, frontEnd?: Diagnostic[]): AnalysisResult | undefined {
-  const gone = sp.removedLines;
-  const onRemoved = (d: Diagnostic) => gone !== undefined && d.file === gone.file && d.range.start.line >= gone.from && d.range.start.line <= gone.to;
-  // findings that count devices, quote line numbers or stand on a deleted line are not moved
-  if (previous.frontEnd.some((d) => onRemoved(d) || d.rule === 'duplicate-definition' || d.rule === 'geometry-scale')) return undefined;
-  if (JSON.stringify(shiftDiagnostics(previous.deck.diagnostics, sp.shift)) !== JSON.stringify(deck.diagnostics)) return undefined;
+  const carried = splicedFrontEnd(previous, deck, sp);
+  if (!carried) return undefined;
+  const { onRemoved } = carried;
   const move = (list: Diagnostic[]) => shiftDiagnostics(list, sp.shift);
   const circuits: CircuitAnalysis[] = [];
   for (let i = 0; i < previous.circuits.length; i++) {

@@ -9,8 +9,8 @@ import { startLineOf } from '../core/source';
 import type { DirectiveLine, SyntaxFile } from '../syntax/tree';
 import { sameRange, sameStatement } from '../syntax/compare';
 import type { Design } from './circuit';
-import type { Deck, SubcktDefinition } from './deck';
-import { emptyDirectives, readDirectives } from './directives';
+import type { Deck } from './deck';
+import { emptyDirectives, readDeckDirectives } from './directives';
 import { oneChangedFile, shiftDiagnostics, shiftedDesign, shiftRanges, type LineShift } from './splice';
 
 export interface AcceptEdit {
@@ -29,16 +29,7 @@ export function acceptEdit(previousDeck: Deck, previous: Design, deck: Deck, pre
   // the accepts read again, in the elaborator's order (the top level's, then each definition's)
   const into = emptyDirectives();
   const found: Diagnostic[] = [];
-  readDirectives(deck.directives.filter((l) => isAccept(l.item)), into, found);
-  const collect = (defs: Map<string, SubcktDefinition>) => {
-    for (const def of defs.values()) {
-      const before = into.accepts.length;
-      readDirectives(def.directives.filter((l) => isAccept(l.item)), into, found);
-      for (let i = before; i < into.accepts.length; i++) into.accepts[i]!.subckt = def.name;
-      collect(def.local);
-    }
-  };
-  collect(deck.subckts);
+  readDeckDirectives(deck, into, found, isAccept);
   const shifted = shiftedDesign(previous, shift);
   const design: Design = { ...shifted, directives: { ...shifted.directives, accepts: into.accepts } };
   // the old accept lines' findings (a malformed accept) give way to the new lines'

@@ -7,6 +7,7 @@ import type { Range } from '../core/source';
 import type { DirectiveLine } from '../syntax/tree';
 import { parseSpiceNumber } from './numbers';
 import type { EngineOptions } from '../core/options';
+import type { Deck, SubcktDefinition } from './deck';
 
 export type DeviceKind = 'nmos' | 'pmos' | 'diode' | 'short' | 'resistor' | 'capacitor';
 
@@ -186,4 +187,23 @@ export function readDirectives(lines: { file: string; item: DirectiveLine }[], i
         bad(`unknown tidemark directive '${item.verb}'; known: ${DIRECTIVE_VERBS.join(', ')}`);
     }
   }
+}
+
+/**
+ * A deck's directives (those `pick` takes) read into `into` as the elaborator reads them: the
+ * top level's, then each definition's, nested ones after their parent's. An `accept` written
+ * inside a subcircuit names the node as the cell knows it, so it is marked with the cell.
+ */
+export function readDeckDirectives(deck: Deck, into: DirectiveSet, out: Diagnostic[], pick: (d: DirectiveLine) => boolean = () => true): void {
+  const picked = (lines: Deck['directives']) => (lines.every((l) => pick(l.item)) ? lines : lines.filter((l) => pick(l.item)));
+  readDirectives(picked(deck.directives), into, out);
+  const collect = (defs: Map<string, SubcktDefinition>) => {
+    for (const d of defs.values()) {
+      const before = into.accepts.length;
+      readDirectives(picked(d.directives), into, out);
+      for (let i = before; i < into.accepts.length; i++) into.accepts[i]!.subckt = d.name;
+      collect(d.local);
+    }
+  };
+  collect(deck.subckts);
 }

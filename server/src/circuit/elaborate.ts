@@ -12,7 +12,7 @@ import type { AssignItem, Statement, ValueItem, WordItem } from '../syntax/tree'
 import type { Circuit, Design, Instance, Mosfet, Net, NetKind, Origin, Polarity, Port, PortDirection, Waveform } from './circuit';
 import { mosfetRecord } from './circuit';
 import type { Deck, Located, SubcktDefinition } from './deck';
-import { emptyDirectives, readDirectives, roleNames, type DeviceKind, type DirectiveSet } from './directives';
+import { emptyDirectives, readDeckDirectives, roleNames, type DeviceKind, type DirectiveSet } from './directives';
 import { interpretElement, MODELLED_LETTERS, splitItems, type ElementSyntax, type WaveformSyntax } from './elements';
 import { readModelCard, selectModel, type ModelCard } from './models';
 import { evaluateValue, ParamScope } from './params';
@@ -418,17 +418,7 @@ class Elaborator {
   private *prepare(): Steps<void> {
     const deck = this.deck;
     // Directives anywhere in the deck apply to the whole design.
-    // An `accept` written inside a subcircuit names the node as the cell knows it (every instance).
-    readDirectives(deck.directives, this.directives, this.diagnostics);
-    const collect = (defs: Map<string, SubcktDefinition>) => {
-      for (const d of defs.values()) {
-        const before = this.directives.accepts.length;
-        readDirectives(d.directives, this.directives, this.diagnostics);
-        for (let i = before; i < this.directives.accepts.length; i++) this.directives.accepts[i]!.subckt = d.name;
-        collect(d.local);
-      }
-    };
-    collect(deck.subckts);
+    readDeckDirectives(deck, this.directives, this.diagnostics);
     for (const r of this.directives.devices) this.deviceRules.push({ re: globToRegExp(r.pattern), kind: r.kind });
     for (const r of this.options.deviceRules ?? []) this.deviceRules.push({ re: globToRegExp(r.pattern), kind: r.kind });
     this.deviceRules.push(...DEFAULT_DEVICE_RULES);

@@ -14,9 +14,9 @@ import type { Diagnostic } from '../core/diagnostics';
 import { sameStatement } from '../syntax/compare';
 import type { DirectiveLine, Statement, ValueItem } from '../syntax/tree';
 import type { Circuit, Design, Origin, Source, Supply, Waveform } from './circuit';
-import type { Deck, SubcktDefinition } from './deck';
+import type { Deck } from './deck';
 import { directiveLinesEdit } from './acceptEdit';
-import { emptyDirectives, readDirectives, type DirectiveSet } from './directives';
+import { emptyDirectives, readDeckDirectives, type DirectiveSet } from './directives';
 import { waveformOf } from './elaborate';
 import { interpretElement } from './elements';
 import { parseSpiceNumber } from './numbers';
@@ -199,16 +199,7 @@ function suppliesFrom(c: Circuit, sources: readonly Source[]): Supply[] | undefi
 function rereadDirectives(deck: Deck, previous: DirectiveSet): DirectiveSet | undefined {
   const into = emptyDirectives();
   const found: Diagnostic[] = [];
-  readDirectives(deck.directives, into, found);
-  const collect = (defs: Map<string, SubcktDefinition>) => {
-    for (const d of defs.values()) {
-      const before = into.accepts.length;
-      readDirectives(d.directives, into, found);
-      for (let i = before; i < into.accepts.length; i++) into.accepts[i]!.subckt = d.name;
-      collect(d.local);
-    }
-  };
-  collect(deck.subckts);
+  readDeckDirectives(deck, into, found);
   if (found.length) return undefined;
   if (into.budget?.receiver) return undefined;
   const shape = (d: DirectiveSet) =>

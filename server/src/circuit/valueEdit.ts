@@ -3,13 +3,14 @@
 // the devices on each card take the new one, with no elaboration. Otherwise, when every edited
 // statement is a `.param` or `.model` card, a `.subckt` line's defaults, or a MOSFET or instance
 // line whose `name=value` parameters took other values (an expression, an instance parameter:
-// plain-number sizes are circuit/patch.ts's), that stays on its lines, every cell's values are worked out again (once
-// per parameter set) and laid over the previous circuits (elaborate `revalue`), the edited
-// element lines' devices and instances taking the lines' new extents. When only MOSFET sizes, models or model cards differ (every net, connection,
-// source, passive value, directive and line the same), the previous circuit is kept with those
-// devices replaced, as after a size edit. Anything else (a
-// supply, clock, capacitor or resistor that follows the parameter, a geometry scale that moved)
-// answers `undefined`, and the caller analyses afresh.
+// plain-number sizes are circuit/patch.ts's), that stays on its lines, every cell's values are
+// worked out again (once per parameter set) and laid over the previous circuits (elaborate
+// `revalue`), the edited element lines' devices and instances taking the lines' new extents.
+// When only MOSFET sizes, models or model cards differ (every net, connection, source, passive
+// value, directive and line the same), the previous circuit is kept with those devices
+// replaced, as after a size edit. Anything else (a supply, clock, capacitor or resistor that
+// follows the parameter, a geometry scale that moved) answers `undefined`, and the caller
+// analyses afresh.
 
 import type { Diagnostic } from '../core/diagnostics';
 import type { EngineOptions } from '../core/options';
@@ -41,23 +42,23 @@ export function reelaborateValues(previousDeck: Deck, previous: Design, deck: De
     if (head !== after.head.text.toLowerCase()) return undefined;
     // on the same lines, so that nothing after it moves
     if (before.range.start.line !== after.range.start.line || before.range.end.line !== after.range.end.line || before.range.start.character !== after.range.start.character) return undefined;
-    if (CARD_HEADS.has(head)) return { file, before, after, element: false };
+    if (CARD_HEADS.has(head)) return { file, before, after, kind: 'card' as const };
     // a subcircuit's defaults, or a MOSFET or instance line whose parameters took other values
     // (an expression, an instance parameter)
-    if (head === '.subckt') return onlyParameterValues(before, after) ? { file, before, after, element: false } : undefined;
-    return (head[0] === 'm' || head[0] === 'x') && onlyParameterValues(before, after) ? { file, before, after, element: true } : undefined;
+    if (head === '.subckt') return onlyParameterValues(before, after) ? { file, before, after, kind: 'subckt' as const } : undefined;
+    return (head[0] === 'm' || head[0] === 'x') && onlyParameterValues(before, after) ? { file, before, after, kind: 'element' as const } : undefined;
   });
   if (!edited || edited.length === 0) return undefined;
   // model cards with plain numbers: the cards are replaced, with no elaboration
-  const replaced = edited.every((e) => CARD_HEADS.has(e.before.head.text.toLowerCase())) ? replaceModelCards(previous, edited, previousFrontEnd) : undefined;
+  const replaced = edited.every((e) => e.kind === 'card') ? replaceModelCards(previous, edited, previousFrontEnd) : undefined;
   if (replaced) return replaced;
   // the values of every cell worked out again and laid over the previous circuits (elaborate
   // revalue): nets, connections, passive values and sources must come out the same
   const revalued = revalue(deck, previous, options);
   if (!revalued || !sameDesignFacts(previous, revalued.design)) return undefined;
   // element and subcircuit lines whose extent changed: what was written on them moves with them
-  const lines = edited.filter((e) => !CARD_HEADS.has(e.before.head.text.toLowerCase()) && !sameRange(e.before.range, e.after.range, 0));
-  const elements = lines.filter((e) => e.element);
+  const lines = edited.filter((e) => e.kind !== 'card' && !sameRange(e.before.range, e.after.range, 0));
+  const elements = lines.filter((e) => e.kind === 'element');
   const design = elements.length ? withLineExtents(revalued.design, elements) : revalued.design;
   return { design, changed: revalued.changed, frontEnd: [...deck.diagnostics, ...revalued.diagnostics], moved: lines.map((e) => ({ file: e.file, from: e.before.range, to: e.after.range })) };
 }
@@ -111,7 +112,8 @@ function withLineExtents(design: Design, lines: ReadonlyArray<{ file: string; be
       for (const k of index.get(startLineOf(e.before.range)) ?? []) {
         const m = c.mosfets[k]!;
         const o = next(m.origin);
-        if (o) (mosfets ??= c.mosfets.slice())[k] = { ...m, origin: o };
+        // field by field: a spread copy of a device record takes V8's slow path (circuit mosfetRecord)
+        if (o) (mosfets ??= c.mosfets.slice())[k] = mosfetRecord(m.name, m.polarity, m.d, m.g, m.s, m.b, m, o);
       }
     }
     // every device stays on its line
