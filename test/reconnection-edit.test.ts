@@ -60,6 +60,58 @@ describe('reconnections reuse the previous analysis and equal a fresh one', () =
   }, 120_000);
 });
 
+describe('a reconnection reaches the witness checks that read the rebuilt group, however deep', () => {
+  // the evaluate stack reads a and a copy of it inverted three gates back (a, i1, i2, ab): the
+  // check of dyn traces through all three inverters, so it knows the stack never conducts. The
+  // middle inverter's input moved to b breaks that: dyn's check must be done again, though
+  // the middle inverter's group is two gate levels from it (reclassify finds it from the record
+  // of the groups each check read, not by gate levels)
+  const file = '/chain.sp';
+  const text = [
+    '* a dynamic node reading a and its inverted copy',
+    '* tidemark: input a b',
+    'vdd vdd 0 1.0',
+    'vclk clk 0 PULSE(0 1 0 10p 10p 0.49n 1n)',
+    'Mpre dyn clk vdd vdd pch w=0.6u l=0.1u',
+    'Mna dyn a n1 0 nch w=0.6u l=0.1u',
+    'Mnb n1 ab foot 0 nch w=0.6u l=0.1u',
+    'Mft foot clk 0 0 nch w=0.8u l=0.1u',
+    'M4n bb b 0 0 nch w=0.3u l=0.1u',
+    'M4p bb b vdd vdd pch w=0.6u l=0.1u',
+    'Mon out dyn 0 0 nch w=0.3u l=0.1u',
+    'Mop out dyn vdd vdd pch w=0.6u l=0.1u',
+    'M1n i1 a 0 0 nch w=0.3u l=0.1u',
+    'M1p i1 a vdd vdd pch w=0.6u l=0.1u',
+    'M2n i2 i1 0 0 nch w=0.3u l=0.1u',
+    'M2p i2 i1 vdd vdd pch w=0.6u l=0.1u',
+    'M3n ab i2 0 0 nch w=0.3u l=0.1u',
+    'M3p ab i2 vdd vdd pch w=0.6u l=0.1u',
+    '.model nch nmos level=1',
+    '.model pch pmos level=1',
+    '.end',
+  ].join('\n');
+  const stateOfDyn = (r: ReturnType<typeof analyse>) => {
+    const a = r.circuits[0]!;
+    const dyn = a.circuit.netByName.get('dyn')!;
+    return a.classification.perPhase.map((m) => m.get(dyn)?.state ?? 'driven').join(' ');
+  };
+  it('the middle inverter moved to another input', () => {
+    const before = analyse(memoryHost({ [file]: text }), file);
+    expect(stateOfDyn(before)).toContain('floating');
+    const edited = text.replace('M2n i2 i1 ', 'M2n i2 b ').replace('M2p i2 i1 ', 'M2p i2 b ');
+    const fast = reanalyse(before, readDeck(memoryHost({ [file]: edited }), file));
+    expect(fast, 'a reconnection').toBeDefined();
+    const fresh = analyse(memoryHost({ [file]: edited }), file);
+    expect(stateOfDyn(fresh)).not.toBe(stateOfDyn(before));
+    expect(stateOfDyn(fast!)).toBe(stateOfDyn(fresh));
+    same(file, fast!, fresh);
+    // and back
+    const back = reanalyse(fast!, readDeck(memoryHost({ [file]: text }), file));
+    expect(back).toBeDefined();
+    same(file, back!, before);
+  });
+});
+
 describe('reconnections to a new net name reuse the previous analysis and equal a fresh one', () => {
   const toNew = (file: string, original: string, hostFor: (t: string) => FileHost, runs: number) =>
     checkRandomEdits(file, original, hostFor, runs, 23, [fc.nat(5000), fc.nat(90)], (t, [pick, tag]) => reconnectToNewNet(t, pick!, tag!));

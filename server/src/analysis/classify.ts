@@ -49,6 +49,12 @@ export interface Classification {
   uncheckedComponents: number;
   /** Per phase, by component id: WIDE and UNCHECKED bits (what the two counts are made of). */
   componentFlags: Uint8Array[];
+  /**
+   * Per phase, by component id: the other groups its check looked into (traced through, or
+   * read the gates of), when it did; for `reclassify` to find the checks an edit reaches.
+   * Absent on a classification made some other way (reclassify then reads back by gate levels).
+   */
+  groupsRead?: Array<ReadonlyArray<Int32Array | undefined>>;
 }
 
 const WIDE = 1;
@@ -170,7 +176,7 @@ interface Trace {
   dependsOnState: Set<number>;
 }
 
-function trace(net: SwitchNetwork, comp: Component, free: number[], values: Uint8Array, depth: number): Trace {
+function trace(net: SwitchNetwork, comp: Component, free: number[], values: Uint8Array, depth: number, reads: GroupsRead): Trace {
   const leaves: number[] = [];
   const leafKind: Trace['leafKind'] = [];
   const leafOf = new Map<number, number>();
@@ -199,6 +205,7 @@ function trace(net: SwitchNetwork, comp: Component, free: number[], values: Uint
       return true;
     }
     if (expanded.has(g)) return dependsOnState.has(g);
+    reads.add(cid);
     const d2 = net.components[cid]!;
     // gates that are nodes of the same component are computed with it, not leaves
     const dGates = d2.gates.filter((h) => values[h] === X && net.componentOf[h] !== cid);
@@ -232,8 +239,8 @@ export function* classifySteps(net: SwitchNetwork, plan: PhasePlan, how: { twins
   const storage = storageNodes(net);
   const scratch = newScratch(c.nets.length);
   const local = new Int32Array(c.nets.length).fill(-1);
-  const result: Classification = { network: net, plan, perPhase: [], phaseValues: [], storage, wideComponents: 0, uncheckedComponents: 0, componentFlags: [] };
-  const buffers = newBuffers(c.nets.length, how.twins !== false);
+  const result: Classification = { network: net, plan, perPhase: [], phaseValues: [], storage, wideComponents: 0, uncheckedComponents: 0, componentFlags: [], groupsRead: [] };
+  const buffers = newBuffers(c.nets.length, net.components.length, how.twins !== false);
   const due = stepDue();
   for (const phase of plan.phases) {
     const values = propagateConstants(net, phase.clocks, scratch);
@@ -244,15 +251,19 @@ export function* classifySteps(net: SwitchNetwork, plan: PhasePlan, how: { twins
     const work = values.slice();
     const out = new Uint8Array(values.length);
     const pass: PhasePass = { net, values, local, scratch, states, flags, work, out, storage, buffers };
+    const read = new Array<Int32Array | undefined>(net.components.length);
     for (let k = 0; k < net.components.length; k++) {
       const comp = net.components[k]!;
       for (let i = 0; i < comp.nodes.length; i++) local[comp.nodes[i]!] = i;
+      buffers.reads.start();
       classifyComponent(pass, comp);
+      read[k] = buffers.reads.taken();
       if (due()) yield;
     }
     for (let i = 0; i < c.nets.length; i++) if (net.unreachable[i]) states.set(i, { state: 'undriven', exact: true });
     result.perPhase.push(states);
     result.componentFlags.push(flags);
+    result.groupsRead!.push(read);
   }
   countFlags(result);
   witnessMemos.set(result, buffers.witnesses);
@@ -265,8 +276,32 @@ export function* classifySteps(net: SwitchNetwork, plan: PhasePlan, how: { twins
  */
 const witnessMemos = new WeakMap<Classification, Map<string, WitnessMemo>>();
 
-function newBuffers(netCount: number, twins: boolean): Buffers {
-  return { gatePos: new Int32Array(netCount).fill(-1), masks: new Uint8Array(1024), driverId: new Int32Array(64), witnesses: new Map(), twins };
+function newBuffers(netCount: number, groupCount: number, twins: boolean): Buffers {
+  return { gatePos: new Int32Array(netCount).fill(-1), masks: new Uint8Array(1024), driverId: new Int32Array(64), witnesses: new Map(), twins, reads: new GroupsRead(groupCount) };
+}
+
+/** The other groups one check looks into (trace, independentGates), each listed once. */
+class GroupsRead {
+  private readonly stamp: Int32Array;
+  private current = 0;
+  private readonly list: number[] = [];
+  constructor(groups: number) {
+    this.stamp = new Int32Array(groups);
+  }
+  /** Before each group's check. */
+  start(): void {
+    this.current++;
+    this.list.length = 0;
+  }
+  add(id: number): void {
+    if (this.stamp[id] === this.current) return;
+    this.stamp[id] = this.current;
+    this.list.push(id);
+  }
+  /** What the check since `start` looked into, or undefined for nothing. */
+  taken(): Int32Array | undefined {
+    return this.list.length ? Int32Array.from(this.list) : undefined;
+  }
 }
 
 /** The two counts: components wide, or unchecked, in at least one phase. */
@@ -310,9 +345,12 @@ const READ_DEPTH = MAX_TRACE_DEPTH + 1;
 /**
  * The classification after an edit that rebuilt some groups of the network (see
  * patchSwitchNetwork), from the one before it: per phase, the values are propagated again from
- * the rebuilt groups, and only the groups whose check can read something that changed (a
- * rebuilt group, a net whose value or storage flag changed, within READ_DEPTH gate levels back)
- * are checked again; every other group keeps its results, which name the same nets and devices.
+ * the rebuilt groups, and only the groups whose check can read something that changed are
+ * checked again: a rebuilt group, one whose storage flag or reachability changed, one whose
+ * check looked into a rebuilt group (the groups each check read are recorded), and one that can
+ * read a net whose value changed (within READ_DEPTH gate levels back). Every other group keeps
+ * its results, which name the same nets and devices. Without the record of what the checks read,
+ * every group reading a rebuilt one within READ_DEPTH gate levels is checked again.
  * Equal to `classify` on the new network (the tests hold it); undefined when a phase's values
  * cannot be found that way. `changedNets`: the nets whose storage flag, value in some phase or
  * results in some phase differ from before, for the stages after this one.
@@ -323,10 +361,14 @@ export function reclassify(previous: Classification, net: SwitchNetwork, rebuilt
   const scratch = newScratch(c.nets.length);
   const local = new Int32Array(c.nets.length).fill(-1);
   const plan = previous.plan;
-  const result: Classification = { network: net, plan, perPhase: [], phaseValues: [], storage, wideComponents: 0, uncheckedComponents: 0, componentFlags: [] };
-  const buffers = newBuffers(c.nets.length, true);
+  const groupCount = net.components.length;
+  const recorded = previous.groupsRead;
+  const result: Classification = { network: net, plan, perPhase: [], phaseValues: [], storage, wideComponents: 0, uncheckedComponents: 0, componentFlags: [], ...(recorded ? { groupsRead: [] } : {}) };
+  const buffers = newBuffers(c.nets.length, groupCount, true);
   buffers.witnesses = witnessMemos.get(previous) ?? buffers.witnesses;
   const seeds = new Set<number>(rebuilt);
+  const isRebuilt = new Uint8Array(groupCount);
+  for (const id of rebuilt) isRebuilt[id] = 1;
   // nets whose storage flag, value or results may differ (for the stages after this one)
   const changed = new Uint8Array(c.nets.length);
   for (let x = 0; x < c.nets.length; x++) {
@@ -334,6 +376,28 @@ export function reclassify(previous: Classification, net: SwitchNetwork, rebuilt
     changed[x] = 1;
     if (net.componentOf[x]! >= 0) seeds.add(net.componentOf[x]!);
   }
+  // the checks of a group's gated groups read whether it is reachable (independentGates)
+  const wasUnreachable = previous.network.unreachable;
+  for (let x = 0; x < c.nets.length; x++) {
+    if (net.unreachable[x] === wasUnreachable[x]) continue;
+    if (net.componentOf[x]! >= 0) seeds.add(net.componentOf[x]!);
+    for (const g of net.gatedComponents[x]!) seeds.add(g);
+  }
+  // the checks that looked into a rebuilt group, per phase
+  const readers = recorded?.map((read) => {
+    const out: number[] = [];
+    for (let id = 0; id < read.length; id++) {
+      const r = read[id];
+      if (r === undefined || isRebuilt[id]) continue;
+      for (let k = 0; k < r.length; k++) {
+        if (isRebuilt[r[k]!]) {
+          out.push(id);
+          break;
+        }
+      }
+    }
+    return out;
+  });
   for (let p = 0; p < plan.phases.length; p++) {
     const before = previous.phaseValues[p]!;
     const values = repropagateConstants(net, before, rebuilt, scratch);
@@ -344,20 +408,35 @@ export function reclassify(previous: Classification, net: SwitchNetwork, rebuilt
       if (id >= 0 && !dirty[id]) (dirty[id] = 1), queue.push(id);
     };
     for (const id of seeds) mark(id);
-    for (let x = 0; x < values.length; x++) if (values[x] !== before[x]) (changed[x] = 1), mark(net.componentOf[x]!);
-    // groups reading a dirty one through their gates, READ_DEPTH levels on; a check reads no
+    for (const id of readers?.[p] ?? []) mark(id);
+    // the groups followed by gate levels below: with the record, those holding a changed value
+    // (what the rebuilt groups' readers read is known); without it, every dirty one
+    const swept = new Uint8Array(groupCount);
+    let frontier: number[] = [];
+    const sweep = (id: number, into: number[]) => {
+      if (id >= 0 && !swept[id]) (swept[id] = 1), into.push(id);
+    };
+    if (!readers) for (const id of queue) sweep(id, frontier);
+    for (let x = 0; x < values.length; x++) {
+      if (values[x] === before[x]) continue;
+      changed[x] = 1;
+      mark(net.componentOf[x]!);
+      sweep(net.componentOf[x]!, frontier);
+    }
+    // groups reading a swept one through their gates, READ_DEPTH levels on; a check reads no
     // further through a gate that is a constant in the phase (the same one as before)
-    for (let level = 0, start = 0; level < READ_DEPTH; level++) {
-      const end = queue.length;
-      for (let q = start; q < end; q++) {
-        for (const x of net.components[queue[q]!]!.nodes) {
+    for (let level = 0; level < READ_DEPTH; level++) {
+      const next: number[] = [];
+      for (const id of frontier) {
+        for (const x of net.components[id]!.nodes) {
           if (values[x] !== X && values[x] === before[x]) continue;
-          for (const g of net.gatedComponents[x]!) mark(g);
+          for (const g of net.gatedComponents[x]!) mark(g), sweep(g, next);
         }
       }
-      start = end;
+      frontier = next;
     }
     queue.sort((x, y) => x - y);
+
     const old = previous.perPhase[p]!;
     // the dirty groups' results, checked into a map of their own and laid over the old ones
     const states = new Map<number, NodePhaseResult>();
@@ -367,10 +446,15 @@ export function reclassify(previous: Classification, net: SwitchNetwork, rebuilt
     const work = values.slice();
     const out = new Uint8Array(values.length);
     const pass: PhasePass = { net, values, local, scratch, states, flags, work, out, storage, buffers };
+    // what each check reads: the kept groups' as recorded, the dirty ones' anew
+    const read = recorded ? recorded[p]!.slice() : undefined;
+    if (read) read.length = groupCount;
     for (const id of queue) {
       const comp = net.components[id]!;
       for (let i = 0; i < comp.nodes.length; i++) local[comp.nodes[i]!] = i;
+      buffers.reads.start();
       classifyComponent(pass, comp);
+      if (read) read[id] = buffers.reads.taken();
       for (const x of comp.nodes) {
         if (net.unreachable[x]) states.set(x, { state: 'undriven', exact: true });
         if (!changed[x] && !sameResult(old.get(x), states.get(x))) changed[x] = 1;
@@ -393,6 +477,7 @@ export function reclassify(previous: Classification, net: SwitchNetwork, rebuilt
       result.perPhase.push(OverlayMap.extend(old, replaced));
     }
     result.componentFlags.push(flags);
+    if (read) result.groupsRead!.push(read);
   }
   countFlags(result);
   witnessMemos.set(result, buffers.witnesses);
@@ -570,6 +655,8 @@ interface Buffers {
   /** Witness checks done in this pass, by the key of what they read (see witnessKey). */
   witnesses: Map<string, WitnessMemo>;
   twins: boolean;
+  /** The groups the current check looked into. */
+  reads: GroupsRead;
 }
 
 interface WitnessMemo {
@@ -693,7 +780,7 @@ function classifyEnumerated(pass: PhasePass, comp: Component, free: number[]): v
     fromGateEnumeration(net, comp, free, masks, states, free.every((g) => net.role[g] !== NetRole.Internal), storage);
     return;
   }
-  if (independentGates(net, comp, free, values, MAX_TRACE_DEPTH)) {
+  if (independentGates(net, comp, free, values, MAX_TRACE_DEPTH, buffers.reads)) {
     // The free gates depend on disjoint inputs and not on this component: every assignment of
     // them can happen, so the enumeration over the gates is already exact.
     fromGateEnumeration(net, comp, free, masks, states, true, storage);
@@ -703,7 +790,7 @@ function classifyEnumerated(pass: PhasePass, comp: Component, free: number[]): v
   // Check the candidate witnesses against the driving logic, as deep as the leaf budget allows.
   let tr: Trace | undefined;
   for (let depth = MAX_TRACE_DEPTH; depth >= 0; depth--) {
-    const t = trace(net, comp, free, values, depth);
+    const t = trace(net, comp, free, values, depth, buffers.reads);
     if (t.leaves.length <= MAX_LEAVES) {
       tr = t;
       break;
@@ -902,7 +989,7 @@ function fromGateEnumeration(net: SwitchNetwork, comp: Component, free: number[]
  * True when each free gate's logic, traced back `depth` levels, reaches inputs no other free gate
  * reaches and none of the component's own nodes: then the gates are independent variables.
  */
-function independentGates(net: SwitchNetwork, comp: Component, free: number[], values: Uint8Array, depth: number): boolean {
+function independentGates(net: SwitchNetwork, comp: Component, free: number[], values: Uint8Array, depth: number, reads: GroupsRead): boolean {
   const owner = new Map<number, number>();
   // an undriven gate has no value at all: leave it to the full check, which treats it as unknown
   if (free.some((g) => net.unreachable[g])) return false;
@@ -920,6 +1007,7 @@ function independentGates(net: SwitchNetwork, comp: Component, free: number[], v
       const cid = net.componentOf[g]!;
       if (cid === comp.id) return false;
       if (d >= depth) continue;
+      reads.add(cid);
       const d2 = net.components[cid]!;
       for (const n of d2.nodes) {
         if (n === g) continue;
