@@ -277,7 +277,7 @@ export function* classifySteps(net: SwitchNetwork, plan: PhasePlan, how: { twins
 const witnessMemos = new WeakMap<Classification, Map<string, WitnessMemo>>();
 
 function newBuffers(netCount: number, groupCount: number, twins: boolean): Buffers {
-  return { gatePos: new Int32Array(netCount).fill(-1), masks: new Uint8Array(1024), driverId: new Int32Array(64), witnesses: new Map(), twins, reads: new GroupsRead(groupCount) };
+  return { gatePos: new Int32Array(netCount).fill(-1), masks: new Uint8Array(1024), driverId: new Int32Array(64), witnesses: new Map(), twins, reads: new GroupsRead(groupCount), numbering: { at: new Int32Array(netCount), stamps: new Int32Array(netCount), current: 0 } };
 }
 
 /** The other groups one check looks into (trace, independentGates), each listed once. */
@@ -657,6 +657,7 @@ interface Buffers {
   twins: boolean;
   /** The groups the current check looked into. */
   reads: GroupsRead;
+  numbering: KeyNumbering;
 }
 
 interface WitnessMemo {
@@ -664,6 +665,8 @@ interface WitnessMemo {
   nets: number[];
   mosfets: number[];
   results: Array<NodePhaseResult | undefined>;
+  /** Filled in on the first carry in a circuit. */
+  carry?: CarryPlan;
 }
 
 /**
@@ -672,17 +675,18 @@ interface WitnessMemo {
  * kinds, the feedback set, each net's value in the phase and role, and the group's storage
  * flags. Two groups with equal keys get equal results up to that numbering.
  */
-function witnessKey(net: SwitchNetwork, comp: Component, values: Uint8Array, storage: Uint8Array, free: number[], tr: Trace, unchecked: boolean): { key: string; nets: number[]; mosfets: number[] } {
-  const index = new Map<number, number>();
+function witnessKey(net: SwitchNetwork, comp: Component, values: Uint8Array, storage: Uint8Array, free: number[], tr: Trace, unchecked: boolean, numbering: KeyNumbering): { key: string; nets: number[]; mosfets: number[] } {
   const nets: number[] = [];
   const mosfets: number[] = [];
+  // each key numbers the nets afresh: a stamp per net tells this key's numbers from older ones
+  const stamp = ++numbering.current;
+  const { at, stamps } = numbering;
   const code = (x: number): number => {
-    let i = index.get(x);
-    if (i === undefined) {
-      index.set(x, (i = nets.length));
-      nets.push(x);
-    }
-    return i;
+    if (stamps[x] === stamp) return at[x]!;
+    stamps[x] = stamp;
+    at[x] = nets.length;
+    nets.push(x);
+    return nets.length - 1;
   };
   for (const x of comp.nodes) code(x);
   const parts: number[] = [unchecked ? 1 : 0, comp.nodes.length];
@@ -713,22 +717,57 @@ function witnessKey(net: SwitchNetwork, comp: Component, values: Uint8Array, sto
   }
   // one character per part (all are small): much faster to build and hash than decimal text
   let small = parts.length <= 8192;
-  for (const x of parts) if (x < -16 || x > 0xffef) small = false;
-  const key = small ? 'c' + String.fromCharCode(...parts.map((x) => x + 16)) : 'j' + parts.join(',');
+  for (let i = 0; i < parts.length && small; i++) {
+    const x = parts[i]!;
+    if (x < -16 || x > 0xffef) small = false;
+    else parts[i] = x + 16;
+  }
+  const key = small ? 'c' + String.fromCharCode(...parts) : 'j' + parts.join(',');
   return { key, nets, mosfets };
+}
+
+/** A net's number in the key being written, valid where its stamp is the current one. */
+interface KeyNumbering {
+  at: Int32Array;
+  stamps: Int32Array;
+  current: number;
+}
+
+/**
+ * How a memo's results carry to a twin: each name its records quote, each net and each MOSFET
+ * by its position in the memo's lists (the twin's lists have the same positions). Worked out
+ * once per memo and circuit (names are the circuit's), not once per twin.
+ */
+interface CarryPlan {
+  circuit: SwitchNetwork['circuit'];
+  nameAt: Map<string, number>;
+  netAt: Map<number, number>;
+  deviceAt: Map<number, number>;
+}
+
+function carryPlan(net: SwitchNetwork, seen: WitnessMemo): CarryPlan {
+  if (seen.carry?.circuit === net.circuit) return seen.carry;
+  const names = net.circuit.nets;
+  const nameAt = new Map<string, number>();
+  const netAt = new Map<number, number>();
+  seen.nets.forEach((x, i) => {
+    netAt.set(x, i);
+    nameAt.set(names[x]!.name, i);
+  });
+  const deviceAt = new Map<number, number>();
+  seen.mosfets.forEach((d, i) => deviceAt.set(d, i));
+  return (seen.carry = { circuit: net.circuit, nameAt, netAt, deviceAt });
 }
 
 /** A twin's results from the first group's, with the twin's nets, names and devices put in. */
 function carryWitness(net: SwitchNetwork, comp: Component, seen: WitnessMemo, twin: { nets: number[]; mosfets: number[] }, states: Map<number, NodePhaseResult>): void {
-  const netOf = new Map<number, number>();
-  seen.nets.forEach((x, i) => netOf.set(x, twin.nets[i]!));
-  const devOf = new Map<number, number>();
-  seen.mosfets.forEach((x, i) => devOf.set(x, twin.mosfets[i]!));
-  const names = net.circuit.netByName;
+  const plan = carryPlan(net, seen);
+  const nets = net.circuit.nets;
+  const netOf = (x: number) => twin.nets[plan.netAt.get(x)!]!;
+  const devOf = (d: number) => twin.mosfets[plan.deviceAt.get(d)!]!;
   const nameOf = (s: string): string => {
-    const id = names.get(s);
-    const to = id === undefined ? undefined : netOf.get(id);
-    return to === undefined ? s : net.circuit.nets[to]!.name;
+    const i = plan.nameAt.get(s);
+    return i === undefined ? s : nets[twin.nets[i]!]!.name;
   };
   const record = (r: Record<string, 0 | 1>): Record<string, 0 | 1> => {
     const o = newRecord();
@@ -743,8 +782,8 @@ function carryWitness(net: SwitchNetwork, comp: Component, seen: WitnessMemo, tw
       const v = r[k];
       if (k === 'when' || k === 'contentionWhen') c[k] = record(v as Record<string, 0 | 1>);
       else if (k === 'floatCover') c[k] = (v as Array<Record<string, 0 | 1>>).map(record);
-      else if (k === 'cutOff' || k === 'keepers') c[k] = (v as number[]).map((d) => devOf.get(d)!);
-      else if (k === 'gateAssignment') c[k] = (v as Array<[number, 0 | 1]>).map(([g, b]) => [netOf.get(g)!, b]);
+      else if (k === 'cutOff' || k === 'keepers') c[k] = (v as number[]).map(devOf);
+      else if (k === 'gateAssignment') c[k] = (v as Array<[number, 0 | 1]>).map(([g, b]) => [netOf(g), b]);
       else c[k] = v;
     }
     states.set(comp.nodes[i]!, c as unknown as NodePhaseResult);
@@ -803,7 +842,7 @@ function classifyEnumerated(pass: PhasePass, comp: Component, free: number[]): v
   }
   // Repeated cells: a group wired like one already checked, with the same values around it and
   // the same driving logic, has the same results with its own nets and devices put in.
-  const twin = witnessKey(net, comp, values, storage, free, tr, wasUnchecked);
+  const twin = witnessKey(net, comp, values, storage, free, tr, wasUnchecked, buffers.numbering);
   const seen = buffers.twins ? buffers.witnesses.get(twin.key) : undefined;
   if (seen) {
     carryWitness(net, comp, seen, twin, states);
