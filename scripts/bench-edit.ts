@@ -54,7 +54,7 @@ async function main(): Promise<void> {
     // a device in a cell with 4,200 copies: over the splice's limit, the full analysis runs (on
     // the design built from the previous one)
     ['a device added to the domino cell (full analysis, elaboration skipped)', (l) => l.startsWith('Mkp dyn out'), (l) => `${l}\nMx dyn clk vdd vdd bp w=0.1u l=0.1u`],
-  ]);
+  ], false, true);
   // the same on a netlist of the size most blocks have
   const small = await measure(10_000, [RECONNECTION]);
   // a flat extracted netlist of 100k lines: the parse of the new text reads again only the
@@ -63,16 +63,16 @@ async function main(): Promise<void> {
     ['a width in the flat netlist', (l) => l.startsWith('MN50000 '), (l) => l.replace('w=0.3u', 'w=0.32u')],
     ['a comment line in the flat netlist', (l) => l.startsWith('MN50000 '), (l) => `* stage 25000\n${l}`],
   ], true);
-  console.log('edit latency, change notification to published diagnostics (comment, size, rename, reconnection, added or deleted device and card value edits are answered from the previous analysis; others run the full analysis after a 40 ms debounce):');
+  console.log('edit latency, change notification to published diagnostics (comment, size, rename, reconnection, added or deleted device, card value, supply, clock timing, budget and corner edits are answered from the previous analysis; others run the full analysis after a 40 ms debounce):');
   for (const line of [...big, ...small, ...flat]) console.log('  ' + line);
 }
 
 /** Opens a generated netlist of about `transistors` in the server, times each kind of edit. */
-async function measure(transistors: number, all: Edit[], flat = false): Promise<string[]> {
-  // TIDEMARK_BENCH_ONLY=text: only the edits whose description holds it (for a quick look at one)
+async function measure(transistors: number, all: Edit[], flat = false, settingsRow = false): Promise<string[]> {
+  // TIDEMARK_BENCH_ONLY=pattern: only the edits whose description matches it (a regular expression; for a quick look at some)
   const only = process.env.TIDEMARK_BENCH_ONLY;
-  const edits = only ? all.filter(([what]) => what.includes(only)) : all;
-  if (edits.length === 0) return [];
+  const edits = only ? all.filter(([what]) => new RegExp(only).test(what)) : all;
+  if (edits.length === 0 && !settingsRow) return [];
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'tidemark-edit-'));
   const file = path.join(dir, 'datapath.sp');
   let text = flat ? flatNetlist(transistors) : hierarchicalNetlist(transistors);
@@ -87,7 +87,9 @@ async function measure(transistors: number, all: Edit[], flat = false): Promise<
   conn.onNotification('textDocument/publishDiagnostics', (p: { uri: string; diagnostics: unknown[] }) => {
     if (p.uri === uri && waiting) waiting(p.diagnostics.length);
   });
-  conn.onRequest('workspace/configuration', (p: { items: unknown[] }) => p.items.map(() => null));
+  // the editor's tidemark settings (none set, then corners set for the settings row)
+  let settings: unknown = null;
+  conn.onRequest('workspace/configuration', (p: { items: unknown[] }) => p.items.map(() => settings));
   conn.onRequest('client/registerCapability', () => null);
   conn.listen();
   await conn.sendRequest('initialize', { processId: process.pid, rootUri: pathToFileURL(dir).toString(), capabilities: { workspace: { configuration: true } } });
@@ -141,6 +143,21 @@ async function measure(transistors: number, all: Edit[], flat = false): Promise<
     }
     summary.push(line(what, times));
     if (undoWhat) summary.push(line(undoWhat, undoTimes));
+  }
+  // a change of settings: other temperature corners, then the first ones again (every estimate redone)
+  const corners = 'new temperature corners in the settings (every estimate redone)';
+  if (settingsRow && (!only || new RegExp(only).test(corners))) {
+    const times: number[] = [];
+    for (let round = 0; round < ROUNDS; round++) {
+      settings = { temps: round % 2 === 0 ? [25, 125] : [25, 110], budget: '10%' };
+      t = performance.now();
+      next = published();
+      conn.sendNotification('workspace/didChangeConfiguration', { settings: null });
+      count = await next;
+      times.push(performance.now() - t);
+      console.log(`settings  ${times[times.length - 1]!.toFixed(0).padStart(6)} ms to new diagnostics (${count}) | ${corners}, round ${round + 1} (${size})`);
+    }
+    summary.push(line(corners, times));
   }
   await conn.sendRequest('shutdown');
   conn.sendNotification('exit');

@@ -4,13 +4,15 @@
 // classification stands and every estimate is worked out again; the answer must equal a fresh
 // analysis of the new text, finding for finding and figure for figure. Random edits over every
 // sample, the fixtures and a generated datapath, one and two in a row; edits that change the
-// phases' pattern or could make a rail appear or go are declined.
+// phases' pattern or could make a rail appear or go are declined. The same for new corner and
+// budget settings (engine `reanalyseOptions`), which the editor's settings change.
 
 import * as fs from 'node:fs';
 import * as path from 'node:path';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { analyse, readDeck, reanalyse } from '../server/src/engine';
+import { analyse, readDeck, reanalyse, reanalyseOptions } from '../server/src/engine';
+import type { EngineOptions } from '../server/src/core/options';
 import { memoryHost, type FileHost } from '../server/src/core/host';
 import { overlay, scaleNumber, type NumberSpot } from './support/edits';
 import { checkRandomEdits, same } from './support/sameAnalysis';
@@ -128,4 +130,55 @@ describe('supply, clock, budget and corner values reuse the classification and e
     }
     expect(total).toBeGreaterThan(40);
   }, 120_000);
+});
+
+describe('new corner or budget settings reuse the classification and equal a fresh analysis', () => {
+  const BASE: EngineOptions = { tempsC: [25, 110], budget: { fraction: 0.1 } };
+  const NEXT: EngineOptions[] = [{ tempsC: [0, 85, 125] }, { tempsC: [25, 110], budget: { volts: 0.05 } }, { tempsC: [-40, 150], budget: { fraction: 0.05 } }, {}];
+  it('every sample and electrical fixture: each new setting from the first, and one after another', () => {
+    let taken = 0;
+    for (const file of samplesAndElectricalFixtures()) {
+      const host = overlay(file, fs.readFileSync(file, 'utf8'));
+      const before = analyse(host, file, BASE);
+      let last = before;
+      let lastOptions = BASE;
+      for (const options of NEXT) {
+        const fresh = analyse(host, file, options);
+        const fast = reanalyseOptions(before, BASE, options);
+        expect(fast, `${path.basename(file)}: ${JSON.stringify(options)}`).toBeDefined();
+        same(file, fast!, fresh);
+        const chained = reanalyseOptions(last, lastOptions, options);
+        expect(chained).toBeDefined();
+        same(file, chained!, fresh);
+        last = chained!;
+        lastOptions = options;
+        taken++;
+      }
+    }
+    expect(taken).toBeGreaterThan(20);
+  }, 120_000);
+
+  it('a generated hierarchical datapath (2k transistors), with and without a corners directive (which wins over the setting)', () => {
+    const file = '/datapath.sp';
+    for (const text of [hierarchicalNetlist(2_000), hierarchicalNetlist(2_000).replace('\n.end\n', '\n* tidemark: temps 25 90\n.end\n')]) {
+      const host = memoryHost({ [file]: text });
+      const before = analyse(host, file, BASE);
+      for (const options of NEXT) same(file, reanalyseOptions(before, BASE, options)!, analyse(host, file, options));
+    }
+  }, 120_000);
+
+  it('other settings, and a budget the receiving gate sets, are left to a fresh analysis', () => {
+    const file = '/datapath.sp';
+    const host = memoryHost({ [file]: hierarchicalNetlist(2_000) });
+    const before = analyse(host, file, BASE);
+    const declined: Array<[string, EngineOptions]> = [
+      ['a supply net', { ...BASE, supplies: { vddx: 1.0 } }],
+      ['a clock', { ...BASE, clocks: [{ net: 'clk', periodS: 2e-9, highS: 1e-9 }] }],
+      ['the geometry scale', { ...BASE, geometryScale: 1e-6 }],
+      ['an include path', { ...BASE, includePaths: ['/lib'] }],
+      ['the receiver budget', { ...BASE, budget: { receiver: true } }],
+      ['the front end only', { ...BASE, frontEndOnly: true }],
+    ];
+    for (const [what, options] of declined) expect(reanalyseOptions(before, BASE, options), what).toBeUndefined();
+  });
 });

@@ -207,6 +207,25 @@ export function reanalyse(previous: AnalysisResult, deck: Deck, options: EngineO
   return afterSizes(previous, deck, patch, previous.frontEnd, options);
 }
 
+/** The settings an analysis may take anew without elaborating again: the corners and the droop budget. */
+const ELECTRICAL_OPTIONS = new Set<keyof EngineOptions>(['tempsC', 'budget']);
+
+/**
+ * The analysis of the same text under new settings, from the previous one, when only the
+ * temperature corners or the droop budget changed (`before` and `after`: the two settings): the
+ * phases and classification stand, every estimate is worked out again (afterElectrical). A
+ * directive in the netlist still wins over the setting. Equal to `analyse` with `after` (the
+ * tests hold it); undefined for any other change, and for a budget set by the receiving gate.
+ */
+export function reanalyseOptions(previous: AnalysisResult, before: EngineOptions, after: EngineOptions): AnalysisResult | undefined {
+  if (after.frontEndOnly === true || after.skipEstimates === true || before.frontEndOnly === true || before.skipEstimates === true) return undefined;
+  if (previous.circuits.length !== previous.design.circuits.length || previous.circuits.some((a) => !a.electrical || !a.estimates)) return undefined;
+  if (before.budget?.receiver || after.budget?.receiver || previous.design.directives.budget?.receiver) return undefined;
+  const keys = new Set([...Object.keys(before), ...Object.keys(after)] as Array<keyof EngineOptions>);
+  for (const k of keys) if (!ELECTRICAL_OPTIONS.has(k) && JSON.stringify(before[k]) !== JSON.stringify(after[k])) return undefined;
+  return afterElectrical(previous, previous.deck, previous.design, after);
+}
+
 /**
  * After devices took new sizes, models or cards (`patch`: the same nets and connections): the
  * phases and classification stand, the estimates of the nodes that read a changed device are

@@ -14,6 +14,8 @@ export class TestLspClient {
   readonly conn: MessageConnection;
   private readonly waiters: Array<{ match: (p: PublishedDiagnostics) => boolean; resolve: (p: PublishedDiagnostics) => void }> = [];
   readonly published: PublishedDiagnostics[] = [];
+  /** The server's log messages (window/logMessage), in order. */
+  readonly logs: string[] = [];
 
   constructor() {
     const server = path.join(__dirname, '../../dist/server.js');
@@ -28,11 +30,17 @@ export class TestLspClient {
         }
       }
     });
+    this.conn.onNotification('window/logMessage', (p: { message: string }) => {
+      this.logs.push(p.message);
+    });
     this.conn.listen();
   }
 
-  async initialize(rootUri: string): Promise<unknown> {
-    const r = await this.conn.sendRequest('initialize', { processId: process.pid, rootUri, capabilities: {}, workspaceFolders: null });
+  /** `settings`: the `tidemark` section the client answers the server's configuration requests with (none: the client has no configuration). */
+  async initialize(rootUri: string, settings?: () => Record<string, unknown>): Promise<unknown> {
+    if (settings) this.conn.onRequest('workspace/configuration', (p: { items: Array<{ section?: string }> }) => p.items.map((i) => (i.section === 'tidemark' ? settings() : null)));
+    const capabilities = settings ? { workspace: { configuration: true, didChangeConfiguration: { dynamicRegistration: false } } } : {};
+    const r = await this.conn.sendRequest('initialize', { processId: process.pid, rootUri, capabilities, workspaceFolders: null });
     await this.conn.sendNotification('initialized', {});
     return r;
   }

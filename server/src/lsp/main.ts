@@ -20,7 +20,7 @@ import {
 import { TextDocument } from 'vscode-languageserver-textdocument';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import * as path from 'node:path';
-import { analyseDesignSteps, analyseSteps, readDeck, reanalyse, reelaborate, type AnalysisResult, type Elaborated } from '../engine';
+import { analyseDesignSteps, analyseSteps, readDeck, reanalyse, reanalyseOptions, reelaborate, type AnalysisResult, type Elaborated } from '../engine';
 import { performance } from 'node:perf_hooks';
 import { carryOver } from '../service/carryOver';
 import type { Deck } from '../circuit/deck';
@@ -83,18 +83,18 @@ function logFailure(what: string, e: unknown): void {
   connection.console.error(`tidemark: ${what} failed: ${e instanceof Error ? (e.stack ?? e.message) : String(e)}`);
 }
 
-function engineOptions(lineCount: number): EngineOptions {
-  const o: EngineOptions = { tempsC: settings.temps, includePaths: settings.includePaths, supplies: settings.supplies };
-  const b = settings.budget.trim();
+function engineOptions(lineCount: number, from: Settings = settings): EngineOptions {
+  const o: EngineOptions = { tempsC: from.temps, includePaths: from.includePaths, supplies: from.supplies };
+  const b = from.budget.trim();
   const pct = /^([\d.]+)%$/.exec(b);
   const v = /^([\d.]+(?:e-?\d+)?)(m?)v$/i.exec(b);
   if (pct) o.budget = { fraction: Number(pct[1]) / 100 };
   else if (v) o.budget = { volts: Number(v[1]) * (v[2] ? 1e-3 : 1) };
   else if (b === 'receiver') o.budget = { receiver: true };
-  if (settings.geometryScale) o.geometryScale = settings.geometryScale;
-  if (settings.deviceRules.length) o.deviceRules = settings.deviceRules.filter((r) => /^(nmos|pmos|diode|short|resistor|capacitor)$/.test(r.kind)) as EngineOptions['deviceRules'];
+  if (from.geometryScale) o.geometryScale = from.geometryScale;
+  if (from.deviceRules.length) o.deviceRules = from.deviceRules.filter((r) => /^(nmos|pmos|diode|short|resistor|capacitor)$/.test(r.kind)) as EngineOptions['deviceRules'];
   const clocks: NonNullable<EngineOptions['clocks']> = [];
-  for (const spec of settings.clocks) {
+  for (const spec of from.clocks) {
     // "clk period=1n high=0.5n" or "clkb inverse=clk"
     const [net, ...kvs] = spec.trim().split(/\s+/);
     if (!net) continue;
@@ -111,7 +111,7 @@ function engineOptions(lineCount: number): EngineOptions {
     if (k.inverseOf || (k.periodS !== undefined && k.highS !== undefined)) clocks.push(k);
   }
   if (clocks.length) o.clocks = clocks;
-  if (lineCount > settings.maxAnalysisLines) o.frontEndOnly = true;
+  if (lineCount > from.maxAnalysisLines) o.frontEndOnly = true;
   return o;
 }
 
@@ -446,11 +446,43 @@ connection.onInitialized(() => {
 });
 
 connection.onDidChangeConfiguration(async () => {
+  const was = settings;
   await guard('settings', () => pullSettings(), Promise.resolve());
+  // new corners or a new budget alone: every open netlist's analysis is taken from its last one
+  if (guard('settings', () => answerNewSettings(was), false)) return;
   results.clear();
   decks.clear();
   for (const d of documents.all()) schedule(d.uri, 0);
 });
+
+/**
+ * New corner or budget settings (`was`: the settings before): each open netlist's last analysis
+ * takes them (engine `reanalyseOptions`: the classification stands, the estimates are redone),
+ * and the findings are published at once. False, with nothing changed, when a netlist has no
+ * current analysis or another setting changed: everything is then analysed afresh.
+ */
+function answerNewSettings(was: Settings): boolean {
+  const answers: Array<[string, Cached]> = [];
+  for (const d of documents.all()) {
+    if (rootFor(d.uri) !== d.uri) continue;
+    const last = results.get(d.uri);
+    if (!last || !fresh(last)) return false;
+    const lines = countLines(d.getText());
+    const result = reanalyseOptions(last.result, engineOptions(lines, was), engineOptions(lines));
+    if (!result) return false;
+    answers.push([d.uri, { texts: last.texts, result }]);
+  }
+  if (answers.length === 0) return false;
+  connection.console.log(`new corner or budget settings: taken from the last analysis of ${answers.length} open netlist(s)`);
+  for (const [uri, cached] of answers) {
+    // an analysis under way, or due, read the old settings
+    clearTimeout(timers.get(uri));
+    generation.set(uri, genOf(uri) + 1);
+    results.set(uri, cached);
+    send(uri, cached.result.diagnostics);
+  }
+  return true;
+}
 
 documents.onDidOpen((e) => void publish(e.document.uri));
 documents.onDidChangeContent((e) => {
