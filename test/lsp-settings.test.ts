@@ -95,3 +95,27 @@ describe('settings over the real protocol', () => {
     expect(client.proc.exitCode).toBeNull();
   }, 60_000);
 });
+
+describe('settings that arrive after a netlist was opened', () => {
+  it('the findings settle on the analysis with the pulled settings, not the defaults', async () => {
+    const client = new TestLspClient();
+    // the client answers the configuration request late, after the document is open and under way
+    let answer: (v: unknown) => void = () => undefined;
+    const late = new Promise((resolve) => (answer = resolve));
+    client.conn.onRequest('workspace/configuration', async (p: { items: unknown[] }) => {
+      await late;
+      return p.items.map(() => ({ temps: [25, 125], budget: '80mV' }));
+    });
+    await client.conn.sendRequest('initialize', { processId: process.pid, rootUri: pathToFileURL(path.dirname(FILE)).toString(), capabilities: { workspace: { configuration: true } }, workspaceFolders: null });
+    await client.conn.sendNotification('initialized', {});
+    const expected = engineFindings({ tempsC: [25, 125], budget: { volts: 0.08 } });
+    expect(expected).not.toEqual(engineFindings({}));
+    const settled = client.diagnosticsFor(URI, (p) => published(p).join('\n') === expected.join('\n'));
+    const first = client.diagnosticsFor(URI);
+    await client.open(URI, fs.readFileSync(FILE, 'utf8'));
+    await first;
+    answer(undefined);
+    expect(published(await settled)).toEqual(expected);
+    await client.shutdown();
+  }, 60_000);
+});

@@ -441,38 +441,54 @@ async function pullSettings(): Promise<void> {
   if (s) settings = { ...settings, ...Object.fromEntries(Object.entries(s).filter(([, v]) => v !== undefined && v !== null)) };
 }
 
-connection.onInitialized(() => {
-  void guard('settings', () => pullSettings(), Promise.resolve());
-});
-
-connection.onDidChangeConfiguration(async () => {
+/**
+ * The settings pulled from the client, at start and on every change. When they differ from the
+ * ones the open netlists were analysed with (at start, a document may already be under way
+ * with the defaults), new corners or a new budget alone are taken from each netlist's last
+ * analysis; anything else analyses every open document afresh.
+ */
+async function takeSettings(): Promise<void> {
   const was = settings;
   await guard('settings', () => pullSettings(), Promise.resolve());
-  // new corners or a new budget alone: every open netlist's analysis is taken from its last one
+  if (JSON.stringify(was) === JSON.stringify(settings)) return;
   if (guard('settings', () => answerNewSettings(was), false)) return;
   results.clear();
   decks.clear();
   for (const d of documents.all()) schedule(d.uri, 0);
-});
+}
+
+connection.onInitialized(() => void takeSettings());
+connection.onDidChangeConfiguration(() => takeSettings());
 
 /**
  * New corner or budget settings (`was`: the settings before): each open netlist's last analysis
  * takes them (engine `reanalyseOptions`: the classification stands, the estimates are redone),
- * and the findings are published at once. False, with nothing changed, when a netlist has no
- * current analysis or another setting changed: everything is then analysed afresh.
+ * and the findings are published at once; a setting no analysis reads changes nothing. False,
+ * with nothing changed, when a netlist has no current analysis or another setting changed:
+ * everything is then analysed afresh.
  */
 function answerNewSettings(was: Settings): boolean {
+  // the size limit is quoted in the note of a file over it
+  if (was.maxAnalysisLines !== settings.maxAnalysisLines) return false;
   const answers: Array<[string, Cached]> = [];
+  let unchanged = 0;
   for (const d of documents.all()) {
     if (rootFor(d.uri) !== d.uri) continue;
     const last = results.get(d.uri);
     if (!last || !fresh(last)) return false;
     const lines = countLines(d.getText());
-    const result = reanalyseOptions(last.result, engineOptions(lines, was), engineOptions(lines));
+    const before = engineOptions(lines, was);
+    const after = engineOptions(lines);
+    // a setting the analysis does not read (the trace level): nothing to do
+    if (JSON.stringify(before) === JSON.stringify(after)) {
+      unchanged++;
+      continue;
+    }
+    const result = reanalyseOptions(last.result, before, after);
     if (!result) return false;
     answers.push([d.uri, { texts: last.texts, result }]);
   }
-  if (answers.length === 0) return false;
+  if (answers.length === 0) return unchanged > 0;
   connection.console.log(`new corner or budget settings: taken from the last analysis of ${answers.length} open netlist(s)`);
   for (const [uri, cached] of answers) {
     // an analysis under way, or due, read the old settings
