@@ -1,10 +1,11 @@
 // The read-only derived maps the quick paths build results from (core/overlay.ts): what they
 // hold, in what order they walk, and that long chains of them fold into plain maps that read
-// the same.
+// the same. Also the per-net arrays carried under a net renumbering (core/renumber.ts).
 
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { DerivedMap, OverlayMap, RenumberedMap } from '../server/src/core/overlay';
+import { netInsertion, netRemoval, withNetCells, withNetRows } from '../server/src/core/renumber';
 
 const base = () => new Map([[1, 'a'], [3, 'c'], [5, 'e']]);
 
@@ -76,6 +77,21 @@ describe('derived maps', () => {
         expect([...m]).toEqual([...plain]);
       }),
       { numRuns: 300, seed: 5 },
+    );
+  });
+});
+
+describe('per-net arrays under a net renumbering', () => {
+  it('withNetCells reads as withNetRows (element by element) for nets put in or taken out anywhere', () => {
+    fc.assert(
+      fc.property(fc.array(fc.integer({ min: -100, max: 100 }), { maxLength: 60 }), fc.array(fc.nat(60), { maxLength: 8 }), fc.boolean(), (values, at, insert) => {
+        const a = Int32Array.from(values);
+        const spots = [...new Set(at.filter((x) => x <= a.length - (insert ? 0 : 1)))].sort((x, y) => x - y);
+        const ins = insert ? netInsertion(a.length, spots) : netRemoval(a.length, spots);
+        const expected = withNetRows(values, ins, () => 7);
+        expect(Array.from(withNetCells(a, ins, 7))).toEqual(expected);
+      }),
+      { numRuns: 300 },
     );
   });
 });

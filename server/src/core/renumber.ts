@@ -96,15 +96,23 @@ export function withNetRows<T>(list: readonly T[], ins: NetRenumbering, make: (j
 /** A per-net typed array with `fill` for each net put in and no cell for a net taken out. */
 export function withNetCells<A extends Uint8Array | Int32Array | Float64Array>(a: A, ins: NetRenumbering, fill: number): A {
   const out = new (a.constructor as new (n: number) => A)(ins.count);
+  const { added, removed } = ins;
   let i = 0;
+  let j = 0;
   let k = 0;
   let r = 0;
-  for (let j = 0; j < ins.count; j++) {
-    while (r < ins.removed.length && ins.removed[r] === i) (i++, r++);
-    if (k < ins.added.length && ins.added[k] === j) {
-      out[j] = fill;
+  // the cells between two nets put in or taken out are copied as one run
+  while (j < ins.count) {
+    while (r < removed.length && removed[r] === i) (i++, r++);
+    if (k < added.length && added[k] === j) {
+      out[j++] = fill;
       k++;
-    } else out[j] = a[i++]!;
+      continue;
+    }
+    const run = Math.min((k < added.length ? added[k]! : ins.count) - j, (r < removed.length ? removed[r]! : a.length) - i);
+    out.set(a.subarray(i, i + run), j);
+    i += run;
+    j += run;
   }
   return out;
 }
