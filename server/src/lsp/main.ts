@@ -16,6 +16,7 @@ import {
   type DocumentSymbol,
   type CodeAction,
   type Connection,
+  type WorkDoneProgressServerReporter,
 } from 'vscode-languageserver/node';
 import { TextDocument } from 'vscode-languageserver-textdocument';
 import { fileURLToPath, pathToFileURL } from 'node:url';
@@ -198,7 +199,35 @@ function analysisOf(uri: string): Promise<Cached | undefined> {
   return promise;
 }
 
+/** A full analysis the editor waits for that runs longer than this shows the editor's progress indicator. */
+const PROGRESS_AFTER_MS = 300;
+
+/** The editor's progress indicator for a long analysis (none if the client has no work-done progress). */
+async function analysingProgress(file: string): Promise<WorkDoneProgressServerReporter | undefined> {
+  try {
+    const progress = await connection.window.createWorkDoneProgress();
+    progress.begin('Tidemark', undefined, `analysing ${path.basename(file)}`, false);
+    return progress;
+  } catch {
+    return undefined;
+  }
+}
+
 async function runAnalysis(uri: string, gen: number, compacting = false): Promise<Cached | undefined> {
+  const startedAt = performance.now();
+  let progress: Promise<WorkDoneProgressServerReporter | undefined> | undefined;
+  try {
+    return await runAnalysisSlices(uri, gen, compacting, () => {
+      // the idle-time compaction runs unseen: nobody waits for it
+      if (!compacting && !progress && performance.now() - startedAt > PROGRESS_AFTER_MS) progress = analysingProgress(fileURLToPath(uri));
+    });
+  } finally {
+    if (progress) void progress.then((p) => p?.done());
+  }
+}
+
+/** The run itself; `betweenSlices` is called at every pause. */
+async function runAnalysisSlices(uri: string, gen: number, compacting: boolean, betweenSlices: () => void): Promise<Cached | undefined> {
   const file = fileURLToPath(uri);
   // every text the run reads, as it read it (all reads happen in its first slice)
   const noted = notingHost();
@@ -225,6 +254,7 @@ async function runAnalysis(uri: string, gen: number, compacting = false): Promis
       return c;
     }
     if (performance.now() - sliceStart < SLICE_MS) continue;
+    betweenSlices();
     await new Promise<void>((resolve) => setImmediate(resolve));
     sliceStart = performance.now();
     if (genOf(uri) !== gen) {
