@@ -94,6 +94,12 @@ describe('tidemark check', () => {
     expect(a.stderr).toMatch(/usage: tidemark check/);
     expect(tidemark(['check', '--format', 'xml', 'x.sp']).code).toBe(2);
     expect(tidemark(['check', '--bogus', 'x.sp']).code).toBe(2);
+    // corners and budgets that no analysis could use
+    for (const bad of [['--temps', ''], ['--temps', '25,,110'], ['--temps', '-300'], ['--budget', '0%'], ['--budget', '150%'], ['--budget', '10 %']]) {
+      const r = tidemark(['check', ...bad, 'x.sp']);
+      expect(r.code, bad.join(' ')).toBe(2);
+      expect(r.stderr).toMatch(new RegExp(bad[0]!));
+    }
     const m = tidemark(['check', 'no/such/file.sp']);
     expect(m.code).toBe(2);
     expect(m.stderr).toMatch(/cannot read 'no\/such\/file.sp'/);

@@ -119,3 +119,30 @@ describe('settings that arrive after a netlist was opened', () => {
     await client.shutdown();
   }, 60_000);
 });
+
+describe('a setting the analysis cannot use', () => {
+  it('is named in a warning and left at its default; the rest are taken and the findings come', async () => {
+    const client = new TestLspClient();
+    const shown: Array<{ type: number; message: string }> = [];
+    client.conn.onNotification('window/showMessage', (p: { type: number; message: string }) => {
+      shown.push(p);
+    });
+    let pulled: () => void = () => undefined;
+    const firstPull = new Promise<void>((resolve) => (pulled = resolve));
+    await client.initialize(pathToFileURL(path.dirname(FILE)).toString(), () => {
+      pulled();
+      return { temps: '25,110', budget: '15%', clocks: 'clk' };
+    });
+    await firstPull;
+    const expected = engineFindings({ tempsC: [25, 110], budget: { fraction: 0.15 } });
+    const settled = client.diagnosticsFor(URI, (p) => published(p).join('\n') === expected.join('\n'));
+    await client.open(URI, fs.readFileSync(FILE, 'utf8'));
+    expect(published(await settled)).toEqual(expected);
+    expect(shown.length).toBe(1);
+    expect(shown[0]!.type).toBe(2);
+    expect(shown[0]!.message).toMatch(/tidemark\.temps is "25,110"/);
+    expect(shown[0]!.message).toMatch(/tidemark\.clocks is "clk"/);
+    expect(client.proc.exitCode).toBeNull();
+    await client.shutdown();
+  }, 60_000);
+});

@@ -4,7 +4,7 @@
 import * as fs from 'node:fs';
 import * as path from 'node:path';
 import { analyse } from '../engine';
-import type { EngineOptions } from '../core/options';
+import { parseBudget, validTemps, type EngineOptions } from '../core/options';
 import { addToReport, emptyReport } from '../findings/report';
 import { formatSarif, formatText } from './format';
 import { diskHost } from './diskHost';
@@ -72,19 +72,19 @@ function parseArgs(argv: string[]): CliArgs {
         a.options.top = take();
         break;
       case '--temps': {
-        const t = take().split(',').map((x) => Number(x.trim()));
-        if (t.some((x) => !Number.isFinite(x))) throw new UsageError('--temps needs numbers such as 25,110');
+        const text = take();
+        const t = validTemps(text.split(',').map((x) => (x.trim() === '' ? NaN : Number(x.trim()))));
+        if (!t) throw new UsageError(`--temps needs degrees C above absolute zero such as 25,110, not '${text}'`);
         a.tempsC = t;
         a.options.tempsC = t;
         break;
       }
       case '--budget': {
         const b = take();
-        if (!/^[\d.]+%$|^[\d.]+(e-?\d+)?m?v$|^receiver$/i.test(b)) throw new UsageError(`--budget needs a percentage (10%), volts (0.12V) or receiver, not '${b}'`);
+        const budget = parseBudget(b);
+        if (!budget) throw new UsageError(`--budget needs a percentage between 0 and 100 (10%), volts (0.12V) or receiver, not '${b}'`);
         a.budget = b;
-        const pct = /^([\d.]+)%$/.exec(b);
-        const mv = /^([\d.]+(?:e-?\d+)?)(m?)v$/i.exec(b);
-        a.options.budget = pct ? { fraction: Number(pct[1]) / 100 } : mv ? { volts: Number(mv[1]) * (mv[2] ? 1e-3 : 1) } : { receiver: true };
+        a.options.budget = budget;
         break;
       }
       case '--fail-on': {

@@ -38,3 +38,30 @@ export const DEFAULT_CLOCK_PATTERN = '^(.*clk.*|.*clock.*|phi[0-9]*[a-z_]*|ph[0-
 
 export const DEFAULT_SUPPLY_PATTERN = '^(vdd|vcc|vpwr|vpb|kapwr|lowlvpwr|vpwrin|avdd|dvdd|vddio|vdda|vddd|vcca|vccd)[a-z0-9_]*!?$';
 export const DEFAULT_GROUND_PATTERN = '^(0|gnd|vss|vgnd|vnb|agnd|dgnd|vssa|vssd|vssio)[a-z0-9_]*!?$';
+
+/**
+ * A droop budget as written in a setting or on the command line: a percentage of the supply
+ * (`10%`), volts (`0.12V`, `80mV`) or `receiver`; undefined for anything else, and for a
+ * percentage not between 0 and 100 or volts not above 0.
+ */
+export function parseBudget(text: string): EngineOptions['budget'] | undefined {
+  const b = text.trim();
+  if (/^receiver$/i.test(b)) return { receiver: true };
+  const pct = /^(\d+(?:\.\d*)?|\.\d+)%$/.exec(b);
+  if (pct) {
+    const f = Number(pct[1]) / 100;
+    return f > 0 && f < 1 ? { fraction: f } : undefined;
+  }
+  const v = /^(\d+(?:\.\d*)?(?:e-?\d+)?|\.\d+(?:e-?\d+)?)(m?)v$/i.exec(b);
+  if (v) {
+    const volts = Number(v[1]) * (v[2] ? 1e-3 : 1);
+    return volts > 0 && Number.isFinite(volts) ? { volts } : undefined;
+  }
+  return undefined;
+}
+
+/** Temperature corners in degrees C: a non-empty list of numbers above absolute zero, or undefined. */
+export function validTemps(list: unknown): number[] | undefined {
+  if (!Array.isArray(list) || list.length === 0) return undefined;
+  return list.every((t) => typeof t === 'number' && Number.isFinite(t) && t > -273.15) ? (list as number[]) : undefined;
+}

@@ -17,6 +17,8 @@ import {
   type CodeAction,
   type Connection,
   type WorkDoneProgressServerReporter,
+  ShowMessageNotification,
+  MessageType,
 } from 'vscode-languageserver/node';
 import { TextDocument } from 'vscode-languageserver-textdocument';
 import { fileURLToPath, pathToFileURL } from 'node:url';
@@ -33,24 +35,15 @@ import { locate } from '../service/locate';
 import { deviceHover, netHover } from '../service/hover';
 import { quickFixes } from '../service/fixes';
 import { completions, definitionOf, foldingRanges, netReferences, outline, type OutlineSymbol } from '../service/outline';
-import { parseSpiceNumber } from '../circuit/numbers';
+import { DEFAULT_SETTINGS, engineOptionsFor, readSettings, type Settings } from './settings';
 
 const connection: Connection = createConnection(ProposedFeatures.all);
 const documents = new TextDocuments(TextDocument);
 const disk = diskHost();
 
-interface Settings {
-  temps: number[];
-  budget: string;
-  supplies: Record<string, number>;
-  clocks: string[];
-  deviceRules: Array<{ pattern: string; kind: string }>;
-  includePaths: string[];
-  geometryScale: number | null;
-  maxAnalysisLines: number;
-}
-
-let settings: Settings = { temps: [25, 110], budget: '10%', supplies: {}, clocks: [], deviceRules: [], includePaths: [], geometryScale: null, maxAnalysisLines: 400_000 };
+let settings: Settings = DEFAULT_SETTINGS;
+/** The last warning about settings not taken, so it is shown once per change. */
+let settingsWarning = '';
 let canPullConfiguration = false;
 
 /** Open documents first (their unsaved text), then the disk. */
@@ -84,36 +77,12 @@ function logFailure(what: string, e: unknown): void {
   connection.console.error(`tidemark: ${what} failed: ${e instanceof Error ? (e.stack ?? e.message) : String(e)}`);
 }
 
+// the last guard: a promise nobody awaited that fails is logged, and the server stays up (Node
+// would end the process)
+process.on('unhandledRejection', (e) => logFailure('a background task', e));
+
 function engineOptions(lineCount: number, from: Settings = settings): EngineOptions {
-  const o: EngineOptions = { tempsC: from.temps, includePaths: from.includePaths, supplies: from.supplies };
-  const b = from.budget.trim();
-  const pct = /^([\d.]+)%$/.exec(b);
-  const v = /^([\d.]+(?:e-?\d+)?)(m?)v$/i.exec(b);
-  if (pct) o.budget = { fraction: Number(pct[1]) / 100 };
-  else if (v) o.budget = { volts: Number(v[1]) * (v[2] ? 1e-3 : 1) };
-  else if (b === 'receiver') o.budget = { receiver: true };
-  if (from.geometryScale) o.geometryScale = from.geometryScale;
-  if (from.deviceRules.length) o.deviceRules = from.deviceRules.filter((r) => /^(nmos|pmos|diode|short|resistor|capacitor)$/.test(r.kind)) as EngineOptions['deviceRules'];
-  const clocks: NonNullable<EngineOptions['clocks']> = [];
-  for (const spec of from.clocks) {
-    // "clk period=1n high=0.5n" or "clkb inverse=clk"
-    const [net, ...kvs] = spec.trim().split(/\s+/);
-    if (!net) continue;
-    const k: NonNullable<EngineOptions['clocks']>[number] = { net: net.toLowerCase() };
-    for (const kv of kvs) {
-      const [key, val] = kv.split('=');
-      if (key === 'inverse' && val) k.inverseOf = val.toLowerCase();
-      const n = val ? parseSpiceNumber(val.replace(/s$/i, '')) : undefined;
-      if (n === undefined) continue;
-      if (key === 'period') k.periodS = n;
-      else if (key === 'high') k.highS = n;
-      else if (key === 'delay') k.delayS = n;
-    }
-    if (k.inverseOf || (k.periodS !== undefined && k.highS !== undefined)) clocks.push(k);
-  }
-  if (clocks.length) o.clocks = clocks;
-  if (lineCount > from.maxAnalysisLines) o.frontEndOnly = true;
-  return o;
+  return engineOptionsFor(from, lineCount);
 }
 
 const RULES_DOC = pathToFileURL(path.join(__dirname, '..', 'docs', 'rules.md')).toString();
@@ -467,8 +436,17 @@ connection.onInitialize((params) => {
 
 async function pullSettings(): Promise<void> {
   if (!canPullConfiguration) return;
-  const s = (await connection.workspace.getConfiguration('tidemark')) as Partial<Settings> | null;
-  if (s) settings = { ...settings, ...Object.fromEntries(Object.entries(s).filter(([, v]) => v !== undefined && v !== null)) };
+  const raw: unknown = await connection.workspace.getConfiguration('tidemark');
+  const { settings: read, problems } = readSettings(raw);
+  settings = read;
+  // a value not taken is named once (each change of them), and the analysis goes on without it
+  const warning = problems.join('; ');
+  if (warning && warning !== settingsWarning) {
+    connection.console.warn(`settings: ${warning}`);
+    // a notification, not a request: there is nothing to answer, and no client can fail it
+    void connection.sendNotification(ShowMessageNotification.type, { type: MessageType.Warning, message: `Tidemark settings: ${warning}` });
+  }
+  settingsWarning = warning;
 }
 
 /**
