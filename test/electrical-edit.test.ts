@@ -132,6 +132,37 @@ describe('supply, clock, budget and corner values reuse the classification and e
   }, 120_000);
 });
 
+describe('standby lines reuse the classification when the cycle already has their clock values', () => {
+  it('the dynamic flop sample (one clock): its standby line taken out, at the other level, put in again', () => {
+    const file = path.join(__dirname, '..', 'samples', 'tern_dynamic_flop.sp');
+    const text = fs.readFileSync(file, 'utf8');
+    const line = '* tidemark: standby clk=0 for=50u\n';
+    expect(text).toContain(line);
+    const without = text.replace(line, '');
+    const cases: Array<[string, string, string]> = [
+      ['taken out', text, without],
+      ['the other level', text, text.replace('standby clk=0', 'standby clk=1')],
+      ['a longer standby', text, text.replace('for=50u', 'for=2m')],
+      ['put in again', without, text],
+    ];
+    for (const [what, from, to] of cases) {
+      const fast = reanalyse(analyse(overlay(file, from), file), readDeck(overlay(file, to), file));
+      expect(fast, what).toBeDefined();
+      same(file, fast!, analyse(overlay(file, to), file));
+    }
+  });
+
+  it('declined when the standby holds one clock of two and frees the other (a new combination of values), or names a net the circuit does not number first', () => {
+    const file = '/datapath.sp';
+    const text = hierarchicalNetlist(2_000);
+    const before = analyse(memoryHost({ [file]: text }), file);
+    for (const line of ['* tidemark: standby clk=0 for=1u', '* tidemark: standby a0=0 for=1u']) {
+      const edited = text.replace('\n.end\n', `\n${line}\n.end\n`);
+      expect(reanalyse(before, readDeck(memoryHost({ [file]: edited }), file)), line).toBeUndefined();
+    }
+  });
+});
+
 describe('new corner or budget settings reuse the classification and equal a fresh analysis', () => {
   const BASE: EngineOptions = { tempsC: [25, 110], budget: { fraction: 0.1 } };
   const NEXT: EngineOptions[] = [{ tempsC: [0, 85, 125] }, { tempsC: [25, 110], budget: { volts: 0.05 } }, { tempsC: [-40, 150], budget: { fraction: 0.05 } }, {}];

@@ -9,7 +9,7 @@ import { loadDeck, type Deck } from './circuit/deck';
 import { elaborateSteps } from './circuit/elaborate';
 import type { Circuit, Design } from './circuit/circuit';
 import { findClocks } from './phases/clocks';
-import { buildPhases, samePhasePattern, widenPlan, type PhasePlan } from './phases/phases';
+import { buildPhases, phaseCorrespondence, widenPlan, type PhasePlan } from './phases/phases';
 import { buildSwitchNetworkSteps, patchSwitchNetwork, widenNetwork, type NetworkPatch } from './analysis/switchNetwork';
 import { classifySteps, reclassify, renameStates, renumberDevices, widenClassification, type Classification } from './analysis/classify';
 import { classificationFindings, reviseClassificationFindings, widenClassificationFacts } from './findings/classificationFindings';
@@ -274,9 +274,11 @@ function afterElectrical(previous: AnalysisResult, deck: Deck, design: Design, o
     const circuit = design.circuits[i]!;
     const clocks = findClocks(circuit, design.directives, options);
     const plan = buildPhases(circuit, clocks.clocks, design.directives, options);
-    if (!samePhasePattern(a.plan, plan)) return undefined;
+    // each new phase takes the results of the old one with its clock values
+    const at = phaseCorrespondence(a.plan, plan);
+    if (!at) return undefined;
     const network = { ...a.classification.network, circuit };
-    const classification: Classification = { ...a.classification, network, plan };
+    const classification = phasesTaken(a.classification, at, network, plan);
     const settings = electricalSettings(circuit, design, options);
     const ctx: ElectricalContext = { ...a.electrical!, circuit, network, plan, classification, ...settings, railVolts: railVoltsOf(circuit, network, settings.vddV) };
     const estimates = updateEstimates(ctx, a.estimates!, 'all');
@@ -290,6 +292,13 @@ function afterElectrical(previous: AnalysisResult, deck: Deck, design: Design, o
     });
   }
   return finish(deck, design, circuits, frontEnd, options);
+}
+
+/** A classification's results laid out for another plan: phase i of it takes phase at[i]'s. */
+function phasesTaken(cl: Classification, at: number[], network: Classification['network'], plan: PhasePlan): Classification {
+  if (at.length === cl.perPhase.length && at.every((k, i) => k === i)) return { ...cl, network, plan };
+  const pick = <T>(list: readonly T[]) => at.map((k) => list[k]!);
+  return { ...cl, network, plan, perPhase: pick(cl.perPhase), phaseValues: pick(cl.phaseValues), componentFlags: pick(cl.componentFlags), ...(cl.groupsRead ? { groupsRead: pick(cl.groupsRead) } : {}) };
 }
 
 /**

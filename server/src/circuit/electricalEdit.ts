@@ -67,7 +67,7 @@ export function electricalEdit(previousDeck: Deck, previous: Design, deck: Deck,
   if (sources.length === 0 && !directivesChanged) return undefined;
   // a finding on an edited line (a directive or parameter note) may change with it
   if (previousFrontEnd.some((d) => editedLines.some((l) => l.file === d.file && d.range.start.line >= l.from && d.range.start.line <= l.to))) return undefined;
-  const directives = directivesChanged ? rereadDirectives(deck, previous.directives) : previous.directives;
+  const directives = directivesChanged ? rereadDirectives(deck, previous.directives, previous.circuits) : previous.directives;
   if (!directives) return undefined;
   const circuits: Circuit[] = [];
   for (const c of previous.circuits) {
@@ -80,12 +80,12 @@ export function electricalEdit(previousDeck: Deck, previous: Design, deck: Deck,
 }
 
 /**
- * A `budget` or `temps` line put in or taken out in one file (with those and the `supply`,
- * `clock` and `standby` lines' values changed or not), everything else the same and moved by
- * the edit's line count after it (acceptEdit directiveLinesEdit): the previous design with its
- * lines moved and its directives read again. A `supply`, `clock` or `standby` line put in or
- * taken out names other nets, which rereadDirectives declines. An edit that keeps the line
- * count is `electricalEdit`'s.
+ * A `budget`, `temps` or `standby` line put in or taken out in one file (with those and the
+ * `supply`, `clock` and `standby` lines' values changed or not), everything else the same and
+ * moved by the edit's line count after it (acceptEdit directiveLinesEdit): the previous design
+ * with its lines moved and its directives read again. A `supply` or `clock` line put in or
+ * taken out names other nets, which rereadDirectives declines, as it does a standby on a net
+ * the circuits would number otherwise. An edit that keeps the line count is `electricalEdit`'s.
  */
 export function electricalDirectiveLines(previousDeck: Deck, previous: Design, deck: Deck, previousFrontEnd: readonly Diagnostic[]): { design: Design; shift: LineShift; frontEnd: Diagnostic[] } | undefined {
   const isElectrical = (d: DirectiveLine) => ELECTRICAL_VERBS.has(d.verb);
@@ -96,7 +96,7 @@ export function electricalDirectiveLines(previousDeck: Deck, previous: Design, d
   const oldLines = new Set(x.directives.filter(isElectrical).map((l) => l.range.start.line));
   if (previousFrontEnd.some((f) => f.file === x.file && oldLines.has(f.range.start.line))) return undefined;
   const shifted = shiftedDesign(previous, shift);
-  const directives = rereadDirectives(deck, shifted.directives);
+  const directives = rereadDirectives(deck, shifted.directives, shifted.circuits);
   if (!directives) return undefined;
   const circuits = shifted.circuits.map((c) => withDirectiveSupplies(c, directives));
   return { design: { ...shifted, circuits, directives }, shift, frontEnd: shiftDiagnostics([...previousFrontEnd], shift) };
@@ -193,10 +193,12 @@ function suppliesFrom(c: Circuit, sources: readonly Source[]): Supply[] | undefi
 /**
  * The deck's directives read again as the elaborator reads them (the top level's, then each
  * definition's), when they differ from the previous ones only in values (a budget or corners
- * put in or taken out included): the same clocks and standby scenarios on the same nets, the
- * same everything else, and no finding in the reading.
+ * put in or taken out included): the same clocks on the same nets, the same everything else,
+ * and no finding in the reading. Standby scenarios may also come, go or hold the other level,
+ * on nets every circuit numbers first anyway (`pinnedOtherwise`), so the circuits stay as they
+ * are; whether the phases still fit the classification is the engine's question.
  */
-function rereadDirectives(deck: Deck, previous: DirectiveSet): DirectiveSet | undefined {
+function rereadDirectives(deck: Deck, previous: DirectiveSet, circuits: readonly Circuit[]): DirectiveSet | undefined {
   const into = emptyDirectives();
   const found: Diagnostic[] = [];
   readDeckDirectives(deck, into, found);
@@ -208,9 +210,25 @@ function rereadDirectives(deck: Deck, previous: DirectiveSet): DirectiveSet | un
       budget: undefined,
       tempsC: undefined,
       clocks: d.clocks.map((k) => [k.net, k.inverseOf, k.file, k.range.start.line, k.periodS !== undefined, k.highS !== undefined, k.delayS !== undefined, k.duty !== undefined]),
-      standby: d.standby.map((s) => [s.net, s.level, s.file, s.range.start.line]),
+      standby: undefined,
       // a supply's volts may change, but not to or from zero (a ground)
       supplies: d.supplies.map((s) => [s.net, s.volts === 0, s.file, s.range.start.line]),
     });
-  return shape(into) === shape(previous) ? into : undefined;
+  if (shape(into) !== shape(previous)) return undefined;
+  const scenarios = (d: DirectiveSet) => JSON.stringify(d.standby.map((s) => [s.net, s.level, s.file, s.range.start.line]));
+  if (scenarios(into) !== scenarios(previous) && ![...into.standby, ...previous.standby].every((s) => circuits.every((c) => pinnedOtherwise(c, s.net, into)))) return undefined;
+  return into;
+}
+
+/**
+ * Whether a circuit numbers the net `name` first (elaborate pinnedNets) without a standby
+ * directive naming it: a source's terminal, a clock directive's net or a global. A name the
+ * circuit lacks pins nothing either way.
+ */
+function pinnedOtherwise(c: Circuit, name: string, directives: DirectiveSet): boolean {
+  const id = c.netByName.get(name);
+  if (id === undefined) return true;
+  if (c.nets[id]!.global) return true;
+  if (c.sources.some((s) => s.p === id || s.n === id)) return true;
+  return directives.clocks.some((k) => k.net === name || k.inverseOf === name);
 }

@@ -185,18 +185,20 @@ export function floatWindow(plan: PhasePlan, floatsIn: (p: Phase) => boolean): n
 }
 
 /**
- * Two plans with the same pattern: the same clock nets, and the same phases in the same order
- * with the same clock values, names and standby flags (their times may differ). A classification
- * reads nothing else of a plan.
+ * How a classification made under plan `a` serves plan `b`: for each phase of `b`, a phase of
+ * `a` with the same clock values. A phase's classification reads nothing of the plan but those
+ * values, so this holds when `b` runs the same clocks and has the same set of clock-value
+ * combinations as `a`; its phases may be more or fewer, renamed, re-timed, standby or not (a
+ * standby line for a clock and its inverse repeats a combination the cycle has). The same set
+ * also keeps which nodes float in some phase, and so which have an estimate. Undefined when the
+ * clocks or the combinations differ.
  */
-export function samePhasePattern(a: PhasePlan, b: PhasePlan): boolean {
-  if (a.clocks.length !== b.clocks.length || a.clocks.some((k, i) => k.net !== b.clocks[i]!.net || k.inverseOf !== b.clocks[i]!.inverseOf)) return false;
-  if (a.phases.length !== b.phases.length || a.cycle.length !== b.cycle.length) return false;
-  const sameClocks = (x: Map<number, 0 | 1>, y: Map<number, 0 | 1>) => x.size === y.size && [...x].every(([k, v]) => y.get(k) === v);
-  return a.phases.every((p, i) => {
-    const q = b.phases[i]!;
-    return p.name === q.name && p.standby === q.standby && sameClocks(p.clocks, q.clocks);
-  });
+export function phaseCorrespondence(a: PhasePlan, b: PhasePlan): number[] | undefined {
+  if (a.clocks.length !== b.clocks.length || a.clocks.some((k, i) => k.net !== b.clocks[i]!.net || k.inverseOf !== b.clocks[i]!.inverseOf)) return undefined;
+  const at = b.phases.map((q) => a.phases.findIndex((p) => sameValues(p.clocks, q.clocks)));
+  if (at.includes(-1)) return undefined;
+  if (a.phases.some((p) => !b.phases.some((q) => sameValues(p.clocks, q.clocks)))) return undefined;
+  return at;
 }
 
 /** The plan with its clock nets under a net insertion (core/renumber): the same phases and times. */
