@@ -457,7 +457,7 @@ async function pullSettings(): Promise<void> {
  */
 async function takeSettings(): Promise<void> {
   const was = settings;
-  await guard('settings', () => pullSettings(), Promise.resolve());
+  await guardAsync('settings', () => pullSettings(), undefined);
   if (JSON.stringify(was) === JSON.stringify(settings)) return;
   if (guard('settings', () => answerNewSettings(was), false)) return;
   results.clear();
