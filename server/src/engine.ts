@@ -178,10 +178,7 @@ function splicedFrontEnd(previous: AnalysisResult, deck: Deck, sp: DeviceSplice)
  * of another kind, and the caller analyses afresh. `deck` is the new text's (`readDeck`).
  */
 export function reanalyse(previous: AnalysisResult, deck: Deck, options: EngineOptions = {}): AnalysisResult | undefined {
-  if (options.frontEndOnly === true || options.skipEstimates === true) return undefined;
-  if (previous.circuits.length !== previous.design.circuits.length || previous.circuits.some((a) => !a.electrical || !a.estimates)) return undefined;
-  // a receiver budget reads the first storage node's inverter sizes
-  if (previous.design.directives.budget?.receiver || options.budget?.receiver) return undefined;
+  if (!patchable(previous, options)) return undefined;
   // accept directives alone: the same results, marked again
   const accepted = acceptEdit(previous.deck, previous.design, deck, previous.frontEnd);
   if (accepted) return afterSplice(previous, deck, { design: accepted.design, renumbering: previous.circuits.map(() => undefined), shift: accepted.shift, removedLines: undefined, widened: [] }, options, accepted.frontEnd);
@@ -207,6 +204,16 @@ export function reanalyse(previous: AnalysisResult, deck: Deck, options: EngineO
   return afterSizes(previous, deck, patch, previous.frontEnd, options);
 }
 
+/**
+ * Whether an analysis under `options` can be patched at all: a whole one (every circuit with its
+ * estimates) and no receiver budget, which reads the first storage node's inverter sizes.
+ */
+function patchable(previous: AnalysisResult, options: EngineOptions): boolean {
+  if (options.frontEndOnly === true || options.skipEstimates === true) return false;
+  if (previous.circuits.length !== previous.design.circuits.length || previous.circuits.some((a) => !a.electrical || !a.estimates)) return false;
+  return !previous.design.directives.budget?.receiver && !options.budget?.receiver;
+}
+
 /** The settings an analysis may take anew without elaborating again: the corners and the droop budget. */
 const ELECTRICAL_OPTIONS = new Set<keyof EngineOptions>(['tempsC', 'budget']);
 
@@ -218,9 +225,7 @@ const ELECTRICAL_OPTIONS = new Set<keyof EngineOptions>(['tempsC', 'budget']);
  * tests hold it); undefined for any other change, and for a budget set by the receiving gate.
  */
 export function reanalyseOptions(previous: AnalysisResult, before: EngineOptions, after: EngineOptions): AnalysisResult | undefined {
-  if (after.frontEndOnly === true || after.skipEstimates === true || before.frontEndOnly === true || before.skipEstimates === true) return undefined;
-  if (previous.circuits.length !== previous.design.circuits.length || previous.circuits.some((a) => !a.electrical || !a.estimates)) return undefined;
-  if (before.budget?.receiver || after.budget?.receiver || previous.design.directives.budget?.receiver) return undefined;
+  if (!patchable(previous, before) || !patchable(previous, after)) return undefined;
   const keys = new Set([...Object.keys(before), ...Object.keys(after)] as Array<keyof EngineOptions>);
   for (const k of keys) if (!ELECTRICAL_OPTIONS.has(k) && JSON.stringify(before[k]) !== JSON.stringify(after[k])) return undefined;
   return afterElectrical(previous, previous.deck, previous.design, after);

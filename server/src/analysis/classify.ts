@@ -253,11 +253,7 @@ export function* classifySteps(net: SwitchNetwork, plan: PhasePlan, how: { twins
     const pass: PhasePass = { net, values, local, scratch, states, flags, work, out, storage, buffers };
     const read = new Array<Int32Array | undefined>(net.components.length);
     for (let k = 0; k < net.components.length; k++) {
-      const comp = net.components[k]!;
-      for (let i = 0; i < comp.nodes.length; i++) local[comp.nodes[i]!] = i;
-      buffers.reads.start();
-      classifyComponent(pass, comp);
-      read[k] = buffers.reads.taken();
+      read[k] = checkGroup(pass, net.components[k]!);
       if (due()) yield;
     }
     for (let i = 0; i < c.nets.length; i++) if (net.unreachable[i]) states.set(i, { state: 'undriven', exact: true });
@@ -451,10 +447,8 @@ export function reclassify(previous: Classification, net: SwitchNetwork, rebuilt
     if (read) read.length = groupCount;
     for (const id of queue) {
       const comp = net.components[id]!;
-      for (let i = 0; i < comp.nodes.length; i++) local[comp.nodes[i]!] = i;
-      buffers.reads.start();
-      classifyComponent(pass, comp);
-      if (read) read[id] = buffers.reads.taken();
+      const looked = checkGroup(pass, comp);
+      if (read) read[id] = looked;
       for (const x of comp.nodes) {
         if (net.unreachable[x]) states.set(x, { state: 'undriven', exact: true });
         if (!changed[x] && !sameResult(old.get(x), states.get(x))) changed[x] = 1;
@@ -608,6 +602,14 @@ export function newRecord(): Record<string, 0 | 1> {
 
 function name(net: SwitchNetwork, n: number): string {
   return net.circuit.nets[n]!.name;
+}
+
+/** One group's check in a phase's pass, and the other groups it looked into (undefined: none). */
+function checkGroup(pass: PhasePass, comp: Component): Int32Array | undefined {
+  for (let i = 0; i < comp.nodes.length; i++) pass.local[comp.nodes[i]!] = i;
+  pass.buffers.reads.start();
+  classifyComponent(pass, comp);
+  return pass.buffers.reads.taken();
 }
 
 function classifyComponent(pass: PhasePass, comp: Component): void {

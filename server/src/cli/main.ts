@@ -4,7 +4,7 @@
 import * as fs from 'node:fs';
 import * as path from 'node:path';
 import { analyse } from '../engine';
-import { parseBudget, validTemps, type EngineOptions } from '../core/options';
+import { parseBudget, readClockSpec, validTemps, type EngineOptions } from '../core/options';
 import { addToReport, emptyReport } from '../findings/report';
 import { formatSarif, formatText } from './format';
 import { diskHost } from './diskHost';
@@ -108,21 +108,10 @@ function parseArgs(argv: string[]): CliArgs {
       }
       case '--clock': {
         // --clock clk,period=1n,high=0.5n[,delay=0.1n]  or  --clock clkb,inverse=clk
-        const [netName, ...kvs] = take().split(',');
-        const k: NonNullable<EngineOptions['clocks']>[number] = { net: netName!.toLowerCase() };
-        for (const kv of kvs) {
-          const [key, val] = kv.split('=');
-          if (key === 'inverse' && val) k.inverseOf = val.toLowerCase();
-          else {
-            const v = val === undefined ? undefined : parseSpiceNumber(val.replace(/s$/i, ''));
-            if (v === undefined || (key !== 'period' && key !== 'high' && key !== 'delay')) throw new UsageError(`--clock: cannot read '${kv}' (use period=, high=, delay= or inverse=)`);
-            if (key === 'period') k.periodS = v;
-            else if (key === 'high') k.highS = v;
-            else k.delayS = v;
-          }
-        }
-        if (!netName || (!k.inverseOf && (k.periodS === undefined || k.highS === undefined))) throw new UsageError('--clock needs <net>,period=<t>,high=<t> or <net>,inverse=<net>');
-        (a.options.clocks ??= []).push(k);
+        const { clock, unread } = readClockSpec(take().split(','));
+        if (unread.length) throw new UsageError(`--clock: cannot read '${unread[0]}' (use period=, high=, delay= or inverse=)`);
+        if (!clock) throw new UsageError('--clock needs <net>,period=<t>,high=<t> or <net>,inverse=<net>');
+        (a.options.clocks ??= []).push(clock);
         break;
       }
       case '--standby': {

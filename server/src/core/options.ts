@@ -1,6 +1,7 @@
 // What the user sets outside the netlist (editor settings, CLI flags). Netlist directives win.
 
 import type { DeviceKind } from '../circuit/directives';
+import { parseSpiceNumber } from '../circuit/numbers';
 
 export interface EngineOptions {
   /** Metres per written unit of W and L when the netlist has no `.option scale` or directive. */
@@ -64,4 +65,30 @@ export function parseBudget(text: string): EngineOptions['budget'] | undefined {
 export function validTemps(list: unknown): number[] | undefined {
   if (!Array.isArray(list) || list.length === 0) return undefined;
   return list.every((t) => typeof t === 'number' && Number.isFinite(t) && t > -273.15) ? (list as number[]) : undefined;
+}
+
+/**
+ * A clock as the command line (`clk,period=1n,high=0.5n`) and the settings (`clk period=1n
+ * high=0.5n`) write it, split into words: the net, then `period=`, `high=`, `delay=` (times, an
+ * `s` allowed) or `inverse=<net>`. `clock` is undefined unless it has its period and high time,
+ * or an inverse; `unread` lists the words that are none of those (the CLI refuses them).
+ */
+export function readClockSpec(words: readonly string[]): { clock: NonNullable<EngineOptions['clocks']>[number] | undefined; unread: string[] } {
+  const [net, ...pairs] = words;
+  if (!net) return { clock: undefined, unread: [] };
+  const k: NonNullable<EngineOptions['clocks']>[number] = { net: net.toLowerCase() };
+  const unread: string[] = [];
+  for (const kv of pairs) {
+    const [key, val] = kv.split('=');
+    if (key === 'inverse' && val) {
+      k.inverseOf = val.toLowerCase();
+      continue;
+    }
+    const v = val === undefined ? undefined : parseSpiceNumber(val.replace(/s$/i, ''));
+    if (v === undefined || (key !== 'period' && key !== 'high' && key !== 'delay')) unread.push(kv);
+    else if (key === 'period') k.periodS = v;
+    else if (key === 'high') k.highS = v;
+    else k.delayS = v;
+  }
+  return { clock: k.inverseOf || (k.periodS !== undefined && k.highS !== undefined) ? k : undefined, unread };
 }

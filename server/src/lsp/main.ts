@@ -471,7 +471,7 @@ connection.onDidChangeConfiguration(() => takeSettings());
 /**
  * New corner or budget settings (`was`: the settings before): each open netlist's last analysis
  * takes them (engine `reanalyseOptions`: the classification stands, the estimates are redone),
- * and the findings are published at once; a setting no analysis reads changes nothing. False,
+ * and the findings are published at once; settings that give the same options change nothing. False,
  * with nothing changed, when a netlist has no current analysis or another setting changed:
  * everything is then analysed afresh.
  */
@@ -479,7 +479,6 @@ function answerNewSettings(was: Settings): boolean {
   // the size limit is quoted in the note of a file over it
   if (was.maxAnalysisLines !== settings.maxAnalysisLines) return false;
   const answers: Array<[string, Cached]> = [];
-  let unchanged = 0;
   for (const d of documents.all()) {
     if (rootFor(d.uri) !== d.uri) continue;
     const last = results.get(d.uri);
@@ -487,16 +486,13 @@ function answerNewSettings(was: Settings): boolean {
     const lines = countLines(d.getText());
     const before = engineOptions(lines, was);
     const after = engineOptions(lines);
-    // a setting the analysis does not read (the trace level): nothing to do
-    if (JSON.stringify(before) === JSON.stringify(after)) {
-      unchanged++;
-      continue;
-    }
+    // the same options written another way (10% and 10.0%): nothing to do
+    if (JSON.stringify(before) === JSON.stringify(after)) continue;
     const result = reanalyseOptions(last.result, before, after);
     if (!result) return false;
     answers.push([d.uri, { texts: last.texts, result }]);
   }
-  if (answers.length === 0) return unchanged > 0;
+  if (answers.length === 0) return true;
   connection.console.log(`new corner or budget settings: taken from the last analysis of ${answers.length} open netlist(s)`);
   for (const [uri, cached] of answers) {
     // an analysis under way, or due, read the old settings

@@ -3,8 +3,7 @@
 // clock spec without its times) is left at its default and named in a warning, so a mistyped
 // setting never stops the analysis.
 
-import { parseSpiceNumber } from '../circuit/numbers';
-import { parseBudget, validTemps, type EngineOptions } from '../core/options';
+import { parseBudget, readClockSpec, validTemps, type EngineOptions } from '../core/options';
 
 export interface Settings {
   temps: number[];
@@ -91,21 +90,9 @@ export function readSettings(raw: unknown): { settings: Settings; problems: stri
   return { settings, problems };
 }
 
-/** A clock setting: "clk period=1n high=0.5n [delay=0.1n]" or "clkb inverse=clk"; undefined when it is neither. */
+/** A clock setting: "clk period=1n high=0.5n [delay=0.1n]" or "clkb inverse=clk"; undefined when it is neither (words it cannot read are passed over). */
 export function clockSetting(spec: string): NonNullable<EngineOptions['clocks']>[number] | undefined {
-  const [net, ...kvs] = spec.trim().split(/\s+/);
-  if (!net) return undefined;
-  const k: NonNullable<EngineOptions['clocks']>[number] = { net: net.toLowerCase() };
-  for (const kv of kvs) {
-    const [key, val] = kv.split('=');
-    if (key === 'inverse' && val) k.inverseOf = val.toLowerCase();
-    const n = val ? parseSpiceNumber(val.replace(/s$/i, '')) : undefined;
-    if (n === undefined) continue;
-    if (key === 'period') k.periodS = n;
-    else if (key === 'high') k.highS = n;
-    else if (key === 'delay') k.delayS = n;
-  }
-  return k.inverseOf || (k.periodS !== undefined && k.highS !== undefined) ? k : undefined;
+  return readClockSpec(spec.trim().split(/\s+/)).clock;
 }
 
 /** The engine's options under these settings, for a root file of `lineCount` lines. */
