@@ -54,6 +54,9 @@ async function main(): Promise<void> {
     // a device in a cell with 4,200 copies: over the splice's limit, the full analysis runs (on
     // the design built from the previous one)
     ['a device added to the domino cell (full analysis, elaboration skipped)', (l) => l.startsWith('Mkp dyn out'), (l) => `${l}\nMx dyn clk vdd vdd bp w=0.1u l=0.1u`],
+    // a clock at another period: clk and clkb (two sources) now overlap, new clock values, so
+    // new phases and the full analysis (on the design built from the previous one)
+    ['clkb at another period (new phases: full analysis, elaboration skipped)', (l) => l.startsWith('vclkb '), (l) => l.replace('0.5n 1n)', '0.7n 1.5n)')],
   ], false, true);
   // the same on a netlist of the size most blocks have
   const small = await measure(10_000, [RECONNECTION]);
@@ -159,10 +162,23 @@ async function measure(transistors: number, all: Edit[], flat = false, settingsR
     }
     summary.push(line(corners, times));
   }
+  // the server's peak resident memory (Linux), young generation and all
+  const peak = peakResidentMB(proc.pid);
+  if (peak !== undefined) console.log(`memory    server peak resident ${peak} MB (${size})`);
   await conn.sendRequest('shutdown');
   conn.sendNotification('exit');
   fs.rmSync(dir, { recursive: true, force: true });
   return summary;
+}
+
+/** VmHWM of a live process from /proc, in MB; undefined where there is no /proc. */
+function peakResidentMB(pid: number | undefined): number | undefined {
+  try {
+    const m = /VmHWM:\s+(\d+) kB/.exec(fs.readFileSync(`/proc/${pid}/status`, 'utf8'));
+    return m ? Math.round(Number(m[1]) / 1024) : undefined;
+  } catch {
+    return undefined;
+  }
 }
 
 void main();

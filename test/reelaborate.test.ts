@@ -1,6 +1,7 @@
-// The editor's answer to a reconnection or a device added or deleted in a cell with many copies:
-// `reanalyse` declines it (patching would take longer than a fresh analysis), and the new design
-// is built from the previous one (`reelaborate`) for the later stages to run on. That design must
+// The editor's answer to a reconnection or a device added or deleted in a cell with many copies,
+// and to a clock or standby edit that brings new clock values: `reanalyse` declines it (patching
+// would take longer than a fresh analysis, or the classification cannot stand), and the new
+// design is built from the previous one (`reelaborate`) for the later stages to run on. That design must
 // be the fresh elaboration, and the analysis on it the fresh analysis, finding for finding.
 
 import fc from 'fast-check';
@@ -65,6 +66,18 @@ describe('a design built from the previous one when the analysis is not patched'
       { numRuns: 12, seed: 4242 },
     );
     expect(built).toBeGreaterThan(6);
+  });
+
+  it('a clock at another period, and a standby line that holds one clock of two: new clock values, declined by reanalyse, built by reelaborate, equal to a fresh analysis', () => {
+    const edits = [
+      text.replace('PULSE(0 1 0 10p 10p 0.5n 1n)', 'PULSE(0 1 0 10p 10p 0.7n 1.5n)'),
+      text.replace('\n.end\n', '\n* tidemark: standby clk=0 for=1u\n.end\n'),
+    ];
+    for (const edited of edits) {
+      expect(edited).not.toBe(text);
+      expect(reanalyse(before, readDeck(memoryHost({ [FILE]: edited }), FILE))).toBeUndefined();
+      expect(checkEdit(before, edited)).toBe(true);
+    }
   });
 
   it('an edit of another kind (a width) is not this path', () => {

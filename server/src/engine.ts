@@ -136,14 +136,20 @@ export function* analyseDesignSteps(elaborated: Elaborated, options: EngineOptio
 }
 
 /**
- * When `reanalyse` declines a reconnection or added or deleted devices because the edit reaches
- * too much of the circuit (a cell with thousands of copies), the new design is still built from
- * the previous one, in a fraction of an elaboration's time: the caller runs the later stages
- * on it (`analyseDesignSteps`). Equal to elaborating `deck` afresh (the tests hold it);
- * undefined for an edit of another kind, or one whose front-end findings may change.
+ * When `reanalyse` declines an edit whose design it could build, the new design is still built
+ * from the previous one, in a fraction of an elaboration's time: the caller runs the later
+ * stages on it (`analyseDesignSteps`). That is a reconnection or added or deleted devices that
+ * reach too much of the circuit (a cell with thousands of copies), and a source's values or an
+ * electrical directive that change the phases' pattern (a clock at another period, a clock or
+ * standby line that brings new clock values). Equal to elaborating `deck` afresh (the tests
+ * hold it); undefined for an edit of another kind, or one whose front-end findings may change.
  */
 export function reelaborate(previous: AnalysisResult, deck: Deck, options: EngineOptions = {}): Elaborated | undefined {
   if (options.frontEndOnly === true) return undefined;
+  const lines = electricalDirectiveLines(previous.deck, previous.design, deck, previous.frontEnd);
+  if (lines) return { deck, design: lines.design, frontEnd: lines.frontEnd };
+  const electrical = electricalEdit(previous.deck, previous.design, deck, previous.frontEnd);
+  if (electrical) return { deck, design: electrical.design, frontEnd: previous.frontEnd };
   const noLimit = () => Infinity;
   const rewired = rewireNets(previous.deck, previous.design, deck, noLimit, options);
   if (rewired) {
