@@ -7,7 +7,7 @@
 
 import { movedNets, newToOldNets, renumbered, withNetCells, type NetRenumbering } from '../core/renumber';
 import type { PhasePlan, Phase } from '../phases/phases';
-import { floatWindow } from '../phases/phases';
+import { firstWithSameValues, floatWindow } from '../phases/phases';
 import { evaluateComponent, newScratch, propagateConstants, repropagateConstants, widenValues, X, type Scratch } from './constants';
 import { mosfetOfSwitch, NetRole, SwitchKind, type Component, type SwitchNetwork } from './switchNetwork';
 import { stepDue, runToEnd, type Steps } from '../core/steps';
@@ -242,8 +242,14 @@ export function* classifySteps(net: SwitchNetwork, plan: PhasePlan, how: { twins
   const result: Classification = { network: net, plan, perPhase: [], phaseValues: [], storage, wideComponents: 0, uncheckedComponents: 0, componentFlags: [], groupsRead: [] };
   const buffers = newBuffers(c.nets.length, net.components.length, how.twins !== false);
   const due = stepDue();
-  for (const phase of plan.phases) {
-    const values = propagateConstants(net, phase.clocks, scratch);
+  const first = firstWithSameValues(plan);
+  for (let p = 0; p < plan.phases.length; p++) {
+    // a phase with an earlier one's clock values has its results (shared, never changed)
+    if (first[p] !== p) {
+      takeEarlierPhase(result, first[p]!);
+      continue;
+    }
+    const values = propagateConstants(net, plan.phases[p]!.clocks, scratch);
     result.phaseValues.push(values);
     const states = new Map<number, NodePhaseResult>();
     const flags = new Uint8Array(net.components.length);
@@ -264,6 +270,14 @@ export function* classifySteps(net: SwitchNetwork, plan: PhasePlan, how: { twins
   countFlags(result);
   witnessMemos.set(result, buffers.witnesses);
   return result;
+}
+
+/** Phase results of an earlier phase `k` appended for the next one (same clock values). */
+function takeEarlierPhase(cl: Classification, k: number): void {
+  cl.phaseValues.push(cl.phaseValues[k]!);
+  cl.perPhase.push(cl.perPhase[k]!);
+  cl.componentFlags.push(cl.componentFlags[k]!);
+  if (cl.groupsRead) cl.groupsRead.push(cl.groupsRead[k]!);
 }
 
 /**
@@ -394,7 +408,12 @@ export function reclassify(previous: Classification, net: SwitchNetwork, rebuilt
     }
     return out;
   });
+  const first = firstWithSameValues(plan);
   for (let p = 0; p < plan.phases.length; p++) {
+    if (first[p] !== p) {
+      takeEarlierPhase(result, first[p]!);
+      continue;
+    }
     const before = previous.phaseValues[p]!;
     const values = repropagateConstants(net, before, rebuilt, scratch);
     if (!values) return undefined;

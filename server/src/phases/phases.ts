@@ -154,6 +154,17 @@ export function buildPhases(c: Circuit, clocks: Clock[], directives: DirectiveSe
   return { phases, cycle, hyperperiodS, capped, clocks, diagnostics };
 }
 
+/**
+ * For each phase, the first phase with the same clock values (itself when none comes before):
+ * a phase's classification reads only its clock values, so one done is one done for each.
+ */
+export function firstWithSameValues(plan: PhasePlan): number[] {
+  return plan.phases.map((q, i) => {
+    const k = plan.phases.findIndex((p) => sameValues(p.clocks, q.clocks));
+    return k < i ? k : i;
+  });
+}
+
 function sameValues(a: Map<number, 0 | 1>, b: Map<number, 0 | 1>): boolean {
   if (a.size !== b.size) return false;
   for (const [k, v] of a) if (b.get(k) !== v) return false;

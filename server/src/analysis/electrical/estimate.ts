@@ -5,6 +5,7 @@
 import { newToOldNets, renumbered, withNetCells, type NetRenumbering } from '../../core/renumber';
 import { floatsIn, nodeFloatWindow, type NodePhaseResult } from '../classify';
 import { evaluateComponent, newScratch, type Scratch } from '../constants';
+import { firstWithSameValues } from '../../phases/phases';
 import { mosfetOfSwitch, NetRole, SwitchKind } from '../switchNetwork';
 import { carryToTwin, estimateRecord, familyOf, type Family } from './family';
 import { stepDue, runToEnd, type Steps } from '../../core/steps';
@@ -78,15 +79,21 @@ type LeakCache = Map<string, { corners: Array<{ leakageA: number; retentionS: nu
 
 /**
  * `twins: false` estimates every storage node on its own even when an identically wired node of
- * the same structure was estimated already (for the test that holds the two ways equal).
+ * the same structure was estimated already; `shared: false` also takes nothing from another
+ * node of the same structure key (for the tests that hold the ways equal).
  */
-export function estimateNodes(ctx: ElectricalContext, how: { twins?: boolean } = {}): Map<number, NodeEstimate> {
+export function estimateNodes(ctx: ElectricalContext, how: EstimateHow = {}): Map<number, NodeEstimate> {
   return runToEnd(estimateNodeSteps(ctx, how));
 }
 
+interface EstimateHow {
+  twins?: boolean;
+  shared?: boolean;
+}
+
 /** `estimateNodes` in slices (see core/steps). */
-export function* estimateNodeSteps(ctx: ElectricalContext, how: { twins?: boolean } = {}): Steps<Map<number, NodeEstimate>> {
-  const run = new EstimateRun(ctx, how.twins !== false);
+export function* estimateNodeSteps(ctx: ElectricalContext, how: EstimateHow = {}): Steps<Map<number, NodeEstimate>> {
+  const run = new EstimateRun(ctx, how.twins !== false && how.shared !== false, how.shared !== false);
   const out = new Map<number, NodeEstimate>();
   const due = stepDue();
   for (let n = 0; n < ctx.circuit.nets.length; n++) {
@@ -147,7 +154,7 @@ export function updateEstimates(ctx: ElectricalContext, previous: ReadonlyMap<nu
       const devices = canonicalDevices(ctx, n);
       let twin: NodeEstimate | undefined;
       if (ctx.classification.storage[n]) twin = carryToTwin(ctx, (first.family ??= familyOf(ctx, first.estimate)), n, devices);
-      else twin = copyEstimate(first.estimate, n, devices);
+      else twin = copyEstimate(ctx, first.estimate, n, devices);
       if (twin) {
         changes.set(n, twin);
         shareOf[n] = first.estimate.node;
@@ -295,15 +302,34 @@ export function nodesReading(ctx: ElectricalContext, mosfets: Iterable<number>):
  * An internal node's estimate from another node of identical structure: its own node and
  * devices, and its own keeper devices found by position (undefined if one is not among them).
  */
-function copyEstimate(from: NodeEstimate, n: number, devices: number[]): NodeEstimate | undefined {
-  const k = from.keeper;
-  if (!k) return estimateRecord(from, n, devices);
+function copyEstimate(ctx: ElectricalContext, from: NodeEstimate, n: number, devices: number[]): NodeEstimate | undefined {
   const own = (d: number) => devices[from.devices.indexOf(d)];
+  const aggressors = ownAggressors(ctx, from.capacitance.aggressors, own);
+  if (!aggressors) return undefined;
+  const out = estimateRecord(from, n, devices);
+  if (aggressors !== from.capacitance.aggressors) out.capacitance = { ...from.capacitance, aggressors };
+  const k = from.keeper;
+  if (!k) return out;
   const keeperDevices = k.devices.map(own);
   const against = k.against.map(own);
   if (keeperDevices.some((d) => d === undefined) || against.some((d) => d === undefined)) return undefined;
-  const out = estimateRecord(from, n, devices);
   out.keeper = { ...k, devices: keeperDevices as number[], against: against as number[] };
+  return out;
+}
+
+/**
+ * The capacitance aggressors of a copied estimate with the copy's own devices and nets: an
+ * overlap is through a device of the group, whose gate is the aggressor. Undefined when one is
+ * not (a capacitor to another net): the node is then estimated on its own.
+ */
+function ownAggressors(ctx: ElectricalContext, list: CapacitanceBreakdown['aggressors'], own: (d: number) => number | undefined): CapacitanceBreakdown['aggressors'] | undefined {
+  if (list.length === 0) return list;
+  const out: CapacitanceBreakdown['aggressors'] = [];
+  for (const a of list) {
+    const d = a.device === undefined ? undefined : own(a.device);
+    if (d === undefined || a.via !== 'overlap') return undefined;
+    out.push({ net: ctx.circuit.mosfets[d]!.g, capacitanceF: a.capacitanceF, via: 'overlap', device: d });
+  }
   return out;
 }
 
@@ -314,14 +340,18 @@ class EstimateRun {
   private readonly storageCache = new Map<string, { estimate: NodeEstimate; position: Map<number, number>; family?: Family }>();
   private readonly constantEverywhere: (n: number) => boolean;
   private readonly keyNumbers: KeyNumbers;
+  /** For each phase, the first with its clock values (so with its results and values). */
+  private readonly firstPhase: number[];
   /** Node -> the node whose solve its estimate copies. */
   readonly shareOf = new Map<number, number>();
 
   constructor(
     private readonly ctx: ElectricalContext,
     private readonly twins = true,
+    private readonly shared = true,
   ) {
     this.keyNumbers = new KeyNumbers(ctx.circuit.mosfets);
+    this.firstPhase = firstWithSameValues(ctx.plan);
     const values = ctx.classification.phaseValues;
     this.constantEverywhere = (n: number) => Number.isFinite(ctx.railVolts[n]!) || values.every((v) => v[n] !== 2 && v[n] === values[0]![n]);
   }
@@ -332,14 +362,18 @@ class EstimateRun {
     const cl = ctx.classification;
     const values = cl.phaseValues;
     if (ctx.network.role[n] !== NetRole.Internal || ctx.network.unreachable[n]) return undefined;
-    const states = cl.perPhase.map((m) => m.get(n));
-    const floating = states.map((s, i) => ({ s, i })).filter(({ s }) => s && (floatsIn(s) || s.state === 'kept')) as Array<{ s: NodePhaseResult; i: number }>;
-    if (floating.length === 0) return undefined;
+    // most nets are driven in every phase: nothing is built for them
+    let floating: Array<{ s: NodePhaseResult; i: number }> | undefined;
+    for (let i = 0; i < cl.perPhase.length; i++) {
+      const s = cl.perPhase[i]!.get(n);
+      if (s && (floatsIn(s) || s.state === 'kept')) (floating ??= []).push({ s, i });
+    }
+    if (!floating) return undefined;
     // Nodes repeat with every instance of a cell: one leakage solve serves all instances whose
     // group has the same devices, sizes and surroundings (checked by structureKey).
-    const { key, devices } = structureKey(ctx, n, floating, values, this.keyNumbers);
+    const { key, devices } = structureKey(ctx, n, floating, values, this.keyNumbers, this.firstPhase, this.constantEverywhere);
     if (cl.storage[n]) {
-      const prior = this.storageCache.get(key);
+      const prior = this.shared ? this.storageCache.get(key) : undefined;
       // an identically wired twin takes the first node's estimate with its own nets put in
       const twin = prior && this.twins ? carryToTwin(ctx, (prior.family ??= familyOf(ctx, prior.estimate)), n, devices) : undefined;
       if (twin) {
@@ -362,8 +396,8 @@ class EstimateRun {
       this.shareOf.set(n, n);
       return e;
     }
-    const hit = this.internalCache.get(key);
-    const copy = hit && copyEstimate(hit.estimate, n, devices);
+    const hit = this.shared ? this.internalCache.get(key) : undefined;
+    const copy = hit && copyEstimate(ctx, hit.estimate, n, devices);
     if (copy) {
       this.shareOf.set(n, hit!.estimate.node);
       return copy;
@@ -394,7 +428,8 @@ function estimateNode(ctx: ElectricalContext, n: number, devices: number[], floa
   const note = (x: string) => notes.includes(x) || notes.push(x);
   const keptState = floating.find((f) => f.s.state === 'kept')?.s;
   // the level a dynamic node is meant to keep: what other phases drive it to, else its keeper's
-  const drivenTo = values.map((v, i) => (floating.some((f) => f.i === i) ? 2 : v[n]!)).find((v) => v !== 2);
+  const driven = drivenLevel(n, floating, values);
+  const drivenTo = driven === 2 ? undefined : driven;
   const primaryLevel: 0 | 1 = keptState?.keptLevel ?? (drivenTo === 0 ? 0 : 1);
   const island = new Set<number>([n]);
   const capAt = (v: number) => islandCapacitance(ctx, island, v).totalF;
@@ -543,7 +578,15 @@ function originId(o: object): number {
  * The key is a list of small integers (KeyWriter), with the numbers and devices it quotes
  * numbered by the pass (`ids`): every floating node of the circuit gets one, so it is kept cheap.
  */
-function structureKey(ctx: ElectricalContext, n: number, floating: Array<{ s: NodePhaseResult; i: number }>, values: Uint8Array[], ids: KeyNumbers): { key: string; devices: number[] } {
+function structureKey(
+  ctx: ElectricalContext,
+  n: number,
+  floating: Array<{ s: NodePhaseResult; i: number }>,
+  values: Uint8Array[],
+  ids: KeyNumbers,
+  firstPhase: readonly number[],
+  constantEverywhere: (x: number) => boolean,
+): { key: string; devices: number[] } {
   const net = ctx.network;
   const c = ctx.circuit;
   const comp = net.components[net.componentOf[n]!]!;
@@ -554,6 +597,9 @@ function structureKey(ctx: ElectricalContext, n: number, floating: Array<{ s: No
   // nets outside the group are numbered in the order met, with their role and their value in
   // each floating phase: two nodes match only if their surroundings are wired alike
   const outside = new Map<number, number>();
+  // a floating phase with an earlier one's clock values has its results and values (the phase
+  // indices, written below, say which): only the first is written out
+  const distinct = floating.length > 1 ? floating.filter((f) => firstPhase[f.i] === f.i) : floating;
   const code = (x: number): void => {
     const l = local ? (local.get(x) ?? -1) : nodes.indexOf(x);
     if (l >= 0) {
@@ -571,12 +617,15 @@ function structureKey(ctx: ElectricalContext, n: number, floating: Array<{ s: No
       key.tag(4).int(k);
       return;
     }
-    key.tag(5).int(outside.size).int(net.role[x]!);
+    // whether it is a constant in every phase (a coupling aggressor only when it is not)
+    key.tag(5).int(outside.size).int(net.role[x]!).int(constantEverywhere(x) ? 1 : 0);
     outside.set(x, outside.size);
-    for (let f = 0; f < floating.length; f++) key.int(assignedGate(floating[f]!.s.gateAssignment, x) ?? values[floating[f]!.i]![x]!);
+    for (let f = 0; f < distinct.length; f++) key.int(assignedGate(distinct[f]!.s.gateAssignment, x) ?? values[distinct[f]!.i]![x]!);
   };
   key.int(floating.length);
   for (const f of floating) key.int(f.i).int(stateId(f.s.state));
+  // the level the other phases drive it to (its primary level, and whether it holds data)
+  key.int(drivenLevel(n, floating, values));
   key.int(originId(c.nets[n]!.origin));
   const devices = canonicalDevices(ctx, n);
   for (const si of comp.switches) {
@@ -611,7 +660,7 @@ function structureKey(ctx: ElectricalContext, n: number, floating: Array<{ s: No
   }
   // what the input variants read (inputVariants): the inputs each float needs, and the groups
   // driving the gates that come from logic, wired as they are
-  for (const f of floating) {
+  for (const f of distinct) {
     const needed: number[] = [];
     const when = f.s.when;
     if (when)
@@ -640,6 +689,15 @@ function structureKey(ctx: ElectricalContext, n: number, floating: Array<{ s: No
     }
   }
   return { key: key.text(), devices };
+}
+
+/** The node's value in the first phase where it does not float and is not unknown; 2 for none. */
+function drivenLevel(n: number, floating: ReadonlyArray<{ i: number }>, values: readonly Uint8Array[]): 0 | 1 | 2 {
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i]![n]!;
+    if (v !== 2 && !floating.some((f) => f.i === i)) return v as 0 | 1;
+  }
+  return 2;
 }
 
 /**
