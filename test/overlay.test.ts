@@ -1,6 +1,6 @@
 // The read-only derived maps the quick paths build results from (core/overlay.ts): what they
-// hold, in what order they walk, and that long chains of them fold into plain maps that read
-// the same. Also the per-net arrays carried under a net renumbering (core/renumber.ts).
+// hold, in what order they walk, and that long chains of them squash into one overlay, or fold
+// into plain maps, that read the same. Also the per-net arrays carried under a net renumbering (core/renumber.ts).
 
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
@@ -55,6 +55,42 @@ describe('derived maps', () => {
       expect(m instanceof DerivedMap ? m.depth : 0).toBeLessThanOrEqual(25);
     }
     expect([...m]).toEqual([...expected]);
+  });
+  it('a long chain of overlays is squashed into one overlay on the map below (a lazily renumbered map stays lazy)', () => {
+    calls = 0;
+    const bottom = RenumberedMap.over(lists(), Int32Array.from([0, 1, 2, 3]), renumber);
+    let m: Map<number, number[]> = bottom;
+    for (let round = 0; round < 60; round++) m = OverlayMap.over(m, new Map([[3, [round]]]));
+    expect(m instanceof DerivedMap && m.depth).toBeLessThanOrEqual(25);
+    expect(m.get(3)).toEqual([59]);
+    // nothing below was read in full: the renumbered entries are still unread
+    expect(calls).toBe(0);
+    expect([...m]).toEqual([[1, [0, 2]], [3, [59]], [5, [2, 3]]]);
+  });
+  it('a chain of overlays of mixed kinds on a renumbered map walks, looks up and counts as the same edits on a plain map', () => {
+    const change = fc.tuple(fc.nat(30), fc.option(fc.string({ maxLength: 2 }), { nil: undefined }));
+    const same = (v: string, _oldToNew: Int32Array) => v;
+    fc.assert(
+      fc.property(fc.constantFrom('over+extend', 'over+merge'), fc.array(fc.tuple(fc.boolean(), fc.array(change, { maxLength: 6 })), { minLength: 26, maxLength: 80 }), (kinds, edits) => {
+        const start = new Map(Array.from({ length: 12 }, (_, i) => [i * 2, `b${i}`] as [number, string]));
+        let m: Map<number, string> = RenumberedMap.over(start, new Int32Array(0), same);
+        let plain = new Map(start);
+        for (const [adds, list] of edits) {
+          const changes = new Map<number, string | undefined>();
+          for (const [k, v] of list) if (adds || plain.has(k)) changes.set(k, v);
+          if (!adds) m = OverlayMap.over(m, changes);
+          else if (kinds === 'over+extend') m = OverlayMap.extend(m, changes);
+          else m = OverlayMap.mergeInOrder(m, changes);
+          const next = new Map(plain);
+          for (const [k, v] of changes) v === undefined ? next.delete(k) : next.set(k, v);
+          plain = kinds === 'over+merge' ? new Map([...next].sort((a, b) => a[0] - b[0])) : next;
+        }
+        expect(m.size).toBe(plain.size);
+        for (let k = 0; k <= 30; k++) expect([m.has(k), m.get(k)]).toEqual([plain.has(k), plain.get(k)]);
+        expect([...m]).toEqual([...plain]);
+      }),
+      { numRuns: 300, seed: 7 },
+    );
   });
   it('a chain of overlays of one kind walks, looks up and counts as the same edits on a plain map', () => {
     const change = fc.tuple(fc.nat(30), fc.option(fc.string({ maxLength: 2 }), { nil: undefined }));

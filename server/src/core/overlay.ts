@@ -1,7 +1,9 @@
 // Read-only maps made of an earlier map and what an edit changed, so a stage's result after a
 // small edit costs what the edit changed instead of a copy of every entry. Lookups read through
-// to the earlier map; the rarely walked whole map is made once, on demand. Chains of them are
-// folded into a plain map after a few edits, so lookups stay short.
+// to the earlier map; the rarely walked whole map is made once, on demand. Long chains of
+// overlays are squashed into one overlay on the map below them (what the edits changed, merged),
+// so lookups stay short without making the whole map; a chain that cannot be squashed that way
+// is folded into a plain map.
 
 import { composeRenumberings } from './renumber';
 
@@ -110,13 +112,20 @@ export class OverlayMap<K, V> extends DerivedMap<K, V> {
    * order `changes` lists them (as `Map.set` on a copy would put them).
    */
   static extend<K, V>(base: ReadonlyMap<K, V>, changes: ReadonlyMap<K, V | undefined>): Map<K, V> {
+    return OverlayMap.extended(base, changes, false);
+  }
+
+  /** `extend`; `ordered`: the added keys go among the others by key (mergeInOrder). */
+  private static extended<K, V>(base: ReadonlyMap<K, V>, changes: ReadonlyMap<K, V | undefined>, ordered: boolean): Map<K, V> {
     let count = base.size;
     for (const [k, v] of changes) {
       if (base.has(k)) count -= v === undefined ? 1 : 0;
       else count += v === undefined ? 0 : 1;
     }
     const depth = base instanceof DerivedMap ? base.depth + 1 : 1;
-    return new OverlayMap(base, changes, depth, count).folded();
+    const map = new OverlayMap(base, changes, depth, count);
+    map.ordered = ordered;
+    return map.folded();
   }
 
   /**
@@ -124,17 +133,60 @@ export class OverlayMap<K, V> extends DerivedMap<K, V> {
    * walks in ascending key order, and so does the result).
    */
   static mergeInOrder<V>(base: ReadonlyMap<number, V>, changes: ReadonlyMap<number, V | undefined>): Map<number, V> {
-    const map = OverlayMap.extend(base, changes) as Map<number, V>;
-    if (map instanceof OverlayMap) map.ordered = true;
-    else {
-      // folded into a plain map: put it in key order
-      const sorted = new Map([...map].sort((a, b) => a[0] - b[0]));
-      return sorted;
-    }
-    return map;
+    const map = OverlayMap.extended(base, changes, true);
+    // folded into a plain map: put it in key order
+    return map instanceof OverlayMap ? map : new Map([...map].sort((a, b) => a[0] - b[0]));
   }
 
   ordered = false;
+
+  protected override folded(): Map<K, V> {
+    if (this.depth <= MAX_DEPTH) return this;
+    return this.squashed() ?? new Map(this.all());
+  }
+
+  /**
+   * The chain of overlays down to the first map that is not one, as one overlay on that map:
+   * each key's fate as `build` works it out (replaced in place, removed, or added), without
+   * reading the map below beyond `has`. Undefined when one overlay cannot say it (a key removed
+   * and added again moves to the end; ordered and plain additions mixed), or when the map
+   * below is a long chain itself.
+   */
+  private squashed(): OverlayMap<K, V> | undefined {
+    const levels: Array<OverlayMap<K, V>> = [];
+    let bottom: ReadonlyMap<K, V> = this;
+    while (bottom instanceof OverlayMap) {
+      levels.push(bottom);
+      bottom = bottom.base;
+    }
+    const depth = (bottom instanceof DerivedMap ? bottom.depth : 0) + 1;
+    if (depth > MAX_DEPTH / 2) return undefined;
+    const fate = new Map<K, V | undefined>();
+    let orderedAdds = false;
+    let plainAdds = false;
+    for (let i = levels.length - 1; i >= 0; i--) {
+      const level = levels[i]!;
+      for (const [k, v] of level.changes) {
+        if (bottom.has(k)) {
+          // removed, then added again: it goes to the end, which no replacement says
+          if (v !== undefined && fate.has(k) && fate.get(k) === undefined) return undefined;
+          fate.set(k, v);
+        } else if (v === undefined) fate.delete(k);
+        else {
+          // an added key keeps its first place among the additions (as Map.set keeps it)
+          if (!fate.has(k)) {
+            if (level.ordered) orderedAdds = true;
+            else plainAdds = true;
+          }
+          fate.set(k, v);
+        }
+      }
+    }
+    if (orderedAdds && plainAdds) return undefined;
+    const map = new OverlayMap(bottom, fate, depth, this.count);
+    map.ordered = orderedAdds;
+    return map;
+  }
 
   override get(key: K): V | undefined {
     return this.changes.has(key) ? this.changes.get(key) : this.base.get(key);
