@@ -3,8 +3,9 @@
 // `clock`, `standby`, `budget` and `temps` directives. When the phases keep their pattern the
 // classification stands and every estimate is worked out again; the answer must equal a fresh
 // analysis of the new text, finding for finding and figure for figure. Random edits over every
-// sample, the fixtures and a generated datapath, one and two in a row; edits that change the
-// phases' pattern or could make a rail appear or go are declined. The same for new corner and
+// sample, the fixtures and a generated datapath, one and two in a row; an edit after which some
+// combinations of clock values are no longer run keeps the results of the others; edits that
+// bring a new combination or could make a rail appear or go are declined. The same for new corner and
 // budget settings (engine `reanalyseOptions`), which the editor's settings change.
 
 import * as fs from 'node:fs';
@@ -159,6 +160,46 @@ describe('standby lines reuse the classification when the cycle already has thei
     for (const line of ['* tidemark: standby clk=0 for=1u', '* tidemark: standby a0=0 for=1u']) {
       const edited = text.replace('\n.end\n', `\n${line}\n.end\n`);
       expect(reanalyse(before, readDeck(memoryHost({ [file]: edited }), file)), line).toBeUndefined();
+    }
+  });
+});
+
+describe('an edit that stops running some combinations of clock values keeps the results of the others', () => {
+  it('the datapath (2k transistors): a clock back at the period of the other (nine phases to two), a standby line that freed the other clock taken out; a node floating only in a combination no longer run', () => {
+    const file = '/datapath.sp';
+    const text = hierarchicalNetlist(2_000);
+    const cases: Array<[string, string]> = [
+      ['one clock back at the period of the other', text.replace('PULSE(0 1 0 10p 10p 0.5n 1n)', 'PULSE(0 1 0 10p 10p 0.7n 1.5n)')],
+      ['a standby line holding one clock of two taken out', text.replace('\n.end\n', '\n* tidemark: standby clk=0 for=1u\n.end\n')],
+    ];
+    // a node that floats only when both clocks are high, and fights when both are low: a
+    // pull-up the one clock turns off, a pull-down the other clock turns off through an inverter
+    const both = [
+      'two clocks, one node driven in every combination the cycle runs',
+      '.model n nmos level=1 vto=0.4 kp=200u',
+      '.model p pmos level=1 vto=-0.4 kp=80u',
+      'vdd vdd 0 1.0',
+      'vclk1 clk1 0 PULSE(0 1 0 10p 10p 0.5n 1n)',
+      'vclk2 clk2 0 PULSE(1 0 0 10p 10p 0.5n 1n)',
+      'Mib bn clk2 vdd vdd p w=0.4u l=0.1u',
+      'Min bn clk2 0 0 n w=0.2u l=0.1u',
+      'Mup x clk1 vdd vdd p w=0.4u l=0.1u',
+      'Mdn x bn 0 0 n w=0.2u l=0.1u',
+      'Mop y x vdd vdd p w=0.4u l=0.1u',
+      'Mon y x 0 0 n w=0.2u l=0.1u',
+      '.end',
+      '',
+    ].join('\n');
+    cases.push(['the other clock at the period of the first again (the node no longer floats nor fights)', both.replace('PULSE(1 0 0 10p 10p 0.5n 1n)', 'PULSE(1 0 0 10p 10p 0.7n 1.5n)')]);
+    for (const [what, from] of cases) {
+      const to = from.startsWith('two clocks') ? both : text;
+      const before = analyse(memoryHost({ [file]: from }), file);
+      if (to === both) expect(before.diagnostics.filter((d) => /^x[ :]/.test(d.message)).map((d) => d.rule), what).toEqual(['floating-node', 'contention']);
+      const host = memoryHost({ [file]: to });
+      const fast = reanalyse(before, readDeck(host, file));
+      expect(fast, what).toBeDefined();
+      expect(fast!.circuits[0]!.plan.phases.length, what).toBeLessThan(before.circuits[0]!.plan.phases.length);
+      same(file, fast!, analyse(host, file));
     }
   });
 });

@@ -8,6 +8,7 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { analyse, analyseDesignSteps, readDeck, reanalyse, reelaborate, type AnalysisResult } from '../server/src/engine';
 import { elaborate } from '../server/src/circuit/elaborate';
+import { phaseWithValues } from '../server/src/phases/phases';
 import { memoryHost } from '../server/src/core/host';
 import { runToEnd } from '../server/src/core/steps';
 import { hierarchicalNetlist } from '../scripts/netlists';
@@ -78,6 +79,25 @@ describe('a design built from the previous one when the analysis is not patched'
       expect(reanalyse(before, readDeck(memoryHost({ [FILE]: edited }), FILE))).toBeUndefined();
       expect(checkEdit(before, edited)).toBe(true);
     }
+  });
+
+  it('after a clock edit the switch network stands, each phase with clock values the previous analysis had takes its results, and the edit back (nine phases to two) equals a fresh analysis too', () => {
+    const edited = text.replace('PULSE(0 1 0 10p 10p 0.5n 1n)', 'PULSE(0 1 0 10p 10p 0.7n 1.5n)');
+    const built = reelaborate(before, readDeck(memoryHost({ [FILE]: edited }), FILE))!;
+    expect(built.earlier).toBeDefined();
+    const ours = runToEnd(analyseDesignSteps(built));
+    const [a, b] = [ours.circuits[0]!, before.circuits[0]!];
+    expect(a.classification.network.components).toBe(b.classification.network.components);
+    expect(a.plan.phases.length).toBeGreaterThan(b.plan.phases.length);
+    let taken = 0;
+    a.plan.phases.forEach((phase, p) => {
+      const k = phaseWithValues(b.plan, phase);
+      if (k < 0) return;
+      expect(a.classification.perPhase[p]).toBe(b.classification.perPhase[k]);
+      taken++;
+    });
+    expect(taken).toBeGreaterThan(1);
+    expect(checkEdit(ours, text)).toBe(true);
   });
 
   it('an edit of another kind (a width) is not this path', () => {

@@ -9,9 +9,9 @@ import { loadDeck, type Deck } from './circuit/deck';
 import { elaborateSteps } from './circuit/elaborate';
 import type { Circuit, Design } from './circuit/circuit';
 import { findClocks } from './phases/clocks';
-import { buildPhases, phaseCorrespondence, widenPlan, type PhasePlan } from './phases/phases';
+import { buildPhases, phaseCorrespondence, sameClockNets, widenPlan, type PhasePlan } from './phases/phases';
 import { buildSwitchNetworkSteps, patchSwitchNetwork, widenNetwork, type NetworkPatch } from './analysis/switchNetwork';
-import { classifySteps, reclassify, renameStates, renumberDevices, widenClassification, type Classification } from './analysis/classify';
+import { classifySteps, countFlags, reclassify, renameStates, renumberDevices, widenClassification, type Classification } from './analysis/classify';
 import { classificationFindings, reviseClassificationFindings, widenClassificationFacts } from './findings/classificationFindings';
 import { applyAccepts } from './findings/accepts';
 import { buildContextSteps, railVoltsOf, renumberedContext, rewiredContext, widenedContext, type ContextOptions, type ElectricalContext } from './analysis/electrical/context';
@@ -107,6 +107,12 @@ export interface Elaborated {
   deck: Deck;
   design: Design;
   frontEnd: Diagnostic[];
+  /**
+   * Each circuit's earlier analysis, when the edit changed only the values of sources or
+   * electrical directives (every net, device, connection and rail stands): with the same clock
+   * nets its switch network stands, and so do its results for each set of clock values it had.
+   */
+  earlier?: CircuitAnalysis[];
 }
 
 /** The stages after elaboration, in slices (see `analyseSteps`, `reelaborate`). */
@@ -114,12 +120,15 @@ export function* analyseDesignSteps(elaborated: Elaborated, options: EngineOptio
   const { deck, design, frontEnd } = elaborated;
   const circuits: CircuitAnalysis[] = [];
   if (options.frontEndOnly !== true) {
-    for (const circuit of design.circuits) {
+    for (const [i, circuit] of design.circuits.entries()) {
       const clocks = findClocks(circuit, design.directives, options);
       const plan = buildPhases(circuit, clocks.clocks, design.directives, options);
-      const network = yield* buildSwitchNetworkSteps(circuit, clocks.clocks);
+      const earlier = elaborated.earlier?.[i];
+      const stands = earlier !== undefined && sameClockNets(earlier.plan, plan);
+      const network = stands ? { ...earlier.classification.network, circuit } : yield* buildSwitchNetworkSteps(circuit, clocks.clocks);
       yield;
-      const classification = yield* classifySteps(network, plan);
+      // a phase whose clock values the earlier analysis had takes its results (classify reads only those)
+      const classification = yield* classifySteps(network, plan, {}, stands ? earlier.classification : undefined);
       const analysis: CircuitAnalysis = { circuit, plan, classification, findings: { phases: [...clocks.diagnostics, ...plan.diagnostics], classification: classificationFindings(circuit, classification, options), electrical: [], models: [] } };
       circuits.push(analysis);
       if (options.skipEstimates !== true) {
@@ -146,10 +155,11 @@ export function* analyseDesignSteps(elaborated: Elaborated, options: EngineOptio
  */
 export function reelaborate(previous: AnalysisResult, deck: Deck, options: EngineOptions = {}): Elaborated | undefined {
   if (options.frontEndOnly === true) return undefined;
+  const earlier = previous.circuits.length === previous.design.circuits.length ? previous.circuits : undefined;
   const lines = electricalDirectiveLines(previous.deck, previous.design, deck, previous.frontEnd);
-  if (lines) return { deck, design: lines.design, frontEnd: lines.frontEnd };
+  if (lines) return { deck, design: lines.design, frontEnd: lines.frontEnd, ...(earlier ? { earlier } : {}) };
   const electrical = electricalEdit(previous.deck, previous.design, deck, previous.frontEnd);
-  if (electrical) return { deck, design: electrical.design, frontEnd: previous.frontEnd };
+  if (electrical) return { deck, design: electrical.design, frontEnd: previous.frontEnd, ...(earlier ? { earlier } : {}) };
   const noLimit = () => Infinity;
   const rewired = rewireNets(previous.deck, previous.design, deck, noLimit, options);
   if (rewired) {
@@ -270,12 +280,14 @@ function afterSizes(previous: AnalysisResult, deck: Deck, patch: SizePatch, fron
 
 /**
  * After an edit of what the estimates read for the whole circuit (circuit/electricalEdit.ts: a
- * supply's volts, a clock's timing, the budget, the corners): when every circuit's phases keep
- * their pattern (the same clocks, and the same phases with the same clock values, only their
- * times moved), the switch network and the classification stand. The context takes the new
- * supply, corners and budget, and every estimate is worked out again, one solve per family of
- * nodes that shared one (estimate updateEstimates); the findings are written again (the
- * classification's from the same results, with the phases' new times). `shift`: the lines a
+ * supply's volts, a clock's timing, the budget, the corners): when every circuit runs the same
+ * clocks and each of its new phases has clock values an old phase had (only their times moved,
+ * or some combinations are no longer run), the switch network and the classification stand,
+ * each phase with the results of its values. The context takes the new supply, corners and
+ * budget, and every estimate is worked out again, one solve per family of nodes that shared one
+ * (estimate updateEstimates; a node that floated only in a combination no longer run loses its
+ * estimate); the findings are written again (the classification's from the same results, with
+ * the phases' new times, those of the nodes in the dropped combinations worked out again). `shift`: the lines a
  * directive line put in or taken out moved, with `frontEnd` the new text's front-end findings.
  */
 function afterElectrical(previous: AnalysisResult, deck: Deck, design: Design, options: EngineOptions, shift?: LineShift, frontEnd = previous.frontEnd): AnalysisResult | undefined {
@@ -286,10 +298,14 @@ function afterElectrical(previous: AnalysisResult, deck: Deck, design: Design, o
     const clocks = findClocks(circuit, design.directives, options);
     const plan = buildPhases(circuit, clocks.clocks, design.directives, options);
     // each new phase takes the results of the old one with its clock values
-    const at = phaseCorrespondence(a.plan, plan);
-    if (!at) return undefined;
+    const taken = phaseCorrespondence(a.plan, plan);
+    if (!taken) return undefined;
+    const { at, dropped } = taken;
     const network = { ...a.classification.network, circuit };
     const classification = phasesTaken(a.classification, at, network, plan);
+    // the classification's findings of a node in a phase no longer run are worked out again
+    const touched = new Set<number>();
+    for (const k of dropped) for (const n of a.classification.perPhase[k]!.keys()) touched.add(n);
     const settings = electricalSettings(circuit, design, options);
     const ctx: ElectricalContext = { ...a.electrical!, circuit, network, plan, classification, ...settings, railVolts: railVoltsOf(circuit, network, settings.vddV) };
     const estimates = updateEstimates(ctx, a.estimates!, 'all');
@@ -299,7 +315,7 @@ function afterElectrical(previous: AnalysisResult, deck: Deck, design: Design, o
       classification,
       electrical: ctx,
       estimates,
-      findings: { phases: [...clocks.diagnostics, ...plan.diagnostics], classification: reviseClassificationFindings(circuit, classification, a.classification, [], options), electrical: electricalFindings(ctx, estimates), models: shift ? shiftDiagnostics(a.findings.models, shift) : a.findings.models },
+      findings: { phases: [...clocks.diagnostics, ...plan.diagnostics], classification: reviseClassificationFindings(circuit, classification, a.classification, touched, options), electrical: electricalFindings(ctx, estimates), models: shift ? shiftDiagnostics(a.findings.models, shift) : a.findings.models },
     });
   }
   return finish(deck, design, circuits, frontEnd, options);
@@ -309,7 +325,10 @@ function afterElectrical(previous: AnalysisResult, deck: Deck, design: Design, o
 function phasesTaken(cl: Classification, at: number[], network: Classification['network'], plan: PhasePlan): Classification {
   if (at.length === cl.perPhase.length && at.every((k, i) => k === i)) return { ...cl, network, plan };
   const pick = <T>(list: readonly T[]) => at.map((k) => list[k]!);
-  return { ...cl, network, plan, perPhase: pick(cl.perPhase), phaseValues: pick(cl.phaseValues), componentFlags: pick(cl.componentFlags), ...(cl.groupsRead ? { groupsRead: pick(cl.groupsRead) } : {}) };
+  const out: Classification = { ...cl, network, plan, perPhase: pick(cl.perPhase), phaseValues: pick(cl.phaseValues), componentFlags: pick(cl.componentFlags), ...(cl.groupsRead ? { groupsRead: pick(cl.groupsRead) } : {}) };
+  // wide or unchecked in a phase no longer run: counted no more
+  countFlags(out);
+  return out;
 }
 
 /**

@@ -7,7 +7,7 @@
 
 import { movedNets, newToOldNets, renumbered, withNetCells, type NetRenumbering } from '../core/renumber';
 import type { PhasePlan, Phase } from '../phases/phases';
-import { firstWithSameValues, floatWindow } from '../phases/phases';
+import { firstWithSameValues, floatWindow, phaseWithValues } from '../phases/phases';
 import { evaluateComponent, newScratch, propagateConstants, repropagateConstants, widenValues, X, type Scratch } from './constants';
 import { mosfetOfSwitch, NetRole, SwitchKind, type Component, type SwitchNetwork } from './switchNetwork';
 import { stepDue, runToEnd, type Steps } from '../core/steps';
@@ -233,20 +233,33 @@ export function classify(net: SwitchNetwork, plan: PhasePlan, how: { twins?: boo
   return runToEnd(classifySteps(net, plan, how));
 }
 
-/** `classify` in slices (see core/steps). */
-export function* classifySteps(net: SwitchNetwork, plan: PhasePlan, how: { twins?: boolean } = {}): Steps<Classification> {
+/**
+ * `classify` in slices (see core/steps). `earlier`: a classification of a network with the same
+ * groups (an edit of sources' values or electrical directives): each phase with the clock values
+ * of one of its phases takes that phase's results, and the others start from its checked witnesses.
+ */
+export function* classifySteps(net: SwitchNetwork, plan: PhasePlan, how: { twins?: boolean } = {}, earlier?: Classification): Steps<Classification> {
   const c = net.circuit;
   const storage = storageNodes(net);
   const scratch = newScratch(c.nets.length);
   const local = new Int32Array(c.nets.length).fill(-1);
   const result: Classification = { network: net, plan, perPhase: [], phaseValues: [], storage, wideComponents: 0, uncheckedComponents: 0, componentFlags: [], groupsRead: [] };
   const buffers = newBuffers(c.nets.length, net.components.length, how.twins !== false);
+  if (earlier) buffers.witnesses = witnessMemos.get(earlier) ?? buffers.witnesses;
   const due = stepDue();
   const first = firstWithSameValues(plan);
   for (let p = 0; p < plan.phases.length; p++) {
     // a phase with an earlier one's clock values has its results (shared, never changed)
     if (first[p] !== p) {
       takeEarlierPhase(result, first[p]!);
+      continue;
+    }
+    const k = earlier?.groupsRead ? phaseWithValues(earlier.plan, plan.phases[p]!) : -1;
+    if (k >= 0) {
+      result.phaseValues.push(earlier!.phaseValues[k]!);
+      result.perPhase.push(earlier!.perPhase[k]!);
+      result.componentFlags.push(earlier!.componentFlags[k]!);
+      result.groupsRead!.push(earlier!.groupsRead![k]!);
       continue;
     }
     const values = propagateConstants(net, plan.phases[p]!.clocks, scratch);
@@ -314,8 +327,8 @@ class GroupsRead {
   }
 }
 
-/** The two counts: components wide, or unchecked, in at least one phase. */
-function countFlags(cl: Classification): void {
+/** The two counts: components wide, or unchecked, in at least one phase (set on `cl`). */
+export function countFlags(cl: Classification): void {
   const n = cl.network.components.length;
   let wide = 0;
   let unchecked = 0;

@@ -154,6 +154,16 @@ export function buildPhases(c: Circuit, clocks: Clock[], directives: DirectiveSe
   return { phases, cycle, hyperperiodS, capped, clocks, diagnostics };
 }
 
+/** The same clock nets, in the same order, each the inverse of the same one (the switch network reads only which nets are clocks). */
+export function sameClockNets(a: PhasePlan, b: PhasePlan): boolean {
+  return a.clocks.length === b.clocks.length && a.clocks.every((k, i) => k.net === b.clocks[i]!.net && k.inverseOf === b.clocks[i]!.inverseOf);
+}
+
+/** The index of a phase of `plan` with the clock values of `phase`, or -1. */
+export function phaseWithValues(plan: PhasePlan, phase: Phase): number {
+  return plan.phases.findIndex((p) => sameValues(p.clocks, phase.clocks));
+}
+
 /**
  * For each phase, the first phase with the same clock values (itself when none comes before):
  * a phase's classification reads only its clock values, so one done is one done for each.
@@ -198,18 +208,19 @@ export function floatWindow(plan: PhasePlan, floatsIn: (p: Phase) => boolean): n
 /**
  * How a classification made under plan `a` serves plan `b`: for each phase of `b`, a phase of
  * `a` with the same clock values. A phase's classification reads nothing of the plan but those
- * values, so this holds when `b` runs the same clocks and has the same set of clock-value
- * combinations as `a`; its phases may be more or fewer, renamed, re-timed, standby or not (a
- * standby line for a clock and its inverse repeats a combination the cycle has). The same set
- * also keeps which nodes float in some phase, and so which have an estimate. Undefined when the
- * clocks or the combinations differ.
+ * values, so this holds when `b` runs the same clocks and every clock-value combination of `b`
+ * is one of `a`'s; its phases may be more or fewer, renamed, re-timed, standby or not (a standby
+ * line for a clock and its inverse repeats a combination the cycle has). `dropped`: the phases
+ * of `a` whose combination `b` does not have (a node floating only there no longer floats).
+ * Undefined when the clocks differ or `b` has a combination `a` has not.
  */
-export function phaseCorrespondence(a: PhasePlan, b: PhasePlan): number[] | undefined {
-  if (a.clocks.length !== b.clocks.length || a.clocks.some((k, i) => k.net !== b.clocks[i]!.net || k.inverseOf !== b.clocks[i]!.inverseOf)) return undefined;
+export function phaseCorrespondence(a: PhasePlan, b: PhasePlan): { at: number[]; dropped: number[] } | undefined {
+  if (!sameClockNets(a, b)) return undefined;
   const at = b.phases.map((q) => a.phases.findIndex((p) => sameValues(p.clocks, q.clocks)));
   if (at.includes(-1)) return undefined;
-  if (a.phases.some((p) => !b.phases.some((q) => sameValues(p.clocks, q.clocks)))) return undefined;
-  return at;
+  const dropped: number[] = [];
+  a.phases.forEach((p, k) => b.phases.some((q) => sameValues(p.clocks, q.clocks)) || dropped.push(k));
+  return { at, dropped };
 }
 
 /** The plan with its clock nets under a net insertion (core/renumber): the same phases and times. */
