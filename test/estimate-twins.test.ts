@@ -16,20 +16,28 @@ import { hierarchicalNetlist } from '../scripts/netlists';
 
 const SAMPLES = path.join(__dirname, '..', 'samples');
 
-/** Estimates as plain data (maps as entry lists), with and without twins. */
-function both(r: AnalysisResult): { twins: string; own: string; storage: number } {
+/** Estimates as plain data (maps as entry lists): the usual pass, and one made another way (`how`). */
+function twoWays(r: AnalysisResult, how: { twins?: boolean; shared?: boolean }): { usual: string; other: string; count: number; storage: number } {
   const plain = (m: Map<number, unknown>) => JSON.stringify([...m], (_k, v) => (v instanceof Map ? [...v] : v));
-  let twins = '';
-  let own = '';
+  let usual = '';
+  let other = '';
+  let count = 0;
   let storage = 0;
   for (const a of r.circuits) {
     if (!a.electrical) continue;
     const t = estimateNodes(a.electrical);
-    twins += plain(t);
-    own += plain(estimateNodes(a.electrical, { twins: false }));
+    usual += plain(t);
+    other += plain(estimateNodes(a.electrical, how));
+    count += t.size;
     for (const e of t.values()) if (e.storage) storage++;
   }
-  return { twins, own, storage };
+  return { usual, other, count, storage };
+}
+
+/** With and without twins carried. */
+function both(r: AnalysisResult): { twins: string; own: string; storage: number } {
+  const { usual, other, storage } = twoWays(r, { twins: false });
+  return { twins: usual, own: other, storage };
 }
 
 describe('estimates carried to identically wired twins equal their own', () => {
@@ -54,18 +62,8 @@ describe('estimates carried to identically wired twins equal their own', () => {
 // one primary level.
 describe('estimates shared by structure key equal each node estimated on its own', () => {
   function sharedAndAlone(r: AnalysisResult): { shared: string; alone: string; count: number } {
-    const plain = (m: Map<number, unknown>) => JSON.stringify([...m], (_k, v) => (v instanceof Map ? [...v] : v));
-    let shared = '';
-    let alone = '';
-    let count = 0;
-    for (const a of r.circuits) {
-      if (!a.electrical) continue;
-      const t = estimateNodes(a.electrical);
-      shared += plain(t);
-      alone += plain(estimateNodes(a.electrical, { shared: false }));
-      count += t.size;
-    }
-    return { shared, alone, count };
+    const { usual, other, count } = twoWays(r, { shared: false });
+    return { shared: usual, alone: other, count };
   }
   it('the samples', () => {
     for (const name of fs.readdirSync(SAMPLES).filter((f) => f.endsWith('.sp'))) {

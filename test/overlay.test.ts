@@ -9,6 +9,26 @@ import { netInsertion, netRemoval, withNetCells, withNetRows } from '../server/s
 
 const base = () => new Map([[1, 'a'], [3, 'c'], [5, 'e']]);
 
+/**
+ * One edit made both ways: an overlay of `kind` on `m` (an `over` takes only keys the map has),
+ * and the same changes on a copy of `plain` (kept in key order for a merge).
+ */
+function edited(m: Map<number, string>, plain: Map<number, string>, kind: 'over' | 'extend' | 'merge', list: Array<[number, string | undefined]>): [Map<number, string>, Map<number, string>] {
+  const changes = new Map<number, string | undefined>();
+  for (const [k, v] of list) if (kind !== 'over' || plain.has(k)) changes.set(k, v);
+  const next = kind === 'over' ? OverlayMap.over(m, changes) : kind === 'extend' ? OverlayMap.extend(m, changes) : OverlayMap.mergeInOrder(m, changes);
+  const copy = new Map(plain);
+  for (const [k, v] of changes) v === undefined ? copy.delete(k) : copy.set(k, v);
+  return [next, kind === 'merge' ? new Map([...copy].sort((a, b) => a[0] - b[0])) : copy];
+}
+
+/** A derived map counts, looks up (keys 0-30) and walks as the plain map the same edits made. */
+function readsAsPlain(m: Map<number, string>, plain: Map<number, string>): void {
+  expect(m.size).toBe(plain.size);
+  for (let k = 0; k <= 30; k++) expect([m.has(k), m.get(k)]).toEqual([plain.has(k), plain.get(k)]);
+  expect([...m]).toEqual([...plain]);
+}
+
 describe('derived maps', () => {
   it('an overlay replaces and removes in place, and an extension adds after', () => {
     const o = OverlayMap.over(base(), new Map([[3, 'C'], [5, undefined]]));
@@ -75,19 +95,8 @@ describe('derived maps', () => {
         const start = new Map(Array.from({ length: 12 }, (_, i) => [i * 2, `b${i}`] as [number, string]));
         let m: Map<number, string> = RenumberedMap.over(start, new Int32Array(0), same);
         let plain = new Map(start);
-        for (const [adds, list] of edits) {
-          const changes = new Map<number, string | undefined>();
-          for (const [k, v] of list) if (adds || plain.has(k)) changes.set(k, v);
-          if (!adds) m = OverlayMap.over(m, changes);
-          else if (kinds === 'over+extend') m = OverlayMap.extend(m, changes);
-          else m = OverlayMap.mergeInOrder(m, changes);
-          const next = new Map(plain);
-          for (const [k, v] of changes) v === undefined ? next.delete(k) : next.set(k, v);
-          plain = kinds === 'over+merge' ? new Map([...next].sort((a, b) => a[0] - b[0])) : next;
-        }
-        expect(m.size).toBe(plain.size);
-        for (let k = 0; k <= 30; k++) expect([m.has(k), m.get(k)]).toEqual([plain.has(k), plain.get(k)]);
-        expect([...m]).toEqual([...plain]);
+        for (const [adds, list] of edits) [m, plain] = edited(m, plain, !adds ? 'over' : kinds === 'over+extend' ? 'extend' : 'merge', list);
+        readsAsPlain(m, plain);
       }),
       { numRuns: 300, seed: 7 },
     );
@@ -98,19 +107,8 @@ describe('derived maps', () => {
       fc.property(fc.constantFrom('over', 'extend', 'merge'), fc.array(fc.array(change, { maxLength: 6 }), { maxLength: 40 }), (kind, edits) => {
         let m: Map<number, string> = new Map(Array.from({ length: 12 }, (_, i) => [i * 2, `b${i}`] as [number, string]));
         let plain = new Map(m);
-        for (const list of edits) {
-          const changes = new Map<number, string | undefined>();
-          for (const [k, v] of list) if (kind !== 'over' || plain.has(k)) changes.set(k, v);
-          if (kind === 'over') m = OverlayMap.over(m, changes);
-          else if (kind === 'extend') m = OverlayMap.extend(m, changes);
-          else m = OverlayMap.mergeInOrder(m, changes);
-          const next = new Map(plain);
-          for (const [k, v] of changes) v === undefined ? next.delete(k) : next.set(k, v);
-          plain = kind === 'merge' ? new Map([...next].sort((a, b) => a[0] - b[0])) : next;
-        }
-        expect(m.size).toBe(plain.size);
-        for (let k = 0; k <= 30; k++) expect([m.has(k), m.get(k)]).toEqual([plain.has(k), plain.get(k)]);
-        expect([...m]).toEqual([...plain]);
+        for (const list of edits) [m, plain] = edited(m, plain, kind, list);
+        readsAsPlain(m, plain);
       }),
       { numRuns: 300, seed: 5 },
     );
