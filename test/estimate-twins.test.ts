@@ -58,8 +58,8 @@ describe('estimates carried to identically wired twins equal their own', () => {
 // structureKey). With nothing shared each node is estimated on its own: the two must be equal,
 // also with repeated clock values (the key writes a repeated phase's values once). This found
 // two faults in the sharing: a copied internal node quoted its twin's devices and nets as its
-// capacitance aggressors, and twins driven to different levels in their other phases shared
-// one primary level.
+// capacitance aggressors (an internal node now keeps none: only a storage node's coupling reads
+// them), and twins driven to different levels in their other phases shared one primary level.
 describe('estimates shared by structure key equal each node estimated on its own', () => {
   function sharedAndAlone(r: AnalysisResult): { shared: string; alone: string; count: number } {
     const { usual, other, count } = twoWays(r, { shared: false });

@@ -14,6 +14,7 @@ export interface CapacitanceBreakdown {
   explicitF: number;
   /** Explicit capacitance to signal nets (part of the total), by aggressor net. */
   couplingF: number;
+  /** The nets coupled through a capacitor or a gate overlap (in an estimate: a storage node's only, for its coupling droop). */
   aggressors: Array<{ net: number; capacitanceF: number; via: 'capacitor' | 'overlap'; device?: number }>;
   estimatedGeometry: boolean;
 }

@@ -154,7 +154,7 @@ export function updateEstimates(ctx: ElectricalContext, previous: ReadonlyMap<nu
       const devices = canonicalDevices(ctx, n);
       let twin: NodeEstimate | undefined;
       if (ctx.classification.storage[n]) twin = carryToTwin(ctx, (first.family ??= familyOf(ctx, first.estimate)), n, devices);
-      else twin = copyEstimate(ctx, first.estimate, n, devices);
+      else twin = copyEstimate(first.estimate, n, devices);
       if (twin) {
         changes.set(n, twin);
         shareOf[n] = first.estimate.node;
@@ -302,34 +302,15 @@ export function nodesReading(ctx: ElectricalContext, mosfets: Iterable<number>):
  * An internal node's estimate from another node of identical structure: its own node and
  * devices, and its own keeper devices found by position (undefined if one is not among them).
  */
-function copyEstimate(ctx: ElectricalContext, from: NodeEstimate, n: number, devices: number[]): NodeEstimate | undefined {
-  const own = (d: number) => devices[from.devices.indexOf(d)];
-  const aggressors = ownAggressors(ctx, from.capacitance.aggressors, own);
-  if (!aggressors) return undefined;
-  const out = estimateRecord(from, n, devices);
-  if (aggressors !== from.capacitance.aggressors) out.capacitance = { ...from.capacitance, aggressors };
+function copyEstimate(from: NodeEstimate, n: number, devices: number[]): NodeEstimate | undefined {
   const k = from.keeper;
-  if (!k) return out;
+  if (!k) return estimateRecord(from, n, devices);
+  const own = (d: number) => devices[from.devices.indexOf(d)];
   const keeperDevices = k.devices.map(own);
   const against = k.against.map(own);
   if (keeperDevices.some((d) => d === undefined) || against.some((d) => d === undefined)) return undefined;
+  const out = estimateRecord(from, n, devices);
   out.keeper = { ...k, devices: keeperDevices as number[], against: against as number[] };
-  return out;
-}
-
-/**
- * The capacitance aggressors of a copied estimate with the copy's own devices and nets: an
- * overlap is through a device of the group, whose gate is the aggressor. Undefined when one is
- * not (a capacitor to another net): the node is then estimated on its own.
- */
-function ownAggressors(ctx: ElectricalContext, list: CapacitanceBreakdown['aggressors'], own: (d: number) => number | undefined): CapacitanceBreakdown['aggressors'] | undefined {
-  if (list.length === 0) return list;
-  const out: CapacitanceBreakdown['aggressors'] = [];
-  for (const a of list) {
-    const d = a.device === undefined ? undefined : own(a.device);
-    if (d === undefined || a.via !== 'overlap') return undefined;
-    out.push({ net: ctx.circuit.mosfets[d]!.g, capacitanceF: a.capacitanceF, via: 'overlap', device: d });
-  }
   return out;
 }
 
@@ -397,7 +378,7 @@ class EstimateRun {
       return e;
     }
     const hit = this.shared ? this.internalCache.get(key) : undefined;
-    const copy = hit && copyEstimate(ctx, hit.estimate, n, devices);
+    const copy = hit && copyEstimate(hit.estimate, n, devices);
     if (copy) {
       this.shareOf.set(n, hit!.estimate.node);
       return copy;
@@ -434,7 +415,11 @@ function estimateNode(ctx: ElectricalContext, n: number, devices: number[], floa
   const island = new Set<number>([n]);
   const capAt = (v: number) => islandCapacitance(ctx, island, v).totalF;
   // the aggressors of a reused breakdown name another instance's nets: recompute them
-  const capacitance = reuse ? { ...reuse.capacitance, aggressors: islandCapacitance(ctx, island, primaryLevel * vdd).aggressors } : islandCapacitance(ctx, island, primaryLevel * vdd);
+  const breakdown = islandCapacitance(ctx, island, primaryLevel * vdd);
+  // the aggressors feed a storage node's coupling droop and nothing else: an internal node keeps
+  // none (so a copy of its estimate quotes no other node's devices or nets)
+  const aggressors = storage ? breakdown.aggressors : [];
+  const capacitance = reuse ? { ...reuse.capacitance, aggressors } : aggressors === breakdown.aggressors ? breakdown : { ...breakdown, aggressors };
   const stored: StoredEstimate[] = reuse ? reuse.stored : [];
   const hotIndex = ctx.corners.reduce((b, k, i) => (k.tempK > ctx.corners[b]!.tempK ? i : b), 0);
   let keeperInfo: NodeEstimate['keeper'] = reuse?.keeper;
