@@ -8,7 +8,7 @@
 import { composeRenumberings } from './renumber';
 
 const MAX_DEPTH = 24;
-/** An overlay level with more changed entries than 1/this of the nets is renumbered lazily (NetKeyedMap.over). */
+/** An overlay level with more changed entries than 1/this of the nets (or devices) is renumbered lazily. */
 const LAZY_CHANGES_FRACTION = 16;
 
 /**
@@ -149,8 +149,8 @@ export class OverlayMap<K, V> extends DerivedMap<K, V> {
    * The chain of overlays down to the first map that is not one, as one overlay on that map:
    * each key's fate as `build` works it out (replaced in place, removed, or added), without
    * reading the map below beyond `has`. Undefined when one overlay cannot say it (a key removed
-   * and added again moves to the end; ordered and plain additions mixed), or when the map
-   * below is a long chain itself.
+   * and added again by a plain addition moves to the end; ordered and plain additions mixed),
+   * or when the map below is a long chain itself.
    */
   private squashed(): OverlayMap<K, V> | undefined {
     const levels: Array<OverlayMap<K, V>> = [];
@@ -168,8 +168,13 @@ export class OverlayMap<K, V> extends DerivedMap<K, V> {
       const level = levels[i]!;
       for (const [k, v] of level.changes) {
         if (bottom.has(k)) {
-          // removed, then added again: it goes to the end, which no replacement says
-          if (v !== undefined && fate.has(k) && fate.get(k) === undefined) return undefined;
+          if (v !== undefined && fate.has(k) && fate.get(k) === undefined) {
+            // removed, then added again: a plain addition goes to the end, which no replacement
+            // says; an ordered one goes back to its place by key (the map below walks in key
+            // order), which a replacement says
+            if (!level.ordered) return undefined;
+            orderedAdds = true;
+          }
           fate.set(k, v);
         } else if (v === undefined) fate.delete(k);
         else {
@@ -309,8 +314,16 @@ export class RenumberedMap<K, V> extends DerivedMap<K, V> {
     }
     if (map instanceof OverlayMap) {
       const o = map as OverlayMap<K, V>;
-      const changes = new Map<K, V | undefined>();
-      for (const [k, v] of o.changes) changes.set(k, v === undefined ? undefined : renumber(v, oldToNew));
+      // a level's few changes are renumbered at once; many (a squashed chain, an edit in a cell
+      // with many copies) are read under the renumbering when first read (a removal reads as
+      // undefined there too)
+      let changes: ReadonlyMap<K, V | undefined>;
+      if (o.changes.size * LAZY_CHANGES_FRACTION > oldToNew.length) changes = RenumberedMap.over(o.changes as ReadonlyMap<K, V>, oldToNew, renumber);
+      else {
+        const now = new Map<K, V | undefined>();
+        for (const [k, v] of o.changes) now.set(k, v === undefined ? undefined : renumber(v, oldToNew));
+        changes = now;
+      }
       return OverlayMap.rebased(o, RenumberedMap.over(o.base, oldToNew, renumber), changes);
     }
     const depth = map instanceof DerivedMap ? map.depth + 1 : 1;
