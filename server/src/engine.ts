@@ -287,8 +287,9 @@ function afterSizes(previous: AnalysisResult, deck: Deck, patch: SizePatch, fron
  * budget, and every estimate is worked out again, one solve per family of nodes that shared one
  * (estimate updateEstimates; a node that floated only in a combination no longer run loses its
  * estimate); the findings are written again (the classification's from the same results, with
- * the phases' new times, those of the nodes in the dropped combinations worked out again). `shift`: the lines a
- * directive line put in or taken out moved, with `frontEnd` the new text's front-end findings.
+ * the phases' new times, those of the nodes in the dropped combinations worked out again).
+ * `shift`: the lines a directive line put in or taken out moved, with `frontEnd` the new text's
+ * front-end findings.
  */
 function afterElectrical(previous: AnalysisResult, deck: Deck, design: Design, options: EngineOptions, shift?: LineShift, frontEnd = previous.frontEnd): AnalysisResult | undefined {
   const circuits: CircuitAnalysis[] = [];
