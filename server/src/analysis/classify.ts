@@ -251,15 +251,12 @@ export function* classifySteps(net: SwitchNetwork, plan: PhasePlan, how: { twins
   for (let p = 0; p < plan.phases.length; p++) {
     // a phase with an earlier one's clock values has its results (shared, never changed)
     if (first[p] !== p) {
-      takeEarlierPhase(result, first[p]!);
+      takePhase(result, result, first[p]!);
       continue;
     }
     const k = earlier?.groupsRead ? phaseWithValues(earlier.plan, plan.phases[p]!) : -1;
     if (k >= 0) {
-      result.phaseValues.push(earlier!.phaseValues[k]!);
-      result.perPhase.push(earlier!.perPhase[k]!);
-      result.componentFlags.push(earlier!.componentFlags[k]!);
-      result.groupsRead!.push(earlier!.groupsRead![k]!);
+      takePhase(result, earlier!, k);
       continue;
     }
     const values = propagateConstants(net, plan.phases[p]!.clocks, scratch);
@@ -285,12 +282,16 @@ export function* classifySteps(net: SwitchNetwork, plan: PhasePlan, how: { twins
   return result;
 }
 
-/** Phase results of an earlier phase `k` appended for the next one (same clock values). */
-function takeEarlierPhase(cl: Classification, k: number): void {
-  cl.phaseValues.push(cl.phaseValues[k]!);
-  cl.perPhase.push(cl.perPhase[k]!);
-  cl.componentFlags.push(cl.componentFlags[k]!);
-  if (cl.groupsRead) cl.groupsRead.push(cl.groupsRead[k]!);
+/**
+ * Phase `k`'s results, values, flags and record of reads in `from` (the classification being
+ * made, or an earlier one with a record) appended to `into` for its next phase, which has the
+ * same clock values: shared, never changed.
+ */
+function takePhase(into: Classification, from: Classification, k: number): void {
+  into.phaseValues.push(from.phaseValues[k]!);
+  into.perPhase.push(from.perPhase[k]!);
+  into.componentFlags.push(from.componentFlags[k]!);
+  if (into.groupsRead) into.groupsRead.push(from.groupsRead![k]!);
 }
 
 /**
@@ -424,7 +425,7 @@ export function reclassify(previous: Classification, net: SwitchNetwork, rebuilt
   const first = firstWithSameValues(plan);
   for (let p = 0; p < plan.phases.length; p++) {
     if (first[p] !== p) {
-      takeEarlierPhase(result, first[p]!);
+      takePhase(result, result, first[p]!);
       continue;
     }
     const before = previous.phaseValues[p]!;

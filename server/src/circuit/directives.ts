@@ -67,7 +67,8 @@ export function roleNames(d: DirectiveSet, options: EngineOptions): Set<string> 
 
 export const DIRECTIVE_VERBS = ['clock', 'standby', 'supply', 'ground', 'input', 'output', 'temps', 'budget', 'accept', 'device', 'scale'] as const;
 
-const DEVICE_KINDS = new Set<DeviceKind>(['nmos', 'pmos', 'diode', 'short', 'resistor', 'capacitor']);
+/** The kinds a device rule may give (a `device` directive, the deviceRules setting). */
+export const DEVICE_KINDS: ReadonlySet<string> = new Set<DeviceKind>(['nmos', 'pmos', 'diode', 'short', 'resistor', 'capacitor']);
 
 /** Reads directives into `into`; `out` receives one diagnostic per malformed directive. */
 export function readDirectives(lines: { file: string; item: DirectiveLine }[], into: DirectiveSet, out: Diagnostic[]): void {

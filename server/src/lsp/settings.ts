@@ -4,20 +4,19 @@
 // setting never stops the analysis.
 
 import { parseBudget, readClockSpec, validTemps, type EngineOptions } from '../core/options';
+import { DEVICE_KINDS, type DeviceKind } from '../circuit/directives';
 
 export interface Settings {
   temps: number[];
   budget: string;
   supplies: Record<string, number>;
   clocks: string[];
-  deviceRules: Array<{ pattern: string; kind: DeviceRuleKind }>;
+  deviceRules: Array<{ pattern: string; kind: DeviceKind }>;
   includePaths: string[];
   geometryScale: number | null;
   maxAnalysisLines: number;
 }
 
-type DeviceRuleKind = NonNullable<EngineOptions['deviceRules']>[number]['kind'];
-const DEVICE_KINDS: readonly string[] = ['nmos', 'pmos', 'diode', 'short', 'resistor', 'capacitor'];
 
 export const DEFAULT_SETTINGS: Settings = { temps: [25, 110], budget: '10%', supplies: {}, clocks: [], deviceRules: [], includePaths: [], geometryScale: null, maxAnalysisLines: 400_000 };
 
@@ -68,8 +67,8 @@ export function readSettings(raw: unknown): { settings: Settings; problems: stri
     else
       settings.deviceRules = given.deviceRules.filter((r) => {
         const rule = r as { pattern?: unknown; kind?: unknown } | null;
-        if (rule && typeof rule.pattern === 'string' && rule.pattern !== '' && typeof rule.kind === 'string' && DEVICE_KINDS.includes(rule.kind)) return true;
-        problems.push(`tidemark.deviceRules: ${shown(r)} needs a pattern and a kind (${DEVICE_KINDS.join(', ')}); it is left out`);
+        if (rule && typeof rule.pattern === 'string' && rule.pattern !== '' && typeof rule.kind === 'string' && DEVICE_KINDS.has(rule.kind)) return true;
+        problems.push(`tidemark.deviceRules: ${shown(r)} needs a pattern and a kind (${[...DEVICE_KINDS].join(', ')}); it is left out`);
         return false;
       }) as Settings['deviceRules'];
   }

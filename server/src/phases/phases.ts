@@ -169,10 +169,7 @@ export function phaseWithValues(plan: PhasePlan, phase: Phase): number {
  * a phase's classification reads only its clock values, so one done is one done for each.
  */
 export function firstWithSameValues(plan: PhasePlan): number[] {
-  return plan.phases.map((q, i) => {
-    const k = plan.phases.findIndex((p) => sameValues(p.clocks, q.clocks));
-    return k < i ? k : i;
-  });
+  return plan.phases.map((q) => phaseWithValues(plan, q));
 }
 
 function sameValues(a: Map<number, 0 | 1>, b: Map<number, 0 | 1>): boolean {
@@ -216,10 +213,10 @@ export function floatWindow(plan: PhasePlan, floatsIn: (p: Phase) => boolean): n
  */
 export function phaseCorrespondence(a: PhasePlan, b: PhasePlan): { at: number[]; dropped: number[] } | undefined {
   if (!sameClockNets(a, b)) return undefined;
-  const at = b.phases.map((q) => a.phases.findIndex((p) => sameValues(p.clocks, q.clocks)));
+  const at = b.phases.map((q) => phaseWithValues(a, q));
   if (at.includes(-1)) return undefined;
   const dropped: number[] = [];
-  a.phases.forEach((p, k) => b.phases.some((q) => sameValues(p.clocks, q.clocks)) || dropped.push(k));
+  a.phases.forEach((p, k) => phaseWithValues(b, p) >= 0 || dropped.push(k));
   return { at, dropped };
 }
 

@@ -414,10 +414,10 @@ function estimateNode(ctx: ElectricalContext, n: number, devices: number[], floa
   const primaryLevel: 0 | 1 = keptState?.keptLevel ?? (drivenTo === 0 ? 0 : 1);
   const island = new Set<number>([n]);
   const capAt = (v: number) => islandCapacitance(ctx, island, v).totalF;
-  // the aggressors of a reused breakdown name another instance's nets: recompute them
+  // the aggressors are this node's own (a reused breakdown's name another instance's nets); they
+  // feed a storage node's coupling droop and nothing else, so an internal node keeps none (and a
+  // copy of its estimate quotes no other node's devices or nets)
   const breakdown = islandCapacitance(ctx, island, primaryLevel * vdd);
-  // the aggressors feed a storage node's coupling droop and nothing else: an internal node keeps
-  // none (so a copy of its estimate quotes no other node's devices or nets)
   const aggressors = storage ? breakdown.aggressors : [];
   const capacitance = reuse ? { ...reuse.capacitance, aggressors } : aggressors === breakdown.aggressors ? breakdown : { ...breakdown, aggressors };
   const stored: StoredEstimate[] = reuse ? reuse.stored : [];
