@@ -96,7 +96,12 @@ export function* estimateNodeSteps(ctx: ElectricalContext, how: EstimateHow = {}
   const run = new EstimateRun(ctx, how.twins !== false && how.shared !== false, how.shared !== false);
   const out = new Map<number, NodeEstimate>();
   const due = stepDue();
-  for (let n = 0; n < ctx.circuit.nets.length; n++) {
+  // only a node some phase lists (not driven there) can have an estimate: the others are not
+  // asked for, which was a look-up per net and phase
+  const listed = new Uint8Array(ctx.circuit.nets.length);
+  for (const results of new Set(ctx.classification.perPhase)) for (const n of results.keys()) listed[n] = 1;
+  for (let n = 0; n < listed.length; n++) {
+    if (!listed[n]) continue;
     if (due()) yield;
     const e = run.estimate(n);
     if (e) out.set(n, e);
@@ -319,10 +324,8 @@ class EstimateRun {
   private readonly cache: LeakCache = new Map();
   private readonly internalCache = new Map<string, { estimate: NodeEstimate; position: Map<number, number> }>();
   private readonly storageCache = new Map<string, { estimate: NodeEstimate; position: Map<number, number>; family?: Family }>();
+  private readonly keys: StructureKeys;
   private readonly constantEverywhere: (n: number) => boolean;
-  private readonly keyNumbers: KeyNumbers;
-  /** For each phase, the first with its clock values (so with its results and values). */
-  private readonly firstPhase: number[];
   /** Node -> the node whose solve its estimate copies. */
   readonly shareOf = new Map<number, number>();
 
@@ -331,10 +334,8 @@ class EstimateRun {
     private readonly twins = true,
     private readonly shared = true,
   ) {
-    this.keyNumbers = new KeyNumbers(ctx.circuit.mosfets);
-    this.firstPhase = firstWithSameValues(ctx.plan);
-    const values = ctx.classification.phaseValues;
-    this.constantEverywhere = (n: number) => Number.isFinite(ctx.railVolts[n]!) || values.every((v) => v[n] !== 2 && v[n] === values[0]![n]);
+    const keys = (this.keys = new StructureKeys(ctx));
+    this.constantEverywhere = (n: number) => keys.constantEverywhere(n);
   }
 
   /** The node's estimate, or undefined when it never floats (nothing to estimate). */
@@ -352,7 +353,7 @@ class EstimateRun {
     if (!floating) return undefined;
     // Nodes repeat with every instance of a cell: one leakage solve serves all instances whose
     // group has the same devices, sizes and surroundings (checked by structureKey).
-    const { key, devices } = structureKey(ctx, n, floating, values, this.keyNumbers, this.firstPhase, this.constantEverywhere);
+    const { key, devices } = this.keys.of(n, floating, values);
     if (cl.storage[n]) {
       const prior = this.shared ? this.storageCache.get(key) : undefined;
       // an identically wired twin takes the first node's estimate with its own nets put in
@@ -559,121 +560,174 @@ function originId(o: object): number {
  * A key equal for two nodes whose estimates are necessarily equal: the same defining lines,
  * sizes and models for every device of the node's group and every gate on the node, the same
  * position of the node in the group, and the same phase values and witness gate values around
- * it. Also returns the group's devices in a canonical order, to carry contributor indices over.
+ * it. Also gives the group's devices in a canonical order, to carry contributor indices over.
  * The key is a list of small integers (KeyWriter), with the numbers and devices it quotes
- * numbered by the pass (`ids`): every floating node of the circuit gets one, so it is kept cheap.
+ * numbered by the pass (`ids`): every floating node of the circuit gets one, so it is kept
+ * cheap. One per pass: its buffers are reused from node to node (marks stamped with the node's
+ * turn, so nothing is cleared between nodes).
  */
-function structureKey(
-  ctx: ElectricalContext,
-  n: number,
-  floating: Array<{ s: NodePhaseResult; i: number }>,
-  values: Uint8Array[],
-  ids: KeyNumbers,
-  firstPhase: readonly number[],
-  constantEverywhere: (x: number) => boolean,
-): { key: string; devices: number[] } {
-  const net = ctx.network;
-  const c = ctx.circuit;
-  const comp = net.components[net.componentOf[n]!]!;
-  const nodes = comp.nodes;
-  // groups are mostly a handful of nets: a scan is cheaper than building a map per key
-  const local = nodes.length > 16 ? new Map<number, number>(nodes.map((x, k) => [x, k])) : undefined;
-  const key = new KeyWriter();
-  // nets outside the group are numbered in the order met, with their role and their value in
-  // each floating phase: two nodes match only if their surroundings are wired alike
-  const outside = new Map<number, number>();
-  // a floating phase with an earlier one's clock values has its results and values (the phase
-  // indices, written below, say which): only the first is written out
-  const distinct = floating.length > 1 ? floating.filter((f) => firstPhase[f.i] === f.i) : floating;
-  const code = (x: number): void => {
-    const l = local ? (local.get(x) ?? -1) : nodes.indexOf(x);
-    if (l >= 0) {
-      if (x === n) key.tag(1);
-      else key.tag(2).int(l);
+class StructureKeys {
+  private readonly key = new KeyWriter();
+  private readonly ids: KeyNumbers;
+  /** For each phase, the first with its clock values (so with its results and values). */
+  readonly firstPhase: number[];
+  /** Net -> its turn's stamp when it is in the node's group (`localAt`: its position there). */
+  private readonly localTurn: Int32Array;
+  private readonly localAt: Int32Array;
+  /** Net -> its turn's stamp when met outside the group (`outsideAt`: the order it was met in). */
+  private readonly outsideTurn: Int32Array;
+  private readonly outsideAt: Int32Array;
+  private outsideCount = 0;
+  /** Group id -> its turn's stamp once listed among the node's driving groups. */
+  private readonly driverTurn: Int32Array;
+  /** Net -> 1 a constant in every phase, 0 not, -1 not worked out yet. */
+  private readonly constant: Int8Array;
+  private turn = 0;
+  private n = -1;
+  private distinct: ReadonlyArray<{ s: NodePhaseResult; i: number }> = [];
+  private values: readonly Uint8Array[] = [];
+
+  constructor(private readonly ctx: ElectricalContext) {
+    const nets = ctx.circuit.nets.length;
+    this.ids = new KeyNumbers(ctx.circuit.mosfets);
+    this.firstPhase = firstWithSameValues(ctx.plan);
+    this.localTurn = new Int32Array(nets);
+    this.localAt = new Int32Array(nets);
+    this.outsideTurn = new Int32Array(nets);
+    this.outsideAt = new Int32Array(nets);
+    this.driverTurn = new Int32Array(ctx.network.components.length);
+    this.constant = new Int8Array(nets).fill(-1);
+  }
+
+  /** Whether the net holds one constant value in every phase (a rail, or a tie-off). */
+  constantEverywhere(x: number): boolean {
+    let k = this.constant[x]!;
+    if (k < 0) {
+      const values = this.ctx.classification.phaseValues;
+      this.constant[x] = k = Number.isFinite(this.ctx.railVolts[x]!) || values.every((v) => v[x] !== 2 && v[x] === values[0]![x]) ? 1 : 0;
+    }
+    return k === 1;
+  }
+
+  of(n: number, floating: Array<{ s: NodePhaseResult; i: number }>, values: Uint8Array[]): { key: string; devices: number[] } {
+    const ctx = this.ctx;
+    const net = ctx.network;
+    const c = ctx.circuit;
+    const key = this.key.reset();
+    const turn = ++this.turn;
+    const comp = net.components[net.componentOf[n]!]!;
+    const nodes = comp.nodes;
+    for (let k = 0; k < nodes.length; k++) {
+      this.localTurn[nodes[k]!] = turn;
+      this.localAt[nodes[k]!] = k;
+    }
+    this.n = n;
+    this.outsideCount = 0;
+    this.values = values;
+    // a floating phase with an earlier one's clock values has its results and values (the phase
+    // indices, written below, say which): only the first is written out
+    this.distinct = floating.length > 1 ? floating.filter((f) => this.firstPhase[f.i] === f.i) : floating;
+    key.int(floating.length);
+    for (const f of floating) key.int(f.i).int(stateId(f.s.state));
+    // the level the other phases drive it to (its primary level, and whether it holds data)
+    key.int(drivenLevel(n, floating, values));
+    key.int(originId(c.nets[n]!.origin));
+    const devices = canonicalDevices(ctx, n);
+    for (const si of comp.switches) {
+      const s = net.switches[si]!;
+      if (s.kind === SwitchKind.On) {
+        key.tag(6);
+        this.code(s.a);
+        this.code(s.b);
+        continue;
+      }
+      const m = c.mosfets[si]!;
+      key.tag(7).int(this.ids.device(si));
+      this.code(m.d);
+      this.code(m.g);
+      this.code(m.s);
+      this.code(m.b);
+    }
+    for (const i of ctx.gateOf(n)) {
+      const m = c.mosfets[i]!;
+      key.tag(8).int(this.ids.device(i));
+      this.code(m.d);
+      this.code(m.s);
+      this.code(m.b);
+    }
+    for (const x of nodes) {
+      for (const k of ctx.capsOf[x]!) {
+        const cap = c.capacitors[k]!;
+        key.tag(9).int(this.ids.number(cap.capacitanceF));
+        this.code(cap.a);
+        this.code(cap.b);
+      }
+    }
+    // what the input variants read (inputVariants): the inputs each float needs, and the groups
+    // driving the gates that come from logic, wired as they are
+    for (const f of this.distinct) {
+      const when = f.s.when;
+      if (!when) {
+        key.tag(10).int(0);
+        continue;
+      }
+      const needed: number[] = [];
+      for (const name in when) {
+        const id = c.netByName.get(name);
+        if (id !== undefined && this.outsideTurn[id] === turn) needed.push(this.outsideAt[id]! * 2 + when[name]!);
+      }
+      needed.sort((a, b) => a - b);
+      key.tag(10).int(needed.length);
+      for (const x of needed) key.int(x);
+    }
+    // the driving groups in the order their first gate meets them (as a set would list them)
+    const drivers: number[] = [];
+    for (const si of comp.switches) {
+      const g = net.switches[si]!.gate;
+      if (g < 0 || net.role[g] !== NetRole.Internal) continue;
+      const id = net.componentOf[g]!;
+      if (id === comp.id || this.driverTurn[id] === turn) continue;
+      this.driverTurn[id] = turn;
+      drivers.push(id);
+    }
+    for (const id of drivers) {
+      for (const si of net.components[id]!.switches) {
+        const sw = net.switches[si]!;
+        key.tag(11).int(sw.kind);
+        if (sw.gate < 0) key.tag(0);
+        else this.code(sw.gate);
+        this.code(sw.a);
+        this.code(sw.b);
+      }
+    }
+    return { key: key.text(), devices };
+  }
+
+  /** One terminal's net: its place in the group, a rail's volts, or an outside net as first met. */
+  private code(x: number): void {
+    const key = this.key;
+    const turn = this.turn;
+    if (this.localTurn[x] === turn) {
+      if (x === this.n) key.tag(1);
+      else key.tag(2).int(this.localAt[x]!);
       return;
     }
-    const rail = ctx.railVolts[x]!;
+    const rail = this.ctx.railVolts[x]!;
     if (Number.isFinite(rail)) {
-      key.tag(3).int(ids.number(rail));
+      key.tag(3).int(this.ids.number(rail));
       return;
     }
-    const k = outside.get(x);
-    if (k !== undefined) {
-      key.tag(4).int(k);
+    if (this.outsideTurn[x] === turn) {
+      key.tag(4).int(this.outsideAt[x]!);
       return;
     }
     // whether it is a constant in every phase (a coupling aggressor only when it is not)
-    key.tag(5).int(outside.size).int(net.role[x]!).int(constantEverywhere(x) ? 1 : 0);
-    outside.set(x, outside.size);
-    for (let f = 0; f < distinct.length; f++) key.int(assignedGate(distinct[f]!.s.gateAssignment, x) ?? values[distinct[f]!.i]![x]!);
-  };
-  key.int(floating.length);
-  for (const f of floating) key.int(f.i).int(stateId(f.s.state));
-  // the level the other phases drive it to (its primary level, and whether it holds data)
-  key.int(drivenLevel(n, floating, values));
-  key.int(originId(c.nets[n]!.origin));
-  const devices = canonicalDevices(ctx, n);
-  for (const si of comp.switches) {
-    const s = net.switches[si]!;
-    if (s.kind === SwitchKind.On) {
-      key.tag(6);
-      code(s.a);
-      code(s.b);
-      continue;
-    }
-    const m = c.mosfets[si]!;
-    key.tag(7).int(ids.device(si));
-    code(m.d);
-    code(m.g);
-    code(m.s);
-    code(m.b);
+    key.tag(5).int(this.outsideCount).int(this.ctx.network.role[x]!).int(this.constantEverywhere(x) ? 1 : 0);
+    this.outsideTurn[x] = turn;
+    this.outsideAt[x] = this.outsideCount++;
+    const distinct = this.distinct;
+    for (let f = 0; f < distinct.length; f++) key.int(assignedGate(distinct[f]!.s.gateAssignment, x) ?? this.values[distinct[f]!.i]![x]!);
   }
-  for (const i of ctx.gateOf(n)) {
-    const m = c.mosfets[i]!;
-    key.tag(8).int(ids.device(i));
-    code(m.d);
-    code(m.s);
-    code(m.b);
-  }
-  for (const x of nodes) {
-    for (const k of ctx.capsOf[x]!) {
-      const cap = c.capacitors[k]!;
-      key.tag(9).int(ids.number(cap.capacitanceF));
-      code(cap.a);
-      code(cap.b);
-    }
-  }
-  // what the input variants read (inputVariants): the inputs each float needs, and the groups
-  // driving the gates that come from logic, wired as they are
-  for (const f of distinct) {
-    const needed: number[] = [];
-    const when = f.s.when;
-    if (when)
-      for (const name in when) {
-        const id = c.netByName.get(name);
-        const k = id === undefined ? undefined : outside.get(id);
-        if (k !== undefined) needed.push(k * 2 + when[name]!);
-      }
-    needed.sort((a, b) => a - b);
-    key.tag(10).int(needed.length);
-    for (const x of needed) key.int(x);
-  }
-  const drivers = new Set<number>();
-  for (const si of comp.switches) {
-    const g = net.switches[si]!.gate;
-    if (g >= 0 && net.role[g] === NetRole.Internal && net.componentOf[g] !== comp.id) drivers.add(net.componentOf[g]!);
-  }
-  for (const id of drivers) {
-    for (const si of net.components[id]!.switches) {
-      const sw = net.switches[si]!;
-      key.tag(11).int(sw.kind);
-      if (sw.gate < 0) key.tag(0);
-      else code(sw.gate);
-      code(sw.a);
-      code(sw.b);
-    }
-  }
-  return { key: key.text(), devices };
 }
 
 /** The node's value in the first phase where it does not float and is not unknown; 2 for none. */
@@ -691,24 +745,36 @@ function drivenLevel(n: number, floating: ReadonlyArray<{ i: number }>, values: 
  * out in decimal, which was most of a key's cost.
  */
 class KeyWriter {
-  private readonly codes: number[] = [];
+  private codes = new Uint16Array(1024);
+  private length = 0;
+  reset(): this {
+    this.length = 0;
+    return this;
+  }
   tag(t: number): this {
-    this.codes.push(t);
+    this.push(t);
     return this;
   }
   int(v: number): this {
     while (v >= 0x8000) {
-      this.codes.push((v & 0x7fff) | 0x8000);
+      this.push((v & 0x7fff) | 0x8000);
       v = Math.floor(v / 0x8000);
     }
-    this.codes.push(v);
+    this.push(v);
     return this;
   }
   text(): string {
-    const codes = this.codes;
     let out = '';
-    for (let i = 0; i < codes.length; i += 4096) out += String.fromCharCode(...codes.slice(i, i + 4096));
+    for (let i = 0; i < this.length; i += 4096) out += String.fromCharCode.apply(null, this.codes.subarray(i, Math.min(this.length, i + 4096)) as unknown as number[]);
     return out;
+  }
+  private push(code: number): void {
+    if (this.length === this.codes.length) {
+      const wider = new Uint16Array(this.codes.length * 2);
+      wider.set(this.codes);
+      this.codes = wider;
+    }
+    this.codes[this.length++] = code;
   }
 }
 
