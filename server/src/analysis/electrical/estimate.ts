@@ -325,6 +325,8 @@ class EstimateRun {
   private readonly internalCache = new Map<string, { estimate: NodeEstimate; position: Map<number, number> }>();
   private readonly storageCache = new Map<string, { estimate: NodeEstimate; position: Map<number, number>; family?: Family }>();
   private readonly keys: StructureKeys;
+  /** The node's results per phase, while it is estimated. */
+  private readonly results: Array<NodePhaseResult | undefined> = [];
   private readonly constantEverywhere: (n: number) => boolean;
   /** Node -> the node whose solve its estimate copies. */
   readonly shareOf = new Map<number, number>();
@@ -346,8 +348,11 @@ class EstimateRun {
     if (ctx.network.role[n] !== NetRole.Internal || ctx.network.unreachable[n]) return undefined;
     // most nets are driven in every phase: nothing is built for them
     let floating: Array<{ s: NodePhaseResult; i: number }> | undefined;
+    // a phase with an earlier one's clock values has its results: asked once
+    const first = this.keys.firstPhase;
+    const results = this.results;
     for (let i = 0; i < cl.perPhase.length; i++) {
-      const s = cl.perPhase[i]!.get(n);
+      const s = (results[i] = first[i] === i ? cl.perPhase[i]!.get(n) : results[first[i]!]);
       if (s && (floatsIn(s) || s.state === 'kept')) (floating ??= []).push({ s, i });
     }
     if (!floating) return undefined;
@@ -557,6 +562,24 @@ function originId(o: object): number {
 }
 
 /**
+ * A witness's inputs (`when`, by net name) as net numbers and values, pairwise. Kept per record
+ * and circuit's names: the results an edit carries over are keyed again by the next pass.
+ */
+function whenNets(c: ElectricalContext['circuit'], when: Record<string, 0 | 1>): Int32Array {
+  const known = resolvedWhen.get(when);
+  if (known && known.names === c.netByName) return known.nets;
+  const list: number[] = [];
+  for (const name in when) {
+    const id = c.netByName.get(name);
+    if (id !== undefined) list.push(id, when[name]!);
+  }
+  const nets = Int32Array.from(list);
+  resolvedWhen.set(when, { names: c.netByName, nets });
+  return nets;
+}
+const resolvedWhen = new WeakMap<object, { names: ReadonlyMap<string, number>; nets: Int32Array }>();
+
+/**
  * A key equal for two nodes whose estimates are necessarily equal: the same defining lines,
  * sizes and models for every device of the node's group and every gate on the node, the same
  * position of the node in the group, and the same phase values and witness gate values around
@@ -582,6 +605,14 @@ class StructureKeys {
   private readonly driverTurn: Int32Array;
   /** Net -> 1 a constant in every phase, 0 not, -1 not worked out yet. */
   private readonly constant: Int8Array;
+  /** Net -> the number of a rail's volts (`ids.number`), -1 not worked out yet. */
+  private readonly railNumber: Int32Array;
+  /**
+   * Per floating phase written (by its place in `distinct`): net -> its turn's stamp when the
+   * phase's witness sets it (`assignedValue`: the value), so a terminal is not looked up in it.
+   */
+  private readonly assignedTurn: Int32Array[] = [];
+  private readonly assignedValue: Uint8Array[] = [];
   private turn = 0;
   private n = -1;
   private distinct: ReadonlyArray<{ s: NodePhaseResult; i: number }> = [];
@@ -597,6 +628,7 @@ class StructureKeys {
     this.outsideAt = new Int32Array(nets);
     this.driverTurn = new Int32Array(ctx.network.components.length);
     this.constant = new Int8Array(nets).fill(-1);
+    this.railNumber = new Int32Array(nets).fill(-1);
   }
 
   /** Whether the net holds one constant value in every phase (a rail, or a tie-off). */
@@ -627,6 +659,20 @@ class StructureKeys {
     // a floating phase with an earlier one's clock values has its results and values (the phase
     // indices, written below, say which): only the first is written out
     this.distinct = floating.length > 1 ? floating.filter((f) => this.firstPhase[f.i] === f.i) : floating;
+    for (let f = 0; f < this.distinct.length; f++) {
+      if (f === this.assignedTurn.length) {
+        this.assignedTurn.push(new Int32Array(c.nets.length));
+        this.assignedValue.push(new Uint8Array(c.nets.length));
+      }
+      const stamp = this.assignedTurn[f]!;
+      const value = this.assignedValue[f]!;
+      const assignment = this.distinct[f]!.s.gateAssignment;
+      for (let k = 0; assignment && k < assignment.length; k++) {
+        const g = assignment[k]![0];
+        stamp[g] = turn;
+        value[g] = assignment[k]![1];
+      }
+    }
     key.int(floating.length);
     for (const f of floating) key.int(f.i).int(stateId(f.s.state));
     // the level the other phases drive it to (its primary level, and whether it holds data)
@@ -672,9 +718,10 @@ class StructureKeys {
         continue;
       }
       const needed: number[] = [];
-      for (const name in when) {
-        const id = c.netByName.get(name);
-        if (id !== undefined && this.outsideTurn[id] === turn) needed.push(this.outsideAt[id]! * 2 + when[name]!);
+      const inputs = whenNets(c, when);
+      for (let k = 0; k < inputs.length; k += 2) {
+        const id = inputs[k]!;
+        if (this.outsideTurn[id] === turn) needed.push(this.outsideAt[id]! * 2 + inputs[k + 1]!);
       }
       needed.sort((a, b) => a - b);
       key.tag(10).int(needed.length);
@@ -712,9 +759,10 @@ class StructureKeys {
       else key.tag(2).int(this.localAt[x]!);
       return;
     }
-    const rail = this.ctx.railVolts[x]!;
-    if (Number.isFinite(rail)) {
-      key.tag(3).int(this.ids.number(rail));
+    let rail = this.railNumber[x]!;
+    if (rail < 0) this.railNumber[x] = rail = Number.isFinite(this.ctx.railVolts[x]!) ? this.ids.number(this.ctx.railVolts[x]!) : 2 ** 30;
+    if (rail !== 2 ** 30) {
+      key.tag(3).int(rail);
       return;
     }
     if (this.outsideTurn[x] === turn) {
@@ -726,7 +774,7 @@ class StructureKeys {
     this.outsideTurn[x] = turn;
     this.outsideAt[x] = this.outsideCount++;
     const distinct = this.distinct;
-    for (let f = 0; f < distinct.length; f++) key.int(assignedGate(distinct[f]!.s.gateAssignment, x) ?? this.values[distinct[f]!.i]![x]!);
+    for (let f = 0; f < distinct.length; f++) key.int(this.assignedTurn[f]![x] === turn ? this.assignedValue[f]![x]! : this.values[distinct[f]!.i]![x]!);
   }
 }
 
@@ -776,12 +824,6 @@ class KeyWriter {
     }
     this.codes[this.length++] = code;
   }
-}
-
-/** A witness's value for a gate net, if it sets one (the list is a few gates long). */
-function assignedGate(assignment: ReadonlyArray<readonly [number, 0 | 1]> | undefined, x: number): 0 | 1 | undefined {
-  if (assignment) for (const [g, v] of assignment) if (g === x) return v;
-  return undefined;
 }
 
 const stateIds = new Map<string, number>();
