@@ -605,7 +605,7 @@ class StructureKeys {
   private readonly driverTurn: Int32Array;
   /** Net -> 1 a constant in every phase, 0 not, -1 not worked out yet. */
   private readonly constant: Int8Array;
-  /** Net -> the number of a rail's volts (`ids.number`), -1 not worked out yet. */
+  /** Net -> the number of a rail's volts (`ids.number`); -2 not a rail, -1 not worked out yet. */
   private readonly railNumber: Int32Array;
   /**
    * Per floating phase written (by its place in `distinct`): net -> its turn's stamp when the
@@ -760,8 +760,8 @@ class StructureKeys {
       return;
     }
     let rail = this.railNumber[x]!;
-    if (rail < 0) this.railNumber[x] = rail = Number.isFinite(this.ctx.railVolts[x]!) ? this.ids.number(this.ctx.railVolts[x]!) : 2 ** 30;
-    if (rail !== 2 ** 30) {
+    if (rail === -1) this.railNumber[x] = rail = Number.isFinite(this.ctx.railVolts[x]!) ? this.ids.number(this.ctx.railVolts[x]!) : -2;
+    if (rail >= 0) {
       key.tag(3).int(rail);
       return;
     }
