@@ -106,14 +106,8 @@ export function* estimateNodeSteps(ctx: ElectricalContext, how: EstimateHow = {}
     const e = run.estimate(n);
     if (e) out.set(n, e);
   }
-  sharedSolves.set(out, sharesOf(run.shareOf, ctx.circuit.nets.length));
+  sharedSolves.set(out, run.shareOf);
   return out;
-}
-
-function sharesOf(map: ReadonlyMap<number, number>, netCount: number): Int32Array {
-  const a = new Int32Array(netCount).fill(-1);
-  for (const [n, r] of map) a[n] = r;
-  return a;
 }
 
 /**
@@ -169,7 +163,7 @@ export function updateEstimates(ctx: ElectricalContext, previous: ReadonlyMap<nu
     const e = run.estimate(n);
     if (e) {
       changes.set(n, e);
-      shareOf[n] = run.shareOf.get(n) ?? n;
+      shareOf[n] = run.shareOf[n]! >= 0 ? run.shareOf[n]! : n;
       if (family !== undefined && !solvedFor.has(family)) {
         solvedFor.set(family, { estimate: e });
         // the edit did not reach this family's figures: its twins keep theirs as they are
@@ -328,8 +322,8 @@ class EstimateRun {
   /** The node's results per phase, while it is estimated. */
   private readonly results: Array<NodePhaseResult | undefined> = [];
   private readonly constantEverywhere: (n: number) => boolean;
-  /** Node -> the node whose solve its estimate copies. */
-  readonly shareOf = new Map<number, number>();
+  /** Node -> the node whose solve its estimate copies (itself when solved; -1 not estimated). */
+  readonly shareOf: Int32Array;
 
   constructor(
     private readonly ctx: ElectricalContext,
@@ -337,6 +331,7 @@ class EstimateRun {
     private readonly shared = true,
   ) {
     const keys = (this.keys = new StructureKeys(ctx));
+    this.shareOf = new Int32Array(ctx.circuit.nets.length).fill(-1);
     this.constantEverywhere = (n: number) => keys.constantEverywhere(n);
   }
 
@@ -364,7 +359,7 @@ class EstimateRun {
       // an identically wired twin takes the first node's estimate with its own nets put in
       const twin = prior && this.twins ? carryToTwin(ctx, (prior.family ??= familyOf(ctx, prior.estimate)), n, devices) : undefined;
       if (twin) {
-        this.shareOf.set(n, prior!.estimate.node);
+        this.shareOf[n] = prior!.estimate.node;
         return twin;
       }
       const remap = (d: number) => devices[prior!.position.get(d)!]!;
@@ -380,18 +375,18 @@ class EstimateRun {
       const e = estimateNode(ctx, n, devices, floating, values, this.constantEverywhere, this.cache, reuse);
       if (!prior) this.storageCache.set(key, { estimate: e, position: new Map(devices.map((d, k) => [d, k])) });
       // partly its own work (not wired like its twin): a family of its own for later edits
-      this.shareOf.set(n, n);
+      this.shareOf[n] = n;
       return e;
     }
     const hit = this.shared ? this.internalCache.get(key) : undefined;
     const copy = hit && copyEstimate(hit.estimate, n, devices);
     if (copy) {
-      this.shareOf.set(n, hit!.estimate.node);
+      this.shareOf[n] = hit!.estimate.node;
       return copy;
     }
     const e = estimateNode(ctx, n, devices, floating, values, this.constantEverywhere, this.cache);
     if (!hit) this.internalCache.set(key, { estimate: e, position: new Map(devices.map((d, k) => [d, k])) });
-    this.shareOf.set(n, n);
+    this.shareOf[n] = n;
     return e;
   }
 }
@@ -1027,7 +1022,7 @@ export function reestimate(ctx: ElectricalContext, previous: ReadonlyMap<number,
   const leader = new Map<number, number>();
   for (let n = 0; n < netCount; n++) {
     if (redone[n]) {
-      shareOf[n] = out.has(n) ? (run.shareOf.get(n) ?? n) : -1;
+      shareOf[n] = out.has(n) ? (run.shareOf[n]! >= 0 ? run.shareOf[n]! : n) : -1;
       continue;
     }
     const head = shareOf[n]!;
