@@ -689,12 +689,17 @@ class StructureKeys {
       this.code(m.s);
       this.code(m.b);
     }
-    for (const i of ctx.gateOf(n)) {
-      const m = c.mosfets[i]!;
-      key.tag(8).int(this.ids.device(i));
-      this.code(m.d);
-      this.code(m.s);
-      this.code(m.b);
+    // the gate loads of every node of the group, not only this one's: the capacitance of the
+    // nodes it may be joined to (charge sharing) counts theirs
+    for (const x of nodes) {
+      for (const i of ctx.gateOf(x)) {
+        const m = c.mosfets[i]!;
+        key.tag(8).int(this.ids.device(i));
+        this.code(m.g);
+        this.code(m.d);
+        this.code(m.s);
+        this.code(m.b);
+      }
     }
     for (const x of nodes) {
       for (const k of ctx.capsOf[x]!) {
