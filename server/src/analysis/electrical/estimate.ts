@@ -682,24 +682,12 @@ class StructureKeys {
         this.code(s.b);
         continue;
       }
-      const m = c.mosfets[si]!;
-      key.tag(7).int(this.ids.device(si));
-      this.code(m.d);
-      this.code(m.g);
-      this.code(m.s);
-      this.code(m.b);
+      this.device(7, si);
     }
     // the gate loads of every node of the group, not only this one's: the capacitance of the
     // nodes it may be joined to (charge sharing) counts theirs
     for (const x of nodes) {
-      for (const i of ctx.gateOf(x)) {
-        const m = c.mosfets[i]!;
-        key.tag(8).int(this.ids.device(i));
-        this.code(m.g);
-        this.code(m.d);
-        this.code(m.s);
-        this.code(m.b);
-      }
+      for (const i of ctx.gateOf(x)) this.device(8, i);
     }
     for (const x of nodes) {
       for (const k of ctx.capsOf[x]!) {
@@ -748,6 +736,16 @@ class StructureKeys {
       }
     }
     return { key: key.text(), devices };
+  }
+
+  /** A MOSFET of the group (`tag` 7) or a gate load (8): its line and sizes, then its four nets. */
+  private device(tag: number, i: number): void {
+    const m = this.ctx.circuit.mosfets[i]!;
+    this.key.tag(tag).int(this.ids.device(i));
+    this.code(m.d);
+    this.code(m.g);
+    this.code(m.s);
+    this.code(m.b);
   }
 
   /** One terminal's net: its place in the group, a rail's volts, or an outside net as first met. */
