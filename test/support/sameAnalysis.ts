@@ -43,9 +43,19 @@ export function same(file: string, fast: AnalysisResult, full: AnalysisResult): 
   });
 }
 
-/** A circuit as plain data: model cards by name, the name index left out (it follows the nets). */
+/**
+ * A circuit as plain data: each device's model card by its name and values (a device left on a
+ * stale copy of an edited card shows), the name index left out (it follows the nets).
+ */
 function circuitData(c: AnalysisResult['circuits'][number]['circuit']): unknown {
-  return JSON.parse(JSON.stringify(c, (k, v) => (k === 'card' ? (v as { name: string } | undefined)?.name : v instanceof Map ? undefined : v)));
+  const cardText = new Map<object, string>();
+  const card = (v: { name: string; params: unknown } | undefined) => {
+    if (!v) return undefined;
+    let t = cardText.get(v);
+    if (t === undefined) cardText.set(v, (t = `${v.name} ${JSON.stringify(v.params)}`));
+    return t;
+  };
+  return JSON.parse(JSON.stringify(c, (k, v) => (k === 'card' ? card(v as { name: string; params: unknown } | undefined) : v instanceof Map ? undefined : v)));
 }
 
 /**

@@ -325,9 +325,13 @@ class ValueWalk {
     const k = this.mosfets++;
     const m = this.c.mosfets[k];
     if (!m || m.name !== name || m.polarity !== v.polarity) return false;
-    if (m.wM === v.wM && m.lM === v.lM && m.m === v.m && m.nf === v.nf && m.adM2 === v.adM2 && m.asM2 === v.asM2 && m.pdM === v.pdM && m.psM === v.psM && m.model === v.model && this.cards.same(m.card, v.card)) return true;
-    // the new values on the previous device's nets and line
-    (this.replaced ??= this.c.mosfets.slice())[k] = mosfetRecord(m.name, m.polarity, m.d, m.g, m.s, m.b, v, m.origin);
+    const sameCard = this.cards.same(m.card, v.card);
+    if (m.wM === v.wM && m.lM === v.lM && m.m === v.m && m.nf === v.nf && m.adM2 === v.adM2 && m.asM2 === v.asM2 && m.pdM === v.pdM && m.psM === v.psM && m.model === v.model && sameCard) return true;
+    // the new values on the previous device's nets and line; a card read again equal to the one
+    // it had stays that one (revalue puts it in the design's table), so a later edit of the card
+    // finds this device among those on it
+    const values = sameCard && v.card !== m.card ? { ...v, card: m.card } : v;
+    (this.replaced ??= this.c.mosfets.slice())[k] = mosfetRecord(m.name, m.polarity, m.d, m.g, m.s, m.b, values, m.origin);
     this.changed.push(k);
     return true;
   }
