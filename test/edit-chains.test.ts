@@ -12,7 +12,7 @@ import { describe, expect, it } from 'vitest';
 import { analyse, analyseDesignSteps, readDeck, reanalyse, reelaborate, type AnalysisResult } from '../server/src/engine';
 import { memoryHost, type FileHost } from '../server/src/core/host';
 import { runToEnd } from '../server/src/core/steps';
-import { overlay, report, scaleNumber, type NumberSpot } from './support/edits';
+import { cardValues, overlay, report, scaleNumber, type NumberSpot } from './support/edits';
 import { same } from './support/sameAnalysis';
 import { addDevice, addDeviceOnNewNet, deleteDevice } from './support/deviceEdits';
 import { reconnect, reconnectToNewNet } from './support/reconnect';
@@ -53,22 +53,8 @@ const EDITS: Array<[string, (text: string, d: () => number) => string]> = [
   ['device deleted', (t, d) => deleteDevice(t, d(), d() % 2 === 0)],
   ['source or directive value', (t, d) => editElectricalValue(t, d(), d())],
   ['directive line', (t, d) => editDirectiveLine(t, d(), d())],
-  ['card value', (t, d) => scaleNumber(t, (lines) => assignedNumbers(lines, /^\s*\.model\b/i), d(), [0.8, 1.25][d() % 2]!)],
-  ['parameter value', (t, d) => scaleNumber(t, (lines) => assignedNumbers(lines, /^\s*\.param\b/i), d(), [0.8, 1.25][d() % 2]!)],
+  ['card or parameter value', (t, d) => scaleNumber(t, cardValues, d(), [0.8, 1.25][d() % 2]!)],
 ];
-
-/** Where the plain numbers assigned on the lines `which` matches are (`name=0.5u`). */
-function assignedNumbers(lines: string[], which: RegExp): NumberSpot[] {
-  const out: NumberSpot[] = [];
-  lines.forEach((l, i) => {
-    if (!which.test(l)) return;
-    for (const m of l.matchAll(/=\s*(\d+(?:\.\d+)?)(?=[a-z]*\b)/gi)) {
-      const start = m.index! + m[0].length - m[1]!.length;
-      out.push({ line: i, start, end: start + m[1]!.length, value: Number(m[1]) });
-    }
-  });
-  return out;
-}
 
 /** The editor's answer to `text` from the previous one, and which way it came. */
 function answer(previous: AnalysisResult, host: FileHost, file: string): { result: AnalysisResult; way: 'quick' | 'design' | 'fresh' } {

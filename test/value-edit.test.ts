@@ -13,29 +13,13 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { analyse, readDeck, reanalyse } from '../server/src/engine';
 import { memoryHost, type FileHost } from '../server/src/core/host';
-import { overlay, scaleNumber, type NumberSpot } from './support/edits';
+import { cardValues, overlay, scaleNumber, type NumberSpot } from './support/edits';
 import { checkRandomEdits, same } from './support/sameAnalysis';
 import { hierarchicalNetlist } from '../scripts/netlists';
 
 const SAMPLES = path.join(__dirname, '..', 'samples');
 const LIBRARY = path.join(SAMPLES, 'models', 'tern45.lib');
 const FACTORS = [0.5, 0.8, 0.97, 1.25, 2, 10];
-
-/** Where the plain numbers on `.param`, `.model` and `.subckt` lines (and their continuation lines) are. */
-function cardValues(lines: string[]): NumberSpot[] {
-  const out: NumberSpot[] = [];
-  let onCard = false;
-  lines.forEach((l, i) => {
-    const head = l.trimStart().toLowerCase();
-    onCard = head.startsWith('+') ? onCard : /^\.(param|params|model|subckt)\b/.test(head);
-    if (!onCard) return;
-    for (const m of l.matchAll(/=\s*(-?\d+(?:\.\d+)?(?:e[-+]?\d+)?)(?![\d.e])/gi)) {
-      const start = m.index! + m[0].length - m[1]!.length;
-      out.push({ line: i, start, end: start + m[1]!.length, value: Number(m[1]) });
-    }
-  });
-  return out;
-}
 
 /** One such number scaled by a factor (its unit suffix kept). */
 function editValue(text: string, pick: number, factor: number): string {

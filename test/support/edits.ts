@@ -37,3 +37,19 @@ export function scaleNumber(text: string, find: (lines: string[]) => NumberSpot[
   lines[s.line] = l.slice(0, s.start) + String(next) + l.slice(s.end);
   return lines.join('\n');
 }
+
+/** Where the plain numbers on `.param`, `.model` and `.subckt` lines (and their continuation lines) are. */
+export function cardValues(lines: string[]): NumberSpot[] {
+  const out: NumberSpot[] = [];
+  let onCard = false;
+  lines.forEach((l, i) => {
+    const head = l.trimStart().toLowerCase();
+    onCard = head.startsWith('+') ? onCard : /^\.(param|params|model|subckt)\b/.test(head);
+    if (!onCard) return;
+    for (const m of l.matchAll(/=\s*(-?\d+(?:\.\d+)?(?:e[-+]?\d+)?)(?![\d.e])/gi)) {
+      const start = m.index! + m[0].length - m[1]!.length;
+      out.push({ line: i, start, end: start + m[1]!.length, value: Number(m[1]) });
+    }
+  });
+  return out;
+}

@@ -17,7 +17,6 @@ export interface Settings {
   maxAnalysisLines: number;
 }
 
-
 export const DEFAULT_SETTINGS: Settings = { temps: [25, 110], budget: '10%', supplies: {}, clocks: [], deviceRules: [], includePaths: [], geometryScale: null, maxAnalysisLines: 400_000 };
 
 /**

@@ -353,7 +353,7 @@ class EstimateRun {
     if (!floating) return undefined;
     // Nodes repeat with every instance of a cell: one leakage solve serves all instances whose
     // group has the same devices, sizes and surroundings (checked by structureKey).
-    const { key, devices } = this.keys.of(n, floating, values);
+    const { key, devices } = this.keys.of(n, floating);
     if (cl.storage[n]) {
       const prior = this.shared ? this.storageCache.get(key) : undefined;
       // an identically wired twin takes the first node's estimate with its own nets put in
@@ -636,8 +636,9 @@ class StructureKeys {
     return k === 1;
   }
 
-  of(n: number, floating: Array<{ s: NodePhaseResult; i: number }>, values: Uint8Array[]): { key: string; devices: number[] } {
+  of(n: number, floating: Array<{ s: NodePhaseResult; i: number }>): { key: string; devices: number[] } {
     const ctx = this.ctx;
+    const values = ctx.classification.phaseValues;
     const net = ctx.network;
     const c = ctx.circuit;
     const key = this.key.reset();
