@@ -66,6 +66,15 @@ describe.each(TECHS)('$name against ngspice', (t) => {
     });
   }
 
+  it('off current of a four-high stack, its three inner nodes floating between off devices and solved together, at 110 C (within 30%)', async () => {
+    const stack = [0, 1, 2, 3].map((k) => `Mn${k + 1} ${k === 0 ? 'st' : `x${k}`} off ${k === 3 ? '0' : `x${k + 1}`} 0 ${t.n} w=${t.w} l=${t.l} ${t.geom}`).join('\n');
+    const deck = floatingNode(t, false).replace(/^Mn1 st off 0 0 .*$/m, stack);
+    const ours = tidemarkEstimate(deck + '\n.end\n', 'st', { tempsC: [110] }).estimate.stored.find((s) => s.level === 1)!.corners[0]!.leakageA;
+    const sim = await runNgspice(`${deck}\nvhold st 0 ${t.vdd}\n.options gmin=1e-18\n.temp 110\n.op\n.end\n`);
+    const ref = -sim.get('i(vhold)')![0]!;
+    expect({ ours, ref, ok: within(ours, ref, 0.3) }).toMatchObject({ ok: true });
+  });
+
   it('node capacitance at the stored level (within 20%)', async () => {
     const deck = floatingNode(t, false);
     const ours = tidemarkEstimate(deck + '\n.end\n', 'st').estimate.capacitance.totalF;
