@@ -310,6 +310,114 @@ function nearDevices(c: ElectricalContext['circuit'], members: ReadonlySet<numbe
   return { channels: all.channels.filter((i) => on(i, false)), gates: all.gates.filter((i) => on(i, true)) };
 }
 
+/** Devices of a prepared network by their local numbers: those whose channel, and those whose gate tunnelling, a balance reads. */
+interface SlotLists {
+  channels: Int32Array;
+  gates: Int32Array;
+}
+
+/**
+ * A leakage network laid out for its balances, which a node's figures evaluate thousands of
+ * times: each device (by a local number) with the slot of each terminal's voltage in `vol`
+ * (0 the island, 1 + k floating group k, then one per fixed net, holding its volts), and the
+ * device lists of the island and of each group in the order the sums take them.
+ */
+interface PreparedNetwork {
+  mosfet: Int32Array;
+  /** Four per device: drain, gate, source, bulk. */
+  slots: Int32Array;
+  vol: Float64Array;
+  all: SlotLists;
+  near: SlotLists[];
+  sets: Array<Set<number>>;
+  reached: number[][];
+  junctions: Map<number, Junctions>;
+  /**
+   * The floating groups' voltages from the last solve, where the next one starts: the calls for
+   * one node come in one order (estimateNode, which builds the network), so the figures do not
+   * depend on what was estimated before.
+   */
+  lastSolved?: number[];
+}
+
+/** Per device of a prepared network at one temperature: junction saturation currents and n Vt. */
+interface Junctions {
+  isD: Float64Array;
+  isS: Float64Array;
+  nvt: Float64Array;
+}
+
+const preparedNetworks = new WeakMap<LeakageNetwork, PreparedNetwork>();
+
+function prepared(ctx: ElectricalContext, ln: LeakageNetwork): PreparedNetwork {
+  const known = preparedNetworks.get(ln);
+  if (known) return known;
+  const c = ctx.circuit;
+  const groups = ln.floatingGroups.length;
+  const fixed: number[] = [];
+  const fixedSlot = new Map<number, number>();
+  const slotOf = (n: number): number => {
+    const g = ln.groupOf.get(n);
+    if (g === -1) return 0;
+    if (g !== undefined && g >= 0) return 1 + g;
+    let at = fixedSlot.get(n);
+    if (at === undefined) {
+      fixedSlot.set(n, (at = 1 + groups + fixed.length));
+      fixed.push(ln.fixedVolts.get(n) ?? 0);
+    }
+    return at;
+  };
+  const local = new Map<number, number>();
+  const mosfet: number[] = [];
+  const slots: number[] = [];
+  const localOf = (i: number): number => {
+    let li = local.get(i);
+    if (li === undefined) {
+      local.set(i, (li = mosfet.length));
+      mosfet.push(i);
+      const m = c.mosfets[i]!;
+      slots.push(slotOf(m.d), slotOf(m.g), slotOf(m.s), slotOf(m.b));
+    }
+    return li;
+  };
+  const lists = (near: Near): SlotLists => ({ channels: Int32Array.from(near.channels, localOf), gates: Int32Array.from(near.gates, localOf) });
+  const allDevices: Near = { channels: ln.devices, gates: [...new Set([...ln.gateDevices, ...ln.devices])] };
+  const sets = ln.floatingGroups.map((g) => new Set(g));
+  // each group's balance reads only the devices on it (the same ones in the same order: the same sums)
+  const nearOf = sets.map((set) => nearDevices(c, set, allDevices));
+  const all = lists(allDevices);
+  const near = nearOf.map(lists);
+  const vol = new Float64Array(1 + groups + fixed.length);
+  vol.set(fixed, 1 + groups);
+  const p: PreparedNetwork = { mosfet: Int32Array.from(mosfet), slots: Int32Array.from(slots), vol, all, near, sets, reached: groupsReached(ln, c, nearOf), junctions: new Map() };
+  preparedNetworks.set(ln, p);
+  return p;
+}
+
+function junctionsAt(ctx: ElectricalContext, net: PreparedNetwork, tempK: number): Junctions {
+  let j = net.junctions.get(tempK);
+  if (j) return j;
+  const count = net.mosfet.length;
+  j = { isD: new Float64Array(count), isS: new Float64Array(count), nvt: new Float64Array(count) };
+  for (let li = 0; li < count; li++) {
+    const m = ctx.circuit.mosfets[net.mosfet[li]!]!;
+    const model = ctx.model(m);
+    j.isD[li] = junctionSaturation(model, m, 'd', tempK);
+    j.isS[li] = junctionSaturation(model, m, 's', tempK);
+    j.nvt[li] = model.junction.nj * thermalVoltage(tempK);
+  }
+  net.junctions.set(tempK, j);
+  return j;
+}
+
+/** junctionCurrent with its saturation current and n Vt worked out before. */
+function junctionFlow(is: number, nvt: number, polarity: Mosfet['polarity'], v: number, vb: number): number {
+  if (is === 0) return 0;
+  const vf = polarity === 'n' ? vb - v : v - vb;
+  const i = is * (Math.exp(Math.min(vf / nvt, 40)) - 1);
+  return polarity === 'n' ? i : -i;
+}
+
 /** Currents at island voltage `v`, after solving the floating groups' voltages. */
 export function leakageAt(ctx: ElectricalContext, ln: LeakageNetwork, v: number, tempK: number, storedLevel: 0 | 1, withContributors: boolean): LeakageAt {
   const c = ctx.circuit;
@@ -319,67 +427,72 @@ export function leakageAt(ctx: ElectricalContext, ln: LeakageNetwork, v: number,
     if (g !== undefined && g >= 0) return groupV[g]!;
     return ln.fixedVolts.get(n) ?? 0;
   };
-  // a node's figures solve one network at several island voltages and corners, each near the last
   const groupV = ln.floatingGroups.map(() => v / 2);
-  const allDevices: Near = { channels: ln.devices, gates: [...new Set([...ln.gateDevices, ...ln.devices])] };
   let gateContributors: LeakageContributor[] = [];
-  // net current into a set of nets from all devices, at the given voltages
-  const inflow = (members: ReadonlySet<number>, gv: number[], vOverride?: number, near: Near = allDevices): number => {
+  // the balances read voltages by slot (prepared once per network) and junction constants per corner
+  const net = prepared(ctx, ln);
+  const { vol, slots, mosfet } = net;
+  const junction = junctionsAt(ctx, net, tempK);
+  const load = (gv: readonly number[]) => {
+    vol[0] = v;
+    for (let k = 0; k < gv.length; k++) vol[1 + k] = gv[k]!;
+  };
+  // net current into the nets of one slot (the island 0, floating group k 1 + k), from the listed devices, at `vol`
+  const inflowAt = (slot: number, list: SlotLists): number => {
     let total = 0;
-    const at = (n: number) => (vOverride !== undefined && members.has(n) ? vOverride : volts(n, gv));
-    for (const i of near.channels) {
-      const m = c.mosfets[i]!;
-      const inD = members.has(m.d);
-      const inS = members.has(m.s);
+    for (const li of list.channels) {
+      const o = li * 4;
+      const sd = slots[o]!;
+      const ss = slots[o + 2]!;
+      const inD = sd === slot;
+      const inS = ss === slot;
       if (!inD && !inS) continue;
-      const vd = at(m.d);
-      const vs = at(m.s);
-      const vg = at(m.g);
-      const vb = at(m.b);
+      const m = c.mosfets[mosfet[li]!]!;
+      const vd = vol[sd]!;
+      const vs = vol[ss]!;
+      const vg = vol[slots[o + 1]!]!;
+      const vb = vol[slots[o + 3]!]!;
       if (inD !== inS) {
         const ids = channelCurrent(ctx, m, vd, vg, vs, vb, tempK);
         total += inS ? ids : -ids;
       }
-      if (inD) total += junctionCurrent(ctx, m, 'd', vd, vb, tempK);
-      if (inS && m.s !== m.d) total += junctionCurrent(ctx, m, 's', vs, vb, tempK);
+      if (inD) total += junctionFlow(junction.isD[li]!, junction.nvt[li]!, m.polarity, vd, vb);
+      if (inS && m.s !== m.d) total += junctionFlow(junction.isS[li]!, junction.nvt[li]!, m.polarity, vs, vb);
     }
-    total += gateInflow(members, at, near.gates);
-    return total;
-  };
-  /** Tunnelling currents into a set of nets: out through gates on it, in at drains and sources. */
-  const gateInflow = (members: ReadonlySet<number>, at: (n: number) => number, gates: readonly number[]): number => {
-    let total = 0;
-    for (const i of gates) {
-      const m = c.mosfets[i]!;
-      const model = ctx.model(m);
-      if (!model.gateLeakage) continue;
-      const inG = members.has(m.g);
-      const inD = members.has(m.d);
-      const inS = members.has(m.s);
+    // tunnelling: out through gates on the slot, in at drains and sources
+    for (const li of list.gates) {
+      const m = c.mosfets[mosfet[li]!]!;
+      if (!ctx.model(m).gateLeakage) continue;
+      const o = li * 4;
+      const inG = slots[o + 1] === slot;
+      const inD = slots[o] === slot;
+      const inS = slots[o + 2] === slot;
       if (!inG && !inD && !inS) continue;
-      const { igsA, igdA } = gateCurrents(ctx, m, at(m.d), at(m.g), at(m.s), tempK);
+      const { igsA, igdA } = gateCurrents(ctx, m, vol[slots[o]!]!, vol[slots[o + 1]!]!, vol[slots[o + 2]!]!, tempK);
       if (inG) total -= igsA + igdA;
       if (inS) total += igsA;
       if (inD) total += igdA;
     }
     return total;
   };
-  const sets = ln.floatingGroups.map((g) => new Set(g));
-  // each group's balance reads only the devices on it (the same ones in the same order: the same sums)
-  const nearOf = sets.map((set) => nearDevices(c, set, allDevices));
+  const sets = net.sets;
   const lo = Math.min(0, v) - 0.2;
   const hi = Math.max(ctx.vddV, v) + 0.2;
   // one pass of bracketed solves, one group at a time (Gauss-Seidel); the largest move
   const seidelPass = (): number => {
     let moved = 0;
-    sets.forEach((set, k) => {
-      const root = solveMonotone((x) => inflow(set, groupV, x, nearOf[k]!), lo, hi);
+    sets.forEach((_, k) => {
+      load(groupV);
+      const root = solveMonotone((x) => {
+        vol[1 + k] = x;
+        return inflowAt(1 + k, net.near[k]!);
+      }, lo, hi);
       moved = Math.max(moved, Math.abs(groupV[k]! - root));
       groupV[k] = root;
     });
     return moved;
   };
-  const warm = lastSolved.get(ln);
+  const warm = net.lastSolved;
   if (sets.length === 1) seidelPass();
   else {
     // several groups: Newton on all balances together, from the last solve of this network or
@@ -387,14 +500,18 @@ export function leakageAt(ctx: ElectricalContext, ln: LeakageNetwork, v: number,
     // from afar creeps); Gauss-Seidel alone when Newton does not converge
     if (warm) groupV.splice(0, groupV.length, ...warm);
     else seidelPass();
-    const balance = (k: number, gv: number[]) => inflow(sets[k]!, gv, undefined, nearOf[k]!);
-    if (!solveGroupsNewton(sets.length, balance, groupsReached(ln, c, nearOf), groupV, lo, hi, seidelPass)) {
+    const balance = (k: number, gv: number[]) => {
+      load(gv);
+      return inflowAt(1 + k, net.near[k]!);
+    };
+    if (!solveGroupsNewton(sets.length, balance, net.reached, groupV, lo, hi, seidelPass)) {
       groupV.fill(v / 2);
       for (let pass = 0; pass < 12; pass++) if (seidelPass() < 1e-4) break;
     }
   }
-  if (sets.length > 1) lastSolved.set(ln, groupV.slice());
-  const outA = -inflow(ln.island, groupV) - keeperInflow(ctx, ln, v, tempK, volts, groupV);
+  if (sets.length > 1) net.lastSolved = groupV.slice();
+  load(groupV);
+  const outA = -inflowAt(0, net.all) - keeperInflow(ctx, ln, v, tempK, volts, groupV);
   if (withContributors) {
     // gate tunnelling, per device
     const sign = storedLevel === 1 ? 1 : -1;
@@ -442,13 +559,6 @@ export function leakageAt(ctx: ElectricalContext, ln: LeakageNetwork, v: number,
   }
   return { outA, contributors };
 }
-
-/**
- * Each network's floating-group voltages from its last solve, where the next solve starts: the
- * calls for one node come in one order (estimateNode), so the figures do not depend on what
- * was estimated before.
- */
-const lastSolved = new WeakMap<LeakageNetwork, number[]>();
 
 /** For each floating group j, the groups whose balance reads a device with a terminal on j (j among them). */
 function groupsReached(ln: LeakageNetwork, c: ElectricalContext['circuit'], nearOf: readonly Near[]): number[][] {
@@ -505,7 +615,16 @@ function solveGroupsNewton(count: number, balance: (k: number, gv: number[]) => 
       for (const k of reached[j]!) jac[k]![j] = (balance(k, groupV) - f[k]!) / NEWTON_DIFFERENCE_V;
       groupV[j] = keep;
     }
-    for (let k = 0; k < count; k++) step[k] = -f[k]!;
+    for (let k = 0; k < count; k++) {
+      step[k] = -f[k]!;
+      // a balance no voltage moves (no current reaches the group, as with level-1 cards, which
+      // have no subthreshold conduction): the group stays where Gauss-Seidel or the last solve
+      // put it
+      if (jac[k]!.every((x) => x === 0)) {
+        jac[k]![k] = 1;
+        step[k] = 0;
+      }
+    }
     if (!solveLinear(jac, step)) return false;
     let largest = 0;
     for (let k = 0; k < count; k++) largest = Math.max(largest, Math.abs(step[k]!));
