@@ -330,7 +330,6 @@ interface PreparedNetwork {
   all: SlotLists;
   near: SlotLists[];
   sets: Array<Set<number>>;
-  reached: number[][];
   junctions: Map<number, Junctions>;
   /**
    * The floating groups' voltages from the last solve, where the next one starts: the calls for
@@ -389,7 +388,7 @@ function prepared(ctx: ElectricalContext, ln: LeakageNetwork): PreparedNetwork {
   const near = nearOf.map(lists);
   const vol = new Float64Array(1 + groups + fixed.length);
   vol.set(fixed, 1 + groups);
-  const p: PreparedNetwork = { mosfet: Int32Array.from(mosfet), slots: Int32Array.from(slots), vol, all, near, sets, reached: groupsReached(ln, c, nearOf), junctions: new Map() };
+  const p: PreparedNetwork = { mosfet: Int32Array.from(mosfet), slots: Int32Array.from(slots), vol, all, near, sets, junctions: new Map() };
   preparedNetworks.set(ln, p);
   return p;
 }
@@ -437,43 +436,66 @@ export function leakageAt(ctx: ElectricalContext, ln: LeakageNetwork, v: number,
     vol[0] = v;
     for (let k = 0; k < gv.length; k++) vol[1 + k] = gv[k]!;
   };
-  // net current into the nets of one slot (the island 0, floating group k 1 + k), from the listed devices, at `vol`
-  const inflowAt = (slot: number, list: SlotLists): number => {
-    let total = 0;
-    for (const li of list.channels) {
-      const o = li * 4;
-      const sd = slots[o]!;
-      const ss = slots[o + 2]!;
-      const inD = sd === slot;
-      const inS = ss === slot;
-      if (!inD && !inS) continue;
-      const m = c.mosfets[mosfet[li]!]!;
+  // one device's currents into the nets of each slot at its terminals (`into`, by slot), at `vol`
+  const flows = (li: number, channel: boolean, into: Float64Array): void => {
+    const m = c.mosfets[mosfet[li]!]!;
+    const o = li * 4;
+    const sd = slots[o]!;
+    const sg = slots[o + 1]!;
+    const ss = slots[o + 2]!;
+    if (channel) {
       const vd = vol[sd]!;
       const vs = vol[ss]!;
-      const vg = vol[slots[o + 1]!]!;
       const vb = vol[slots[o + 3]!]!;
-      if (inD !== inS) {
-        const ids = channelCurrent(ctx, m, vd, vg, vs, vb, tempK);
-        total += inS ? ids : -ids;
+      if (sd !== ss) {
+        const ids = channelCurrent(ctx, m, vd, vol[sg]!, vs, vb, tempK);
+        into[ss]! += ids;
+        into[sd]! -= ids;
       }
-      if (inD) total += junctionFlow(junction.isD[li]!, junction.nvt[li]!, m.polarity, vd, vb);
-      if (inS && m.s !== m.d) total += junctionFlow(junction.isS[li]!, junction.nvt[li]!, m.polarity, vs, vb);
+      into[sd]! += junctionFlow(junction.isD[li]!, junction.nvt[li]!, m.polarity, vd, vb);
+      if (m.s !== m.d) into[ss]! += junctionFlow(junction.isS[li]!, junction.nvt[li]!, m.polarity, vs, vb);
+      return;
     }
-    // tunnelling: out through gates on the slot, in at drains and sources
-    for (const li of list.gates) {
-      const m = c.mosfets[mosfet[li]!]!;
-      if (!ctx.model(m).gateLeakage) continue;
-      const o = li * 4;
-      const inG = slots[o + 1] === slot;
-      const inD = slots[o] === slot;
-      const inS = slots[o + 2] === slot;
-      if (!inG && !inD && !inS) continue;
-      const { igsA, igdA } = gateCurrents(ctx, m, vol[slots[o]!]!, vol[slots[o + 1]!]!, vol[slots[o + 2]!]!, tempK);
-      if (inG) total -= igsA + igdA;
-      if (inS) total += igsA;
-      if (inD) total += igdA;
+    // tunnelling: out through the gate, in at drain and source
+    if (!ctx.model(m).gateLeakage) return;
+    const { igsA, igdA } = gateCurrents(ctx, m, vol[sd]!, vol[sg]!, vol[ss]!, tempK);
+    into[sg]! -= igsA + igdA;
+    into[ss]! += igsA;
+    into[sd]! += igdA;
+  };
+  const sums = new Float64Array(vol.length);
+  // net current into the nets of one slot (the island 0, floating group k 1 + k) from the listed devices, at `vol`
+  const inflowAt = (slot: number, list: SlotLists): number => {
+    sums.fill(0);
+    for (const li of list.channels) flows(li, true, sums);
+    for (const li of list.gates) flows(li, false, sums);
+    return sums[slot]!;
+  };
+  // the balances' Jacobian by each device's own differences: a device is evaluated once, and
+  // once more per floating group at its terminals (not every balance once per group)
+  const base = new Float64Array(vol.length);
+  const moved = new Float64Array(vol.length);
+  const stampJacobian = (gv: number[], jac: Float64Array[]): void => {
+    load(gv);
+    const groups = gv.length;
+    for (const [list, channel] of [[net.all.channels, true], [net.all.gates, false]] as const) {
+      for (const li of list) {
+        base.fill(0);
+        flows(li, channel, base);
+        const o = li * 4;
+        for (let t = 0; t < 4; t++) {
+          const j = slots[o + t]!;
+          // each group once (a device may have two terminals on it)
+          if (j < 1 || j > groups || slots.subarray(o, o + t).includes(j)) continue;
+          const keep = vol[j]!;
+          vol[j] = keep + NEWTON_DIFFERENCE_V;
+          moved.fill(0);
+          flows(li, channel, moved);
+          vol[j] = keep;
+          for (let k = 1; k <= groups; k++) if (moved[k] !== base[k]) jac[k - 1]![j - 1]! += (moved[k]! - base[k]!) / NEWTON_DIFFERENCE_V;
+        }
+      }
     }
-    return total;
   };
   const sets = net.sets;
   const lo = Math.min(0, v) - 0.2;
@@ -504,7 +526,7 @@ export function leakageAt(ctx: ElectricalContext, ln: LeakageNetwork, v: number,
       load(gv);
       return inflowAt(1 + k, net.near[k]!);
     };
-    if (!solveGroupsNewton(sets.length, balance, net.reached, groupV, lo, hi, seidelPass)) {
+    if (!solveGroupsNewton(sets.length, balance, stampJacobian, groupV, lo, hi, seidelPass)) {
       groupV.fill(v / 2);
       for (let pass = 0; pass < 12; pass++) if (seidelPass() < 1e-4) break;
     }
@@ -560,21 +582,6 @@ export function leakageAt(ctx: ElectricalContext, ln: LeakageNetwork, v: number,
   return { outA, contributors };
 }
 
-/** For each floating group j, the groups whose balance reads a device with a terminal on j (j among them). */
-function groupsReached(ln: LeakageNetwork, c: ElectricalContext['circuit'], nearOf: readonly Near[]): number[][] {
-  const reached = ln.floatingGroups.map((_, j) => new Set<number>([j]));
-  nearOf.forEach((near, k) => {
-    for (const i of [...near.channels, ...near.gates]) {
-      const m = c.mosfets[i]!;
-      for (const t of [m.d, m.g, m.s, m.b]) {
-        const j = ln.groupOf.get(t);
-        if (j !== undefined && j >= 0) reached[j]!.add(k);
-      }
-    }
-  });
-  return reached.map((s) => [...s].sort((a, b) => a - b));
-}
-
 /**
  * Newton's settings for the floating groups' balances. A step is scaled down to at most 0.3 V
  * (the currents are exponential in voltage, about 26 mV per e-fold at room temperature); every
@@ -591,14 +598,14 @@ const NEWTON_DIFFERENCE_V = 1e-6;
 
 /**
  * The floating groups' voltages (`groupV`, updated in place) at which every group's net inflow
- * (`balance`) is zero: Newton's method with a finite-difference Jacobian, its columns evaluated
- * only for the groups each group's devices reach, steps limited and kept inside [lo, hi]. A
+ * (`balance`) is zero: Newton's method with a finite-difference Jacobian (`jacobian`, device by
+ * device), steps limited and kept inside [lo, hi]. A
  * block of off devices with several floating groups between them (a long stack, a slice whose
  * supply port is on a signal) took Gauss-Seidel alone a dozen passes of bracketed solves, and
  * it often stopped short of the balance (retention 0.5% off on the buses sample). False when it
  * does not converge (the caller falls back on Gauss-Seidel alone).
  */
-function solveGroupsNewton(count: number, balance: (k: number, gv: number[]) => number, reached: readonly number[][], groupV: number[], lo: number, hi: number, relax: () => void): boolean {
+function solveGroupsNewton(count: number, balance: (k: number, gv: number[]) => number, jacobian: (gv: number[], jac: Float64Array[]) => void, groupV: number[], lo: number, hi: number, relax: () => void): boolean {
   const f = new Float64Array(count);
   for (let k = 0; k < count; k++) f[k] = balance(k, groupV);
   const jac = Array.from({ length: count }, () => new Float64Array(count));
@@ -609,12 +616,7 @@ function solveGroupsNewton(count: number, balance: (k: number, gv: number[]) => 
       for (let k = 0; k < count; k++) f[k] = balance(k, groupV);
     }
     for (const row of jac) row.fill(0);
-    for (let j = 0; j < count; j++) {
-      const keep = groupV[j]!;
-      groupV[j] = keep + NEWTON_DIFFERENCE_V;
-      for (const k of reached[j]!) jac[k]![j] = (balance(k, groupV) - f[k]!) / NEWTON_DIFFERENCE_V;
-      groupV[j] = keep;
-    }
+    jacobian(groupV, jac);
     for (let k = 0; k < count; k++) {
       step[k] = -f[k]!;
       // a balance no voltage moves (no current reaches the group, as with level-1 cards, which
