@@ -55,6 +55,30 @@ describe('supply, clock, budget and corner values reuse the classification and e
     expect(taken).toBeGreaterThan(20);
   }, 120_000);
 
+  it('a comment or blank line put in or taken out where there are electrical directives: every result stands, moved', () => {
+    let answered = 0;
+    for (const file of samplesAndElectricalFixtures()) {
+      let text = fs.readFileSync(file, 'utf8');
+      // each file gets a directive of this kind, so the edit is one this path reads
+      if (!/tidemark:\s*(budget|temps|clock|standby|supply)\b/i.test(text)) text = text.replace(/\n\.end\b/i, '\n* tidemark: budget 10%\n.end');
+      const before = analyse(overlay(file, text), file);
+      const lines = text.split('\n');
+      const spots = lines.map((_, k) => k).filter((k) => k > 0 && k % 5 === 1 && !lines[k]!.trim().startsWith('+'));
+      const edits = spots.map((k, n) => [...lines.slice(0, k), n % 2 ? '' : '* a note', ...lines.slice(k)].join('\n'));
+      const comment = lines.findIndex((l, k) => k > 0 && /^\*(?!.*tidemark:)/.test(l.trim()) && !lines[k + 1]?.trim().startsWith('+'));
+      if (comment > 0) edits.push(lines.filter((_, k) => k !== comment).join('\n'));
+      for (const edited of edits) {
+        const host = overlay(file, edited);
+        const fast = reanalyse(before, readDeck(host, file));
+        expect(fast, `${path.basename(file)}: a line put in or taken out is answered from the previous analysis`).toBeDefined();
+        fast!.circuits.forEach((a, i) => expect(a.estimates, 'no estimate is worked out again').toBe(before.circuits[i]!.estimates));
+        same(file, fast!, analyse(host, file));
+        answered++;
+      }
+    }
+    expect(answered).toBeGreaterThan(40);
+  }, 120_000);
+
   it('a generated hierarchical datapath (2k transistors): the supply, both clocks, a budget and corners', () => {
     const file = '/datapath.sp';
     const text = hierarchicalNetlist(2_000).replace('\n.end\n', '\n* tidemark: budget 12%\n* tidemark: temps 25 110\n.end\n');
