@@ -1,17 +1,21 @@
 // Findings carried over edits that change no meaning (service/carryOver.ts): whenever the
 // carry-over answers, it must equal a full re-analysis of the edited text, and for comment,
 // blank-line and end-of-line white-space edits it must answer. Random edits over every sample.
+// The whole analysis moved over such an edit at one place (engine `reanalyse`, which the editor's
+// hovers and quick fixes then read): equal to a fresh analysis, stage by stage.
 
 import * as fs from 'node:fs';
 import * as path from 'node:path';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { analyse, readDeck } from '../server/src/engine';
+import { analyse, readDeck, reanalyse } from '../server/src/engine';
 import { diskHost } from '../server/src/cli/diskHost';
 import { carryOver } from '../server/src/service/carryOver';
 import { memoryHost } from '../server/src/core/host';
 import { sharedRuns } from '../server/src/syntax/parser';
 import { overlay } from './support/edits';
+import { same } from './support/sameAnalysis';
+import { hierarchicalNetlist } from '../scripts/netlists';
 
 const SAMPLES = path.join(__dirname, '..', 'samples');
 const samples = fs.readdirSync(SAMPLES).filter((f) => f.endsWith('.sp'));
@@ -111,4 +115,39 @@ describe('carry-over in a long flat netlist: chunks both parses took from the sa
     );
     expect(shared).toBeGreaterThan(0);
   }, 120_000);
+});
+
+describe('the whole analysis moved over a comment or blank line put in or taken out at one place', () => {
+  const cases: Array<[string, string, () => string]> = [
+    ...samples.map((name): [string, string, () => string] => [name, path.join(SAMPLES, name), () => fs.readFileSync(path.join(SAMPLES, name), 'utf8')]),
+    ['a flat netlist of 400 domino stages', '/tern/flat_domino.sp', () => flatDominoNetlist(400)],
+    ['a generated hierarchical datapath (2k transistors)', '/tern/datapath.sp', () => hierarchicalNetlist(2_000)],
+  ];
+  for (const [name, file, read] of cases) {
+    it(`${name}: answered from the previous analysis, equal to a fresh one`, () => {
+      const original = read();
+      const hostFor = (t: string) => (file.startsWith('/tern/') ? memoryHost({ [file]: t }) : overlay(file, t));
+      const before = analyse(hostFor(original), file);
+      const lines = original.split('\n');
+      const comments = lines.flatMap((l, k) => (k > 0 && /^\*(?!.*tidemark:)/.test(l.trim()) && !lines[k + 1]?.trim().startsWith('+') ? [k] : []));
+      fc.assert(
+        fc.property(fc.constantFrom('comment', 'blank', 'taken out'), fc.nat(100_000), (kind, at) => {
+          const edited = [...lines];
+          if (kind === 'taken out') {
+            if (!comments.length) return;
+            edited.splice(comments[at % comments.length]!, 1);
+          } else {
+            const k = 1 + (at % Math.max(1, lines.length - 1));
+            if (lines[k]?.trimStart().startsWith('+')) return;
+            edited.splice(k, 0, kind === 'comment' ? '* reviewed by the Tern bring-up team' : '');
+          }
+          const host = hostFor(edited.join('\n'));
+          const fast = reanalyse(before, readDeck(host, file));
+          expect(fast, 'a layout edit at one place is answered from the previous analysis').toBeDefined();
+          same(file, fast!, analyse(host, file));
+        }),
+        { numRuns: 10, seed: 13 },
+      );
+    }, 120_000);
+  }
 });

@@ -1,7 +1,7 @@
 // The editor's progress indicator over the real protocol: a client with work-done progress sees
 // "analysing <file>" begin while a long full analysis runs (opening the 30k datapath) and end
-// once it is done; a short one (a small sample) shows none. A client without the capability
-// gets no progress requests at all.
+// once it is done; a short one (a small sample) shows none, nor does a comment line put in (the
+// analysis moves with it). A client without the capability gets no progress requests at all.
 
 import * as fs from 'node:fs';
 import * as os from 'node:os';
@@ -66,6 +66,18 @@ describe('progress of a long analysis', () => {
     expect(mine[0]!.value.title).toBe('Tidemark');
     expect(mine[0]!.value.message).toBe('analysing datapath.sp');
     expect(mine[0]!.at).toBeLessThanOrEqual(publishedAt);
+
+    // a comment line put in: the findings move and the analysis moves with them, so a hover right
+    // after is answered from it, and no full analysis runs (it would show progress, as above)
+    created.length = 0;
+    const lines = fs.readFileSync(big, 'utf8').split('\n');
+    const at = lines.findIndex((l) => l.startsWith('Mpre dyn'));
+    await client.change(uri, [...lines.slice(0, at), '* precharge', ...lines.slice(at)].join('\n'), 2);
+    const hover = (await client.conn.sendRequest('textDocument/hover', { textDocument: { uri }, position: { line: at + 1, character: 6 } })) as { contents: { value: string } } | null;
+    expect(hover?.contents.value).toMatch(/\*\*xb0\.xs0\.xd0\.dyn\*\* — storage node/);
+    // past the debounce, when a full analysis would start
+    await new Promise((r) => setTimeout(r, 1000));
+    expect(created, 'no full analysis after a comment line').toEqual([]);
     await client.shutdown();
   }, 120_000);
 

@@ -19,11 +19,11 @@ import { buildContextSteps, railVoltsOf, renumberedContext, rewiredContext, wide
 import { estimateNodeSteps, nodesAround, nodesReading, reestimate, renameEstimates, renumberEstimates, updateEstimates, widenEstimates, type NodeEstimate } from './analysis/electrical/estimate';
 import { patchSizes, type SizePatch } from './circuit/patch';
 import { reelaborateValues } from './circuit/valueEdit';
-import { acceptEdit } from './circuit/acceptEdit';
+import { acceptEdit, layoutEdit } from './circuit/acceptEdit';
 import { electricalDirectiveLines, electricalEdit } from './circuit/electricalEdit';
 import { renameNets, type NetRename } from './circuit/rename';
 import { rewireNets, type Rewiring } from './circuit/rewire';
-import { shiftDiagnostics, spliceDevices, type DeviceSplice, type LineShift } from './circuit/splice';
+import { shiftDiagnostics, shiftedDesign, spliceDevices, type DeviceSplice, type LineShift } from './circuit/splice';
 import { sameRange } from './syntax/compare';
 import type { Range } from './core/source';
 import { runToEnd, type Steps } from './core/steps';
@@ -196,6 +196,9 @@ function splicedFrontEnd(previous: AnalysisResult, deck: Deck, sp: DeviceSplice)
  */
 export function reanalyse(previous: AnalysisResult, deck: Deck, options: EngineOptions = {}): AnalysisResult | undefined {
   if (!patchable(previous, options)) return undefined;
+  // comment or blank lines put in or taken out at one place: every result stands, moved
+  const layout = layoutEdit(previous.deck, deck);
+  if (layout) return afterSplice(previous, deck, { design: shiftedDesign(previous.design, layout.shift), renumbering: previous.circuits.map(() => undefined), shift: layout.shift, removedLines: undefined, widened: [] }, options);
   // accept directives alone: the same results, marked again
   const accepted = acceptEdit(previous.deck, previous.design, deck, previous.frontEnd);
   if (accepted) return afterSplice(previous, deck, { design: accepted.design, renumbering: previous.circuits.map(() => undefined), shift: accepted.shift, removedLines: undefined, widened: [] }, options, accepted.frontEnd);

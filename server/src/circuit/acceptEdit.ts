@@ -48,11 +48,27 @@ export function directiveLinesEdit(previousDeck: Deck, deck: Deck, changing: (d:
   const changed = oneChangedFile(previousDeck.files, deck.files);
   if (!changed) return undefined;
   const [x, y] = changed;
+  // none of them on either side: not this kind of edit
+  if (!x.directives.some(changing) && !y.directives.some(changing)) return undefined;
+  return movedLines(previousDeck, deck, x, y, changing);
+}
+
+/**
+ * When two parses differ in one file, and there only in layout at one place (comment or blank
+ * lines put in or taken out, white space): every statement, directive, pin line and finding the
+ * same, those after it moved by the edit's line count. The two files and the shift; undefined
+ * for any other edit.
+ */
+export function layoutEdit(previousDeck: Deck, deck: Deck): { x: SyntaxFile; y: SyntaxFile; shift: LineShift } | undefined {
+  const changed = oneChangedFile(previousDeck.files, deck.files);
+  return changed && movedLines(previousDeck, deck, changed[0], changed[1], () => false);
+}
+
+/** directiveLinesEdit's check, for the directives `changing` picks in a changed file x -> y. */
+function movedLines(previousDeck: Deck, deck: Deck, x: SyntaxFile, y: SyntaxFile, changing: (d: DirectiveLine) => boolean): { x: SyntaxFile; y: SyntaxFile; shift: LineShift } | undefined {
   if (x.statements.length !== y.statements.length || x.pinInfos.length !== y.pinInfos.length) return undefined;
   const xd = x.directives.filter((d) => !changing(d));
   const yd = y.directives.filter((d) => !changing(d));
-  // none of them on either side: not this kind of edit
-  if (xd.length === x.directives.length && yd.length === y.directives.length) return undefined;
   if (xd.length !== yd.length) return undefined;
   const d = y.lineCount - x.lineCount;
   // every other line moves by 0 before the edit and by d after it: pairs of (old line, moved by)

@@ -336,8 +336,7 @@ async function publish(uri: string): Promise<void> {
  * An edit. Some kinds are answered at once, from the last analysis: one that changed no meaning
  * (comments, blank lines) moves the findings to their new lines, and a size edit, a rename or a
  * reconnection redoes only what it reaches (engine `reanalyse`, exact).
- * Otherwise, or to refresh hovers after a moved-lines edit, a full analysis runs after the
- * debounce, in slices, and the next edit cancels it.
+ * Otherwise a full analysis runs after the debounce, in slices, and the next edit cancels it.
  */
 function schedule(uri: string, delayMs = EDIT_DEBOUNCE_MS): void {
   clearTimeout(timers.get(uri));
@@ -377,20 +376,21 @@ function quickAnswer(uri: string): void {
   if (lines > settings.maxAnalysisLines || last.result.circuits.length !== last.result.design.circuits.length) return;
   // the parse of the new text serves both quick answers
   const { texts, deck } = parsed(uri);
+  // findings moved to their new lines go out first; the analysis moved with them follows (engine
+  // `reanalyse`), so hovers and quick fixes read it instead of waiting for a full analysis
   const moved = carryOver(last.result, deck);
-  if (moved) {
-    send(uri, moved);
-    return;
-  }
+  if (moved) send(uri, moved);
   const result = reanalyse(last.result, deck, engineOptions(lines));
   if (!result) {
+    if (moved) return;
     // too much to patch: the design is still built from the last one, for the full analysis
     const elaborated = reelaborate(last.result, deck, engineOptions(lines));
     if (elaborated) elaboratedFor.set(uri, { gen: genOf(uri), texts, elaborated });
     return;
   }
   results.set(uri, { texts, result });
-  send(uri, result.diagnostics);
+  if (!moved || JSON.stringify(moved) !== JSON.stringify(result.diagnostics)) send(uri, result.diagnostics);
+  else sentFrom.set(uri, result.diagnostics);
   const chain = (quickInARow.get(uri) ?? 0) + 1;
   quickInARow.set(uri, chain);
   if (chain >= QUICK_CHAIN_LIMIT) {
