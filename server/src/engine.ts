@@ -198,7 +198,7 @@ export function reanalyse(previous: AnalysisResult, deck: Deck, options: EngineO
   if (!patchable(previous, options)) return undefined;
   // comment or blank lines put in or taken out at one place: every result stands, moved
   const layout = layoutEdit(previous.deck, deck);
-  if (layout) return afterSplice(previous, deck, { design: shiftedDesign(previous.design, layout.shift), renumbering: previous.circuits.map(() => undefined), shift: layout.shift, removedLines: undefined, widened: [] }, options);
+  if (layout) return afterSplice(previous, deck, { design: layout.shift.lines === 0 ? previous.design : shiftedDesign(previous.design, layout.shift), renumbering: previous.circuits.map(() => undefined), shift: layout.shift, removedLines: undefined, widened: [] }, options);
   // accept directives alone: the same results, marked again
   const accepted = acceptEdit(previous.deck, previous.design, deck, previous.frontEnd);
   if (accepted) return afterSplice(previous, deck, { design: accepted.design, renumbering: previous.circuits.map(() => undefined), shift: accepted.shift, removedLines: undefined, widened: [] }, options, accepted.frontEnd);

@@ -274,6 +274,9 @@ function countLines(text: string): number {
  * the document keeps changing under it.
  */
 async function currentAnalysis(uri: string): Promise<Cached | undefined> {
+  // a request right behind an edit: the edit's quick answer first (it waits two turns of the
+  // event loop), so the request reads it rather than starting a full analysis
+  if (uri.startsWith('file:')) tryQuickAnswer(rootFor(uri), false);
   for (let attempt = 0; attempt < 50; attempt++) {
     const c = await analysisOf(uri);
     if (c && fresh(c)) return c;
@@ -285,8 +288,10 @@ async function currentAnalysis(uri: string): Promise<Cached | undefined> {
 /** What was last sent per root, to skip sending the same diagnostics twice. */
 const sentFrom = new Map<string, Diagnostic[]>();
 
-function send(uri: string, diagnostics: Diagnostic[]): void {
+/** Publishes a root's findings, per file; resolves once the messages are written. */
+function send(uri: string, diagnostics: Diagnostic[]): Promise<unknown> {
   const file = fileURLToPath(uri);
+  const writes: Array<Promise<void>> = [];
   const byFile = new Map<string, LspDiagnostic[]>([[file, []]]);
   for (const d of diagnostics) {
     const list = byFile.get(d.file) ?? [];
@@ -294,8 +299,8 @@ function send(uri: string, diagnostics: Diagnostic[]): void {
     byFile.set(d.file, list);
   }
   const before = published.get(uri) ?? new Set();
-  for (const f of before) if (!byFile.has(f)) connection.sendDiagnostics({ uri: pathToFileURL(f).toString(), diagnostics: [] });
-  for (const [f, list] of byFile) connection.sendDiagnostics({ uri: pathToFileURL(f).toString(), diagnostics: list });
+  for (const f of before) if (!byFile.has(f)) writes.push(connection.sendDiagnostics({ uri: pathToFileURL(f).toString(), diagnostics: [] }));
+  for (const [f, list] of byFile) writes.push(connection.sendDiagnostics({ uri: pathToFileURL(f).toString(), diagnostics: list }));
   published.set(uri, new Set(byFile.keys()));
   sentFrom.set(uri, diagnostics);
   // a file this netlist includes that was open as a netlist of its own (opened first) is
@@ -307,6 +312,7 @@ function send(uri: string, diagnostics: Diagnostic[]): void {
     published.delete(other);
     sentFrom.delete(other);
   }
+  return Promise.all(writes);
 }
 
 
@@ -345,9 +351,7 @@ function schedule(uri: string, delayMs = EDIT_DEBOUNCE_MS): void {
   // after the messages already received: the protocol library takes one message per turn of
   // the event loop, so two turns let a request sent right behind the edit (an outline) go first
   const quick = () => {
-    if (genOf(uri) !== gen || quickTried.get(uri) === gen) return;
-    quickTried.set(uri, gen);
-    guard('quick re-analysis', () => quickAnswer(uri), undefined);
+    if (genOf(uri) === gen) tryQuickAnswer(uri, true);
   };
   if (delayMs > 0) setImmediate(() => setImmediate(quick));
   timers.set(
@@ -365,7 +369,18 @@ function schedule(uri: string, delayMs = EDIT_DEBOUNCE_MS): void {
 /** The generation each document's quick answer was tried for (once per edit). */
 const quickTried = new Map<string, number>();
 
-function quickAnswer(uri: string): void {
+/**
+ * The current edit's quick answer, if not tried yet. `afterSend`: an analysis moved with the
+ * findings waits until they are written (a request waiting for it does not).
+ */
+function tryQuickAnswer(uri: string, afterSend: boolean): void {
+  const gen = genOf(uri);
+  if (quickTried.get(uri) === gen) return;
+  quickTried.set(uri, gen);
+  guard('quick re-analysis', () => quickAnswer(uri, afterSend), undefined);
+}
+
+function quickAnswer(uri: string, afterSend: boolean): void {
   if (rootFor(uri) !== uri) return;
   const last = results.get(uri);
   if (!last || fresh(last)) return;
@@ -376,10 +391,24 @@ function quickAnswer(uri: string): void {
   if (lines > settings.maxAnalysisLines || last.result.circuits.length !== last.result.design.circuits.length) return;
   // the parse of the new text serves both quick answers
   const { texts, deck } = parsed(uri);
-  // findings moved to their new lines go out first; the analysis moved with them follows (engine
-  // `reanalyse`), so hovers and quick fixes read it instead of waiting for a full analysis
   const moved = carryOver(last.result, deck);
-  if (moved) send(uri, moved);
+  if (!moved) {
+    fromPrevious(uri, last, texts, deck, lines);
+    return;
+  }
+  // findings moved to their new lines go out at once; the analysis moved with them follows (engine
+  // `reanalyse`) once that message is out, so hovers and quick fixes read it instead of waiting
+  // for a full analysis
+  const gen = genOf(uri);
+  const sent = send(uri, moved);
+  if (!afterSend) return fromPrevious(uri, last, texts, deck, lines, moved);
+  void sent.finally(() => {
+    if (genOf(uri) === gen && results.get(uri) === last) guard('quick re-analysis', () => fromPrevious(uri, last, texts, deck, lines, moved), undefined);
+  });
+}
+
+/** The analysis of an edit from the last one (engine `reanalyse`); `moved`: the findings already sent for it. */
+function fromPrevious(uri: string, last: Cached, texts: Map<string, string | undefined>, deck: Deck, lines: number, moved?: Diagnostic[]): void {
   const result = reanalyse(last.result, deck, engineOptions(lines));
   if (!result) {
     if (moved) return;
