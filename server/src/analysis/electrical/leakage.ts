@@ -329,7 +329,6 @@ interface PreparedNetwork {
   vol: Float64Array;
   all: SlotLists;
   near: SlotLists[];
-  sets: Array<Set<number>>;
   junctions: Map<number, Junctions>;
   /**
    * The floating groups' voltages from the last solve, where the next one starts: the calls for
@@ -381,14 +380,13 @@ function prepared(ctx: ElectricalContext, ln: LeakageNetwork): PreparedNetwork {
   };
   const lists = (near: Near): SlotLists => ({ channels: Int32Array.from(near.channels, localOf), gates: Int32Array.from(near.gates, localOf) });
   const allDevices: Near = { channels: ln.devices, gates: [...new Set([...ln.gateDevices, ...ln.devices])] };
-  const sets = ln.floatingGroups.map((g) => new Set(g));
   // each group's balance reads only the devices on it (the same ones in the same order: the same sums)
-  const nearOf = sets.map((set) => nearDevices(c, set, allDevices));
+  const nearOf = ln.floatingGroups.map((g) => nearDevices(c, new Set(g), allDevices));
   const all = lists(allDevices);
   const near = nearOf.map(lists);
   const vol = new Float64Array(1 + groups + fixed.length);
   vol.set(fixed, 1 + groups);
-  const p: PreparedNetwork = { mosfet: Int32Array.from(mosfet), slots: Int32Array.from(slots), vol, all, near, sets, junctions: new Map() };
+  const p: PreparedNetwork = { mosfet: Int32Array.from(mosfet), slots: Int32Array.from(slots), vol, all, near, junctions: new Map() };
   preparedNetworks.set(ln, p);
   return p;
 }
@@ -426,6 +424,7 @@ export function leakageAt(ctx: ElectricalContext, ln: LeakageNetwork, v: number,
     if (g !== undefined && g >= 0) return groupV[g]!;
     return ln.fixedVolts.get(n) ?? 0;
   };
+  const groups = ln.floatingGroups.length;
   const groupV = ln.floatingGroups.map(() => v / 2);
   let gateContributors: LeakageContributor[] = [];
   // the balances read voltages by slot (prepared once per network) and junction constants per corner
@@ -473,15 +472,14 @@ export function leakageAt(ctx: ElectricalContext, ln: LeakageNetwork, v: number,
   };
   // the balances' Jacobian by each device's own differences: a device is evaluated once, and
   // once more per floating group at its terminals (not every balance once per group)
-  const base = new Float64Array(vol.length);
-  const moved = new Float64Array(vol.length);
+  const atPoint = new Float64Array(vol.length);
+  const nudged = new Float64Array(vol.length);
   const stampJacobian = (gv: number[], jac: Float64Array[]): void => {
     load(gv);
-    const groups = gv.length;
     for (const [list, channel] of [[net.all.channels, true], [net.all.gates, false]] as const) {
       for (const li of list) {
-        base.fill(0);
-        flows(li, channel, base);
+        atPoint.fill(0);
+        flows(li, channel, atPoint);
         const o = li * 4;
         for (let t = 0; t < 4; t++) {
           const j = slots[o + t]!;
@@ -489,21 +487,20 @@ export function leakageAt(ctx: ElectricalContext, ln: LeakageNetwork, v: number,
           if (j < 1 || j > groups || slots.subarray(o, o + t).includes(j)) continue;
           const keep = vol[j]!;
           vol[j] = keep + NEWTON_DIFFERENCE_V;
-          moved.fill(0);
-          flows(li, channel, moved);
+          nudged.fill(0);
+          flows(li, channel, nudged);
           vol[j] = keep;
-          for (let k = 1; k <= groups; k++) if (moved[k] !== base[k]) jac[k - 1]![j - 1]! += (moved[k]! - base[k]!) / NEWTON_DIFFERENCE_V;
+          for (let k = 1; k <= groups; k++) if (nudged[k] !== atPoint[k]) jac[k - 1]![j - 1]! += (nudged[k]! - atPoint[k]!) / NEWTON_DIFFERENCE_V;
         }
       }
     }
   };
-  const sets = net.sets;
   const lo = Math.min(0, v) - 0.2;
   const hi = Math.max(ctx.vddV, v) + 0.2;
   // one pass of bracketed solves, one group at a time (Gauss-Seidel); the largest move
   const seidelPass = (): number => {
     let moved = 0;
-    sets.forEach((_, k) => {
+    for (let k = 0; k < groups; k++) {
       load(groupV);
       const root = solveMonotone((x) => {
         vol[1 + k] = x;
@@ -511,11 +508,11 @@ export function leakageAt(ctx: ElectricalContext, ln: LeakageNetwork, v: number,
       }, lo, hi);
       moved = Math.max(moved, Math.abs(groupV[k]! - root));
       groupV[k] = root;
-    });
+    }
     return moved;
   };
   const warm = net.lastSolved;
-  if (sets.length === 1) seidelPass();
+  if (groups === 1) seidelPass();
   else {
     // several groups: Newton on all balances together, from the last solve of this network or
     // from one Gauss-Seidel pass (which brackets each group's exponential balance, where Newton
@@ -526,12 +523,12 @@ export function leakageAt(ctx: ElectricalContext, ln: LeakageNetwork, v: number,
       load(gv);
       return inflowAt(1 + k, net.near[k]!);
     };
-    if (!solveGroupsNewton(sets.length, balance, stampJacobian, groupV, lo, hi, seidelPass)) {
+    if (!solveGroupsNewton(groups, balance, stampJacobian, groupV, lo, hi, seidelPass)) {
       groupV.fill(v / 2);
       for (let pass = 0; pass < 12; pass++) if (seidelPass() < 1e-4) break;
     }
   }
-  if (sets.length > 1) net.lastSolved = groupV.slice();
+  if (groups > 1) net.lastSolved = groupV.slice();
   load(groupV);
   const outA = -inflowAt(0, net.all) - keeperInflow(ctx, ln, v, tempK, volts, groupV);
   if (withContributors) {
@@ -599,11 +596,11 @@ const NEWTON_DIFFERENCE_V = 1e-6;
 /**
  * The floating groups' voltages (`groupV`, updated in place) at which every group's net inflow
  * (`balance`) is zero: Newton's method with a finite-difference Jacobian (`jacobian`, device by
- * device), steps limited and kept inside [lo, hi]. A
- * block of off devices with several floating groups between them (a long stack, a slice whose
- * supply port is on a signal) took Gauss-Seidel alone a dozen passes of bracketed solves, and
- * it often stopped short of the balance (retention 0.5% off on the buses sample). False when it
- * does not converge (the caller falls back on Gauss-Seidel alone).
+ * device), steps limited and kept inside [lo, hi]. A block of off devices with several floating
+ * groups between them (a long stack, a slice whose supply port is on a signal) took Gauss-Seidel
+ * alone a dozen passes of bracketed solves, and it often stopped short of the balance
+ * (retention 0.5% off on the buses sample). False when it does not converge (the caller falls
+ * back on Gauss-Seidel alone).
  */
 function solveGroupsNewton(count: number, balance: (k: number, gv: number[]) => number, jacobian: (gv: number[], jac: Float64Array[]) => void, groupV: number[], lo: number, hi: number, relax: () => void): boolean {
   const f = new Float64Array(count);
