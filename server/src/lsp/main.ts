@@ -402,9 +402,11 @@ function quickAnswer(uri: string, afterSend: boolean): void {
   const gen = genOf(uri);
   const sent = send(uri, moved);
   if (!afterSend) return fromPrevious(uri, last, texts, deck, lines, moved);
-  void sent.finally(() => {
+  const follow = () => {
     if (genOf(uri) === gen && results.get(uri) === last) guard('quick re-analysis', () => fromPrevious(uri, last, texts, deck, lines, moved), undefined);
-  });
+  };
+  // (a failed write is the connection's to report)
+  void sent.then(follow, follow);
 }
 
 /** The analysis of an edit from the last one (engine `reanalyse`); `moved`: the findings already sent for it. */
