@@ -171,7 +171,7 @@ async function measure(transistors: number, all: Edit[], flat = false, settingsR
       const i = lines.findIndex((l) => l.startsWith('Mpre dyn'));
       next = published();
       t = performance.now();
-      conn.sendNotification('textDocument/didChange', { textDocument: { uri, version: version++ }, contentChanges: [{ range: { start: { line: i, character: 0 }, end: { line: i, character: 0 } }, text: '* precharge\n' }] });
+      conn.sendNotification('textDocument/didChange', { textDocument: { uri, version: version++ }, contentChanges: [{ range: { start: { line: i, character: 0 }, end: { line: i, character: 0 } }, text: `* precharge ${round}\n` }] });
       await conn.sendRequest('textDocument/hover', { textDocument: { uri }, position: { line: i + 1, character: 6 } });
       times.push(performance.now() - t);
       console.log(`hover     ${times[times.length - 1]!.toFixed(0).padStart(6)} ms | ${hover}, round ${round + 1} (${size})`);

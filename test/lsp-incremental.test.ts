@@ -76,14 +76,33 @@ describe('incremental and responsive analysis over the real protocol', () => {
     const next = client.diagnosticsFor(uri);
     await client.change(uri, edited, 2);
     const moved = await next;
+    const dynLine = lines.findIndex((l) => l.startsWith('Mpre dyn'));
     const expected = first.diagnostics.map((d) => `${d.range.start.line >= at ? d.range.start.line + 1 : d.range.start.line}:${d.range.start.character} ${d.code} ${d.message}`);
     expect(published(moved)).toEqual(expected);
     expect(published(moved)).toEqual(engineFindings(file, edited));
     // the hover answers from the analysis of this text (the node's line moved by one)
-    const dynLine = lines.findIndex((l) => l.startsWith('Mpre dyn'));
-    const hover = (await client.conn.sendRequest('textDocument/hover', { textDocument: { uri }, position: { line: dynLine, character: 6 } })) as { contents: { value: string } } | null;
-    expect(hover?.contents.value).toMatch(/dyn/);
-    expect(hover?.contents.value).toMatch(/Capacitance/);
+    await hoverIsFresh(edited, { line: dynLine, character: 6 });
+    current = edited;
+  }, 120_000);
+
+  it('a comment typed key by key, then a width below it: each answered from the analysis moved with the comment, ending as a fresh analysis', async () => {
+    const lines = current.split('\n');
+    const at = lines.findIndex((l) => l.startsWith('.subckt b_dlatch'));
+    let version = 3;
+    // a new line, then the comment typed into it (no line moves after the first key)
+    for (const typed of ['', '*', '* la', '* latch cell']) {
+      const now = [...lines.slice(0, at), typed, ...lines.slice(at)];
+      const next = client.diagnosticsFor(uri);
+      await client.change(uri, now.join('\n'), version++);
+      expect(published(await next)).toEqual(engineFindings(file, now.join('\n')));
+    }
+    const withComment = [...lines.slice(0, at), '* latch cell', ...lines.slice(at)];
+    const width = withComment.findIndex((l) => l.startsWith('Mtp d clkb st'));
+    withComment[width] = withComment[width]!.replace('w=0.6u', 'w=0.8u');
+    const edited = withComment.join('\n');
+    await changeSettlesAsFresh(edited, version++);
+    await hoverIsFresh(edited, { line: withComment.findIndex((l) => l.startsWith('Mtn d clk st')), character: 10 });
+    current = edited;
   }, 120_000);
 
   it('answers a request while an analysis runs, and a burst of edits ends with the last text findings', async () => {

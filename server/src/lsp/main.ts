@@ -276,7 +276,7 @@ function countLines(text: string): number {
 async function currentAnalysis(uri: string): Promise<Cached | undefined> {
   // a request right behind an edit: the edit's quick answer first (it waits two turns of the
   // event loop), so the request reads it rather than starting a full analysis
-  if (uri.startsWith('file:')) tryQuickAnswer(rootFor(uri), false);
+  if (uri.startsWith('file:')) tryQuickAnswer(rootFor(uri), true);
   for (let attempt = 0; attempt < 50; attempt++) {
     const c = await analysisOf(uri);
     if (c && fresh(c)) return c;
@@ -288,10 +288,8 @@ async function currentAnalysis(uri: string): Promise<Cached | undefined> {
 /** What was last sent per root, to skip sending the same diagnostics twice. */
 const sentFrom = new Map<string, Diagnostic[]>();
 
-/** Publishes a root's findings, per file; resolves once the messages are written. */
-function send(uri: string, diagnostics: Diagnostic[]): Promise<unknown> {
+function send(uri: string, diagnostics: Diagnostic[]): void {
   const file = fileURLToPath(uri);
-  const writes: Array<Promise<void>> = [];
   const byFile = new Map<string, LspDiagnostic[]>([[file, []]]);
   for (const d of diagnostics) {
     const list = byFile.get(d.file) ?? [];
@@ -299,8 +297,8 @@ function send(uri: string, diagnostics: Diagnostic[]): Promise<unknown> {
     byFile.set(d.file, list);
   }
   const before = published.get(uri) ?? new Set();
-  for (const f of before) if (!byFile.has(f)) writes.push(connection.sendDiagnostics({ uri: pathToFileURL(f).toString(), diagnostics: [] }));
-  for (const [f, list] of byFile) writes.push(connection.sendDiagnostics({ uri: pathToFileURL(f).toString(), diagnostics: list }));
+  for (const f of before) if (!byFile.has(f)) connection.sendDiagnostics({ uri: pathToFileURL(f).toString(), diagnostics: [] });
+  for (const [f, list] of byFile) connection.sendDiagnostics({ uri: pathToFileURL(f).toString(), diagnostics: list });
   published.set(uri, new Set(byFile.keys()));
   sentFrom.set(uri, diagnostics);
   // a file this netlist includes that was open as a netlist of its own (opened first) is
@@ -312,7 +310,6 @@ function send(uri: string, diagnostics: Diagnostic[]): Promise<unknown> {
     published.delete(other);
     sentFrom.delete(other);
   }
-  return Promise.all(writes);
 }
 
 
@@ -330,6 +327,8 @@ function rootFor(uri: string): string {
 async function publish(uri: string): Promise<void> {
   // an included file's findings are published by the netlist that includes it
   if (rootFor(uri) !== uri) return;
+  // findings carried over for this text are out: its analysis moves with them later, none runs now
+  if (pendingMoves.get(uri)?.gen === genOf(uri)) return;
   const gen = genOf(uri);
   const c = await guardAsync('analysis', () => analysisOf(uri), undefined);
   // a newer edit publishes its own
@@ -351,7 +350,7 @@ function schedule(uri: string, delayMs = EDIT_DEBOUNCE_MS): void {
   // after the messages already received: the protocol library takes one message per turn of
   // the event loop, so two turns let a request sent right behind the edit (an outline) go first
   const quick = () => {
-    if (genOf(uri) === gen) tryQuickAnswer(uri, true);
+    if (genOf(uri) === gen) tryQuickAnswer(uri, false);
   };
   if (delayMs > 0) setImmediate(() => setImmediate(quick));
   timers.set(
@@ -370,20 +369,45 @@ function schedule(uri: string, delayMs = EDIT_DEBOUNCE_MS): void {
 const quickTried = new Map<string, number>();
 
 /**
- * The current edit's quick answer, if not tried yet. `afterSend`: an analysis moved with the
- * findings waits until they are written (a request waiting for it does not).
+ * The current edit's quick answer, if not tried yet. `now`: an analysis moved with findings
+ * carried over is worked out at once (a request waits for it), not left pending.
  */
-function tryQuickAnswer(uri: string, afterSend: boolean): void {
+function tryQuickAnswer(uri: string, now: boolean): void {
   const gen = genOf(uri);
-  if (quickTried.get(uri) === gen) return;
-  quickTried.set(uri, gen);
-  guard('quick re-analysis', () => quickAnswer(uri, afterSend), undefined);
+  if (quickTried.get(uri) !== gen) {
+    quickTried.set(uri, gen);
+    guard('quick re-analysis', () => quickAnswer(uri), undefined);
+  }
+  if (now) applyPendingMove(uri);
 }
 
-function quickAnswer(uri: string, afterSend: boolean): void {
+/**
+ * After findings carried over an edit that changed no meaning: the analysis moved with them
+ * (engine `reanalyse`), worked out when a request needs it, before an edit that changes meaning
+ * is answered, or once the document has been still for MOVE_IDLE_MS; so keystrokes in a
+ * comment do not wait for it (on a flat 100k-line netlist a line put in moves every later
+ * device: 130-250 ms). A later such edit replaces it (moved from the same cached analysis).
+ * Its `apply` stands only while the analysis it moves is still the cached one.
+ */
+const pendingMoves = new Map<string, { gen: number; apply: () => void }>();
+const MOVE_IDLE_MS = 300;
+
+/** Works out the pending moved analysis; one for an older text only when `older` (an edit is answered from it next), else it is dropped. */
+function applyPendingMove(uri: string, older = false): void {
+  const p = pendingMoves.get(uri);
+  if (!p) return;
+  pendingMoves.delete(uri);
+  if (older || p.gen === genOf(uri)) guard('quick re-analysis', p.apply, undefined);
+}
+
+function quickAnswer(uri: string): void {
   if (rootFor(uri) !== uri) return;
-  const last = results.get(uri);
-  if (!last || fresh(last)) return;
+  let last = results.get(uri);
+  if (!last || fresh(last)) {
+    // (a pending move was for another text)
+    pendingMoves.delete(uri);
+    return;
+  }
   // a file over the size limit gets only the front end, with a note quoting its line count: the
   // quick answers are for analysed files on both sides of the edit
   const file = fileURLToPath(uri);
@@ -391,22 +415,32 @@ function quickAnswer(uri: string, afterSend: boolean): void {
   if (lines > settings.maxAnalysisLines || last.result.circuits.length !== last.result.design.circuits.length) return;
   // the parse of the new text serves both quick answers
   const { texts, deck } = parsed(uri);
+  // (after edits that changed no meaning the cached analysis is of an older text: the carry-over
+  // reads from it across them all)
   const moved = carryOver(last.result, deck);
   if (!moved) {
+    // a change of meaning: the moved analysis first, then this edit from it
+    if (pendingMoves.has(uri)) {
+      applyPendingMove(uri, true);
+      last = results.get(uri)!;
+      if (fresh(last)) return;
+    }
     fromPrevious(uri, last, texts, deck, lines);
     return;
   }
-  // findings moved to their new lines go out at once; the analysis moved with them follows (engine
-  // `reanalyse`) once that message is out, so hovers and quick fixes read it instead of waiting
-  // for a full analysis
+  // findings moved to their new lines go out at once; the analysis moved with them follows
+  send(uri, moved);
   const gen = genOf(uri);
-  const sent = send(uri, moved);
-  if (!afterSend) return fromPrevious(uri, last, texts, deck, lines, moved);
-  const follow = () => {
-    if (genOf(uri) === gen && results.get(uri) === last) guard('quick re-analysis', () => fromPrevious(uri, last, texts, deck, lines, moved), undefined);
-  };
-  // (a failed write is the connection's to report)
-  void sent.then(follow, follow);
+  const from = last;
+  pendingMoves.set(uri, {
+    gen,
+    apply: () => {
+      if (results.get(uri) === from) fromPrevious(uri, from, texts, deck, lines, moved);
+    },
+  });
+  setTimeout(() => {
+    if (genOf(uri) === gen) applyPendingMove(uri);
+  }, MOVE_IDLE_MS);
 }
 
 /** The analysis of an edit from the last one (engine `reanalyse`); `moved`: the findings already sent for it. */
