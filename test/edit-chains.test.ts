@@ -1,12 +1,12 @@
 // Long chains of mixed edits (sizes, reconnections, new nets, transistor lines added and deleted,
 // source, directive, card and parameter values, directive lines, renames, quick fixes, accept,
 // comment and blank lines taken out or put in), in the netlist or in a file it includes,
-// answered as the editor answers them: each edit from the previous
-// answer (engine `reanalyse`; when it declines, the later stages on the design `reelaborate`
-// builds; else a fresh analysis), so quick answers pile up on quick answers, over the depth at
-// which their derived maps are squashed. Every answer must equal a fresh analysis of its text
-// (support/sameAnalysis `same`). The edits are drawn from a seeded generator, so a failure names
-// the seed and step that reproduce it.
+// answered as the editor answers them: each edit from the previous answer (engine `reanalyse`;
+// when it declines, the later stages on the design `reelaborate` builds; else a fresh
+// analysis), so quick answers pile up on quick answers, over the depth at which their derived
+// maps are squashed. Every answer must equal a fresh analysis of its text (support/sameAnalysis
+// `same`). The edits are drawn from a seeded generator, so a failure names the seed and step
+// that reproduce it.
 
 import * as fs from 'node:fs';
 import * as path from 'node:path';
