@@ -8,7 +8,6 @@ import type { EngineOptions } from './core/options';
 import { loadDeck, type Deck } from './circuit/deck';
 import { elaborateSteps } from './circuit/elaborate';
 import type { Circuit, Design } from './circuit/circuit';
-import type { DirectiveSet } from './circuit/directives';
 import { findClocks } from './phases/clocks';
 import { buildPhases, phaseCorrespondence, sameClockNets, widenPlan, type PhasePlan } from './phases/phases';
 import { buildSwitchNetworkSteps, patchSwitchNetwork, widenNetwork, type NetworkPatch } from './analysis/switchNetwork';
@@ -198,17 +197,13 @@ export function reanalyse(previous: AnalysisResult, deck: Deck, options: EngineO
   if (!patchable(previous, options)) return undefined;
   // comment or blank lines put in or taken out at one place: every result stands, moved
   const layout = layoutEdit(previous.deck, deck);
-  if (layout) return afterSplice(previous, deck, { design: layout.shift.lines === 0 ? previous.design : shiftedDesign(previous.design, layout.shift), renumbering: previous.circuits.map(() => undefined), shift: layout.shift, removedLines: undefined, widened: [] }, options);
+  if (layout) return afterSplice(previous, deck, { design: shiftedDesign(previous.design, layout.shift), renumbering: previous.circuits.map(() => undefined), shift: layout.shift, removedLines: undefined, widened: [] }, options);
   // accept directives alone: the same results, marked again
   const accepted = acceptEdit(previous.deck, previous.design, deck, previous.frontEnd);
   if (accepted) return afterSplice(previous, deck, { design: accepted.design, renumbering: previous.circuits.map(() => undefined), shift: accepted.shift, removedLines: undefined, widened: [] }, options, accepted.frontEnd);
   // a budget, corners, clock or standby line put in or taken out
   const lines = electricalDirectiveLines(previous.deck, previous.design, deck, previous.frontEnd);
-  if (lines) {
-    // only lines put in or taken out around them (a comment, a blank line): every result stands, moved
-    if (sameElectricalDirectives(previous.design.directives, lines.design.directives)) return afterSplice(previous, deck, { design: lines.design, renumbering: previous.circuits.map(() => undefined), shift: lines.shift, removedLines: undefined, widened: [] }, options, lines.frontEnd);
-    return afterElectrical(previous, deck, lines.design, options, lines.shift, lines.frontEnd);
-  }
+  if (lines) return afterElectrical(previous, deck, lines.design, options, lines.shift, lines.frontEnd);
   const renamed = renameNets(previous.deck, previous.design, deck, options);
   if (renamed) return afterRename(previous, deck, renamed, options);
   const patch = patchSizes(previous.deck, previous.design, deck);
@@ -226,12 +221,6 @@ export function reanalyse(previous: AnalysisResult, deck: Deck, options: EngineO
   // a front-end finding on an edited line may change with it (a parameter, a bin, the scale)
   if (previous.frontEnd.some((d) => onEditedLine(d, patch.moved))) return undefined;
   return afterSizes(previous, deck, patch, previous.frontEnd, options);
-}
-
-/** Whether two directive sets give the estimates the same clocks, standby, supplies, corners and budget (wherever their lines are). */
-function sameElectricalDirectives(a: DirectiveSet, b: DirectiveSet): boolean {
-  const values = (d: DirectiveSet) => JSON.stringify([d.clocks, d.standby, d.supplies, d.tempsC, d.budget], (k, v: unknown) => (k === 'file' || k === 'range' ? undefined : v));
-  return values(a) === values(b);
 }
 
 /**

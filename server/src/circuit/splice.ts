@@ -219,6 +219,8 @@ function cardMover(design: Design, shift: LineShift): { movedCards: Map<ModelCar
  * and directive range after it, the same devices and nets.
  */
 export function shiftedDesign(previous: Design, shift: LineShift): Design {
+  // nothing moves (a line edited in place): the same design
+  if (shift.lines === 0) return previous;
   const { movedCards, modelCards } = cardMover(previous, shift);
   // an edit in no definition: every circuit only has its origins moved
   const edit: SpliceEdit = { scope: '\0', portCount: 0, slots: undefined as unknown as NetSlots, lines: [], deleting: false, bodyIndex: new Map(), firstNewBodyIndex: -1, moveOrigin: originMover(shift), movedCards, netOrigins: new Map() };
