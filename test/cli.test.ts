@@ -4,7 +4,7 @@ import { spawnSync } from 'node:child_process';
 import * as fs from 'node:fs';
 import * as os from 'node:os';
 import * as path from 'node:path';
-import { describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 
 const ROOT = path.join(__dirname, '..');
 const CLI = path.join(ROOT, 'dist', 'cli.js');
@@ -14,8 +14,15 @@ function tidemark(args: string[], cwd = ROOT): { code: number | null; stdout: st
   return { code: r.status, stdout: r.stdout, stderr: r.stderr };
 }
 
+// every directory tempDir made, removed when the file's tests are done
+const made: string[] = [];
+afterAll(() => {
+  for (const dir of made) fs.rmSync(dir, { recursive: true, force: true });
+});
+
 function tempDir(files: Record<string, string>): string {
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'tidemark-cli-'));
+  made.push(dir);
   for (const [name, text] of Object.entries(files)) {
     fs.mkdirSync(path.dirname(path.join(dir, name)), { recursive: true });
     fs.writeFileSync(path.join(dir, name), text);

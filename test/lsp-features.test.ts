@@ -28,6 +28,7 @@ describe('editor features over the real protocol', () => {
   });
   afterAll(async () => {
     await client.shutdown();
+    fs.rmSync(dir, { recursive: true, force: true });
   });
 
   it('hovers a node with its states, capacitance, leakage, retention and droop figures', async () => {

@@ -18,6 +18,7 @@ describe('language server over stdio', () => {
   });
   afterAll(async () => {
     await client.shutdown();
+    fs.rmSync(dir, { recursive: true, force: true });
   });
 
   it('publishes front-end diagnostics on open and updates them on change', async () => {

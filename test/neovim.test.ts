@@ -6,7 +6,7 @@ import { spawnSync } from 'node:child_process';
 import * as fs from 'node:fs';
 import * as os from 'node:os';
 import * as path from 'node:path';
-import { describe, expect, it } from 'vitest';
+import { describe, expect, it, onTestFinished } from 'vitest';
 
 const ROOT = path.join(__dirname, '..');
 const SERVER = path.join(ROOT, 'dist', 'server.js');
@@ -31,7 +31,9 @@ describe.skipIf(!haveNvim && !mustRun)('Neovim as the LSP client', () => {
     it(`receives the CLI's findings for ${sample}`, () => {
       expect(haveNvim, 'nvim is not installed').toBe(true);
       const file = path.join(ROOT, 'samples', sample);
-      const out = path.join(fs.mkdtempSync(path.join(os.tmpdir(), 'tidemark-nvim-')), 'diagnostics.json');
+      const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'tidemark-nvim-'));
+      onTestFinished(() => fs.rmSync(dir, { recursive: true, force: true }));
+      const out = path.join(dir, 'diagnostics.json');
       const r = spawnSync('nvim', ['--headless', '-u', 'NONE', '-i', 'NONE', '-n', '-c', `luafile ${path.join(__dirname, 'support', 'nvim-attach.lua')}`, file], {
         env: { ...process.env, TIDEMARK_SERVER: SERVER, TIDEMARK_OUT: out },
         encoding: 'utf8',

@@ -103,6 +103,7 @@ describe('the bus holder quick fix over the real protocol, checked in ngspice', 
   });
   afterAll(async () => {
     await client.shutdown();
+    fs.rmSync(dir, { recursive: true, force: true });
   });
 
   it('inserts the feedback inverter, and the bus becomes kept', async () => {
