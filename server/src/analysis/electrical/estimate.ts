@@ -316,8 +316,8 @@ function copyEstimate(from: NodeEstimate, n: number, devices: number[]): NodeEst
 /** One pass of estimates over a circuit, with the caches that let repeated cells share solves. */
 class EstimateRun {
   private readonly cache: LeakCache = new Map();
-  private readonly internalCache = new Map<string, { estimate: NodeEstimate; position: Map<number, number> }>();
-  private readonly storageCache = new Map<string, { estimate: NodeEstimate; position: Map<number, number>; family?: Family }>();
+  private readonly internalCache = new KeyTable<{ estimate: NodeEstimate; position: Map<number, number> }>();
+  private readonly storageCache = new KeyTable<{ estimate: NodeEstimate; position: Map<number, number>; family?: Family }>();
   private readonly keys: StructureKeys;
   /** The node's results per phase, while it is estimated. */
   private readonly results: Array<NodePhaseResult | undefined> = [];
@@ -354,6 +354,7 @@ class EstimateRun {
     // Nodes repeat with every instance of a cell: one leakage solve serves all instances whose
     // group has the same devices, sizes and surroundings (checked by structureKey).
     const { key, devices } = this.keys.of(n, floating);
+    const written = key.written;
     if (cl.storage[n]) {
       const prior = this.shared ? this.storageCache.get(key) : undefined;
       // an identically wired twin takes the first node's estimate with its own nets put in
@@ -373,7 +374,7 @@ class EstimateRun {
           }
         : undefined;
       const e = estimateNode(ctx, n, devices, floating, values, this.constantEverywhere, this.cache, reuse);
-      if (!prior) this.storageCache.set(key, { estimate: e, position: new Map(devices.map((d, k) => [d, k])) });
+      if (!prior) this.storageCache.set(key, written, { estimate: e, position: new Map(devices.map((d, k) => [d, k])) });
       // partly its own work (not wired like its twin): a family of its own for later edits
       this.shareOf[n] = n;
       return e;
@@ -385,7 +386,7 @@ class EstimateRun {
       return copy;
     }
     const e = estimateNode(ctx, n, devices, floating, values, this.constantEverywhere, this.cache);
-    if (!hit) this.internalCache.set(key, { estimate: e, position: new Map(devices.map((d, k) => [d, k])) });
+    if (!hit) this.internalCache.set(key, written, { estimate: e, position: new Map(devices.map((d, k) => [d, k])) });
     this.shareOf[n] = n;
     return e;
   }
@@ -557,22 +558,18 @@ function originId(o: object): number {
 }
 
 /**
- * A witness's inputs (`when`, by net name) as net numbers and values, pairwise. Kept per record
- * and circuit's names: the results an edit carries over are keyed again by the next pass.
+ * A witness's inputs (`when`, by net name) as net numbers and values, pairwise. Looked up each
+ * time: a record a pass reads is nearly always new to it, and keeping each one's numbers (a
+ * WeakMap entry per record) cost more than the look-ups.
  */
-function whenNets(c: ElectricalContext['circuit'], when: Record<string, 0 | 1>): Int32Array {
-  const known = resolvedWhen.get(when);
-  if (known && known.names === c.netByName) return known.nets;
+function whenNets(c: ElectricalContext['circuit'], when: Record<string, 0 | 1>): number[] {
   const list: number[] = [];
   for (const name in when) {
     const id = c.netByName.get(name);
     if (id !== undefined) list.push(id, when[name]!);
   }
-  const nets = Int32Array.from(list);
-  resolvedWhen.set(when, { names: c.netByName, nets });
-  return nets;
+  return list;
 }
-const resolvedWhen = new WeakMap<object, { names: ReadonlyMap<string, number>; nets: Int32Array }>();
 
 /**
  * A key equal for two nodes whose estimates are necessarily equal: the same defining lines,
@@ -636,7 +633,8 @@ class StructureKeys {
     return k === 1;
   }
 
-  of(n: number, floating: Array<{ s: NodePhaseResult; i: number }>): { key: string; devices: number[] } {
+  /** The node's key (valid until the next node's is written) and its devices in canonical order. */
+  of(n: number, floating: Array<{ s: NodePhaseResult; i: number }>): { key: KeyWriter; devices: number[] } {
     const ctx = this.ctx;
     const values = ctx.classification.phaseValues;
     const net = ctx.network;
@@ -736,7 +734,7 @@ class StructureKeys {
         this.code(sw.b);
       }
     }
-    return { key: key.text(), devices };
+    return { key: key.done(), devices };
   }
 
   /** A MOSFET of the group (`tag` 7) or a gate load (8): its line and sizes, then its four nets. */
@@ -787,15 +785,21 @@ function drivenLevel(n: number, floating: ReadonlyArray<{ i: number }>, values: 
 }
 
 /**
- * A key as text, one character per 15 bits of each non-negative integer (the high bit marks a
- * continuation): equal texts are equal lists of integers. Much cheaper than writing the numbers
- * out in decimal, which was most of a key's cost.
+ * A key as 16-bit codes, one per 15 bits of each non-negative integer (the high bit marks a
+ * continuation): equal code lists are equal lists of integers. The codes are hashed as they are
+ * written, and a KeyTable compares them in place, so no text is made per node (making one and
+ * hashing it was a tenth of an estimate pass).
  */
 class KeyWriter {
-  private codes = new Uint16Array(1024);
-  private length = 0;
+  codes = new Uint16Array(1024);
+  length = 0;
+  hash = 0;
+  /** Counts the keys written, so a table can tell a finished key from one being written over. */
+  written = 0;
   reset(): this {
     this.length = 0;
+    this.hash = 0x811c9dc5;
+    this.written++;
     return this;
   }
   tag(t: number): this {
@@ -810,10 +814,9 @@ class KeyWriter {
     this.push(v);
     return this;
   }
-  text(): string {
-    let out = '';
-    for (let i = 0; i < this.length; i += 4096) out += String.fromCharCode.apply(null, this.codes.subarray(i, Math.min(this.length, i + 4096)) as unknown as number[]);
-    return out;
+  /** The key as written; valid until the next reset. */
+  done(): this {
+    return this;
   }
   private push(code: number): void {
     if (this.length === this.codes.length) {
@@ -822,7 +825,35 @@ class KeyWriter {
       this.codes = wider;
     }
     this.codes[this.length++] = code;
+    // FNV-1a over the codes
+    this.hash = Math.imul(this.hash ^ code, 0x01000193);
   }
+}
+
+/** Values by key (a KeyWriter's codes): by the codes' hash, then the codes compared. */
+class KeyTable<V> {
+  private readonly buckets = new Map<number, Array<{ codes: Uint16Array; value: V }>>();
+  get(key: KeyWriter): V | undefined {
+    const bucket = this.buckets.get(key.hash);
+    if (!bucket) return undefined;
+    for (const e of bucket) if (sameCodes(e.codes, key)) return e.value;
+    return undefined;
+  }
+  /** Stores a copy of the key's codes; the key must be the one last written (not reset since). */
+  set(key: KeyWriter, written: number, value: V): void {
+    if (key.written !== written) throw new Error('KeyTable.set: the key was written over');
+    const entry = { codes: key.codes.slice(0, key.length), value };
+    const bucket = this.buckets.get(key.hash);
+    if (bucket) bucket.push(entry);
+    else this.buckets.set(key.hash, [entry]);
+  }
+}
+
+function sameCodes(codes: Uint16Array, key: KeyWriter): boolean {
+  if (codes.length !== key.length) return false;
+  const k = key.codes;
+  for (let i = 0; i < codes.length; i++) if (codes[i] !== k[i]) return false;
+  return true;
 }
 
 const stateIds = new Map<string, number>();
