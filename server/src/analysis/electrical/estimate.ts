@@ -790,7 +790,7 @@ function drivenLevel(n: number, floating: ReadonlyArray<{ i: number }>, values: 
  * written, and a KeyTable compares them in place, so no text is made per node (making one and
  * hashing it was a tenth of an estimate pass).
  */
-class KeyWriter {
+export class KeyWriter {
   codes = new Uint16Array(1024);
   length = 0;
   hash = 0;
@@ -831,7 +831,7 @@ class KeyWriter {
 }
 
 /** Values by key (a KeyWriter's codes): by the codes' hash, then the codes compared. */
-class KeyTable<V> {
+export class KeyTable<V> {
   private readonly buckets = new Map<number, Array<{ codes: Uint16Array; value: V }>>();
   get(key: KeyWriter): V | undefined {
     const bucket = this.buckets.get(key.hash);
