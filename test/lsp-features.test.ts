@@ -11,6 +11,14 @@ import { applyEdits, TestLspClient } from './support/lspClient';
 import { runNgspice } from './support/ngspice';
 import { dominoDeck } from './support/domino';
 
+/** A figure as the hover writes it (`43.6nA`, `2.95ns`), in base units. */
+function parseEngineering(t: string): number {
+  const m = /^(-?[\d.]+(?:e-?\d+)?)([TGMkmunpfa]?)[A-Za-z]*$/.exec(t);
+  if (!m) throw new Error(`not a figure: ${t}`);
+  const scale: Record<string, number> = { T: 1e12, G: 1e9, M: 1e6, k: 1e3, '': 1, m: 1e-3, u: 1e-6, n: 1e-9, p: 1e-12, f: 1e-15, a: 1e-18 };
+  return Number(m[1]) * scale[m[2]!]!;
+}
+
 const MODELS = fs.readFileSync(path.join(__dirname, 'fixtures', 'electrical', 'models.inc'), 'utf8');
 const DECK = dominoDeck('domino gate for the editor tests', '.control\necho not circuit\n.endc\n');
 
@@ -44,8 +52,26 @@ describe('editor features over the real protocol', () => {
     expect(md).toMatch(/\| 110 C \| [\d.]+[pnu]A \| [\d.]+[munp]?s \|/);
     expect(md).toMatch(/budget/);
     expect(md).toMatch(/not sign-off/);
+    // the corner tables list only the contributors that matter: each at least 1% of its row's leakage
+    const amps = (t: string) => parseEngineering(t);
+    const rows = md.split('\n').filter((l) => /^\| \d+ C \|/.test(l));
+    expect(rows.length).toBeGreaterThan(0);
+    for (const row of rows) {
+      const cells = row.split('|').map((x) => x.trim());
+      const total = amps(cells[2]!);
+      for (const m of cells[4]!.matchAll(/ (\S+A)(?:,|$)/g)) expect(amps(m[1]!)).toBeGreaterThanOrEqual(0.01 * total);
+    }
+    // figures in engineering units, in the remedy's reasoning too
+    expect(md).not.toMatch(/\de-\d+ ?A/);
+    expect(md).toMatch(/hot-corner leakage [\d.]+[fpnu]A; the keeper supplies [\d.]+[fpnum]A/);
     const dev = (await client.conn.sendRequest('textDocument/hover', { textDocument: { uri }, position: { line: 5, character: 1 } })) as { contents: { value: string } };
-    expect(dev.contents.value).toMatch(/\*\*xg\.mna\*\* — n-channel/);
+    const dmd = dev.contents.value;
+    expect(dmd).toMatch(/\*\*xg\.mna\*\* — n-channel/);
+    // what the device leaks, a table from the largest current down
+    expect(dmd).toMatch(/\| node \| holding \| corner \| mechanism \| current \|/);
+    const currents = dmd.split('\n').filter((l) => /^\| xg\./.test(l)).map((l) => amps(l.split('|')[5]!.trim()));
+    expect(currents.length).toBeGreaterThan(0);
+    expect([...currents].sort((x, y) => y - x)).toEqual(currents);
   });
 
   it('inserts a sized keeper from the quick fix, and the node becomes kept', async () => {

@@ -86,7 +86,8 @@ export function netHover(result: AnalysisResult, file: string, target: Extract<T
     lines.push(`**Capacitance** ${formatEng(k.totalF, 'F')}: gate ${formatEng(k.gateF, 'F')}, diffusion ${formatEng(k.diffusionF, 'F')}, overlap ${formatEng(k.overlapF, 'F')}, explicit ${formatEng(k.explicitF, 'F')}${k.couplingF ? ` (coupling ${formatEng(k.couplingF, 'F')})` : ''}`);
     for (const s of e.stored) {
       const rows = s.corners.map((x) => {
-        const top = x.contributors.slice(0, 3).map((y) => `${c.mosfets[e.devices[y.pos]!]!.name} ${y.mechanism} ${formatEng(y.currentA, 'A')}`).join(', ');
+        // the few that matter: a contributor a hundred times below the total changes no figure
+        const top = significant(x.contributors, x.leakageA).slice(0, 3).map((y) => `${c.mosfets[e.devices[y.pos]!]!.name} ${y.mechanism} ${formatEng(y.currentA, 'A')}`).join(', ');
         const ret = x.held ? 'held' : x.retentionS === null ? '—' : formatEng(x.retentionS, 's');
         return `| ${x.tempC} C | ${formatEng(x.leakageA, 'A')} | ${ret} | ${top} |`;
       });
@@ -117,6 +118,16 @@ export function netHover(result: AnalysisResult, file: string, target: Extract<T
   return lines.join('\n\n');
 }
 
+/** A contributor under this share of its node's leakage is not listed (it changes no figure shown). */
+const SIGNIFICANT = 0.01;
+/** Rows of a device's leakage table. */
+const MAX_LEAK_ROWS = 8;
+
+/** The contributors at least SIGNIFICANT of the total (the largest always), in their order. */
+function significant<T extends { currentA: number }>(list: readonly T[], totalA: number): T[] {
+  return list.filter((y, i) => i === 0 || Math.abs(y.currentA) >= SIGNIFICANT * Math.abs(totalA));
+}
+
 export function deviceHover(result: AnalysisResult, file: string, target: Extract<Target, { kind: 'device' }>): string | undefined {
   for (const a of result.circuits) {
     const c = a.circuit;
@@ -131,11 +142,27 @@ export function deviceHover(result: AnalysisResult, file: string, target: Extrac
     });
     lines.push('| phase | gate | channel |\n| --- | --- | --- |\n' + rows.join('\n'));
     const idx = c.mosfets.indexOf(m);
-    const contributions: string[] = [];
+    // what it leaks from each node it bounds, where that is at least a hundredth of the node's leakage
+    const leaks: Array<{ currentA: number; row: string }> = [];
+    let slight = 0;
     for (const [node, e] of a.estimates ?? []) {
-      for (const s of e.stored) for (const k of s.corners) for (const x of k.contributors) if (e.devices[x.pos] === idx && contributions.length < 6) contributions.push(`${formatEng(x.currentA, 'A')} ${x.mechanism} from ${c.nets[node]!.name} holding ${s.level} at ${k.tempC} C`);
+      for (const s of e.stored) {
+        for (const k of s.corners) {
+          for (const x of k.contributors) {
+            if (e.devices[x.pos] !== idx) continue;
+            if (Math.abs(x.currentA) < SIGNIFICANT * Math.abs(k.leakageA)) slight++;
+            else leaks.push({ currentA: Math.abs(x.currentA), row: `| ${c.nets[node]!.name} | ${s.level} | ${k.tempC} C | ${x.mechanism} | ${formatEng(x.currentA, 'A')} |` });
+          }
+        }
+      }
     }
-    if (contributions.length) lines.push(`**Leaks** ${contributions.join('; ')}`);
+    if (leaks.length) {
+      leaks.sort((x, y) => y.currentA - x.currentA);
+      const shown = leaks.slice(0, MAX_LEAK_ROWS);
+      const more = leaks.length - shown.length;
+      lines.push(`**Leakage** it draws from the floating nodes it touches\n\n| node | holding | corner | mechanism | current |\n| --- | --- | --- | --- | --- |\n${shown.map((x) => x.row).join('\n')}${more > 0 ? `\n\n_${more} more, smaller_` : ''}`);
+    }
+    if (slight) lines.push(`_${slight} smaller contribution${slight === 1 ? '' : 's'} (under 1% of a node's leakage) not listed_`);
     lines.push('_Tidemark estimates are a screening aid, not sign-off._');
     return lines.join('\n\n');
   }

@@ -9,6 +9,7 @@ import type { Circuit, Mosfet, Polarity } from '../../circuit/circuit';
 import { NetRole } from '../switchNetwork';
 import { channelCurrent } from './leakage';
 import type { ElectricalContext } from './context';
+import { formatEng } from '../../circuit/numbers';
 
 /** Common-practice bounds (no source): keeper/pull-down ratio, and the hold margin over leakage. */
 export const KEEPER_RATIO_MIN = 0.1;
@@ -203,11 +204,11 @@ export function sizeKeeper(ctx: ElectricalContext, node: number, storedLevel: 0 
   }
   const picked = choice ?? fallbackChoice;
   if (!picked) {
-    reasoning.push(`no keeper up to 4x minimum width supplies ${HOLD_MARGIN}x the hot leakage (${hotLeakageA.toExponential(2)} A)`);
+    reasoning.push(`no keeper up to 4x minimum width supplies ${HOLD_MARGIN}x the hot leakage (${formatEng(hotLeakageA, 'A')})`);
     return undefined;
   }
   const f = (x: number) => `${(x * 1e6).toPrecision(3)}u`;
-  reasoning.push(`hot-corner leakage ${hotLeakageA.toExponential(2)} A; the keeper supplies ${picked.hold.toExponential(2)} A with the node ${ctx.budgetV.toFixed(3)} V from its level (need ${HOLD_MARGIN}x, common practice)`);
+  reasoning.push(`hot-corner leakage ${formatEng(hotLeakageA, 'A')}; the keeper supplies ${formatEng(picked.hold, 'A')} with the node ${formatEng(ctx.budgetV, 'V')} from its level (need ${HOLD_MARGIN}x, common practice)`);
   if (pull.currentA > 0) reasoning.push(`keeper/pull-down ratio ${picked.ratio.toFixed(2)} against ${pull.devices.map((i) => c.mosfets[i]!.name).join(' + ')} (common practice ${KEEPER_RATIO_MIN}-${KEEPER_RATIO_MAX})`);
   reasoning.push(`W = ${f(picked.w)} (minimum ${f(wMin)}), L = ${f(picked.l)} (${(picked.l / lMin).toFixed(1)}x minimum) to stay weak`);
   const inv = existingInverter(ctx, node);
