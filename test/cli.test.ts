@@ -88,6 +88,13 @@ describe('tidemark check', () => {
     expect(tidemark(['check', 'bad.sp', '--fail-on', 'never'], dir).code).toBe(0);
   });
 
+  it('names the phases of each netlist on its line of the text output', () => {
+    const r = tidemark(['check', 'samples/tern_dynamic_flop.sp', 'samples/tern_buses.sp', '--no-colour', '--fail-on', 'never']);
+    expect(r.code).toBe(0);
+    expect(r.stdout).toMatch(/^samples\/tern_dynamic_flop\.sp {2}circuit \(top\), \d+ transistors, \d+ nets; phases clk=1, clk=0, standby clk=0$/m);
+    expect(r.stdout).toMatch(/^samples\/tern_buses\.sp {2}.*; phases pclk=1, pclk=0$/m);
+  });
+
   it('--fail-on warning counts warnings', () => {
     const dir = tempDir({ 'w.sp': 'w\nM1 y a 0 0 nch w=0.4 l=0.15\nva a 0 1\n.end\n' });
     expect(tidemark(['check', 'w.sp'], dir).code).toBe(0);

@@ -6,6 +6,9 @@ import { TOOL_VERSION } from '../findings/report';
 
 const COLOURS = { error: '\x1b[31m', warning: '\x1b[33m', info: '\x1b[36m', dim: '\x1b[2m', bold: '\x1b[1m', reset: '\x1b[0m' };
 
+/** Phases named on a netlist's line in the text output; more are counted. */
+const MAX_PHASES_LISTED = 6;
+
 export function formatText(report: Report, colour: boolean): string {
   const c = (k: keyof typeof COLOURS, s: string) => (colour ? COLOURS[k] + s + COLOURS.reset : s);
   const lines: string[] = [];
@@ -13,11 +16,13 @@ export function formatText(report: Report, colour: boolean): string {
     const devices = n.circuits.reduce((a, x) => a + x.mosfets, 0);
     const nets = n.circuits.reduce((a, x) => a + x.nets, 0);
     const what = n.circuits.length === 1 ? `circuit ${n.circuits[0]!.name}` : `${n.circuits.length} standalone subcircuits`;
-    lines.push(c('bold', n.file) + c('dim', `  ${what}, ${devices} transistors, ${nets} nets`));
+    // the phases by name, so the ones the findings quote can be told apart
+    const phases = report.phases.filter((p) => p.file === n.file).map((p) => (n.circuits.length > 1 ? `${p.circuit}: ${p.name}` : p.name));
+    const shown = phases.length > MAX_PHASES_LISTED ? `${phases.slice(0, MAX_PHASES_LISTED).join(', ')}, ... (${phases.length} in all)` : phases.join(', ');
+    lines.push(c('bold', n.file) + c('dim', `  ${what}, ${devices} transistors, ${nets} nets${phases.length ? `; phases ${shown}` : ''}`));
   }
   const supplies = report.supplies.filter((s, i, a) => a.findIndex((x) => x.net === s.net && x.volts === s.volts) === i);
   if (supplies.length) lines.push(c('dim', 'supplies: ' + supplies.map((s) => `${s.net}${s.volts === null ? ' (voltage unknown)' : `=${s.volts}V`}`).join(', ')));
-  if (report.phases.length) lines.push(c('dim', `phases: ${report.phases.length}`));
   lines.push('');
   const open = report.diagnostics.filter((d) => !d.accepted);
   const accepted = report.diagnostics.filter((d) => d.accepted);
