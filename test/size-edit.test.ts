@@ -14,6 +14,8 @@ import { overlay, report } from './support/edits';
 import { same } from './support/sameAnalysis';
 import { patchSizes } from '../server/src/circuit/patch';
 import { hierarchicalNetlist } from '../scripts/netlists';
+import { fixesOnSamples } from './support/quickFixes';
+import { applyEdits } from './support/lspClient';
 
 const SAMPLES = path.join(__dirname, '..', 'samples');
 
@@ -107,6 +109,21 @@ describe('size edits reuse the previous analysis and equal a fresh one', () => {
       }
     });
   }
+  it('the keeper resize fixes on every sample and electrical fixture are size edits, answered from the previous analysis and equal to a fresh one', () => {
+    let fixes = 0;
+    for (const { file, text, before, fix } of fixesOnSamples(/^Resize the keeper/)) {
+      expect(fix.edits.every((e) => e.file === file)).toBe(true);
+      const edited = applyEdits(text, fix.edits.map((e) => ({ range: e.range, newText: e.newText })));
+      const deck = readDeck(overlay(file, edited), file);
+      expect(patchSizes(before.deck, before.design, deck), fix.title).toBeDefined();
+      const fast = reanalyse(before, deck);
+      expect(fast, `${path.basename(file)}: ${fix.title}`).toBeDefined();
+      same(file, fast!, analyse(overlay(file, edited), file));
+      fixes++;
+    }
+    expect(fixes).toBeGreaterThanOrEqual(2);
+  }, 120_000);
+
   it('a generated hierarchical datapath (5k transistors): random size edits in its leaf cells', () => {
     const file = '/datapath.sp';
     const patched = check(file, hierarchicalNetlist(5_000), (t) => memoryHost({ [file]: t }), 6, true);

@@ -1,5 +1,5 @@
 // The quick fixes of every sample and electrical fixture, for the tests that apply them, and a
-// fix's edits applied to a text (insertions at line starts, as the fixes make them).
+// fix's edits applied to a text (lines put in, and words replaced in place).
 
 import * as fs from 'node:fs';
 import { analyse, type AnalysisResult } from '../../server/src/engine';
@@ -7,6 +7,7 @@ import type { Diagnostic } from '../../server/src/core/diagnostics';
 import { quickFixes, type QuickFix } from '../../server/src/service/fixes';
 import { overlay } from './edits';
 import { samplesAndElectricalFixtures } from './fixtures';
+import { applyEdits } from './lspClient';
 
 export function* fixesOnSamples(title: RegExp): Generator<{ file: string; text: string; before: AnalysisResult; finding: Diagnostic; fix: QuickFix }> {
   for (const file of samplesAndElectricalFixtures()) {
@@ -17,7 +18,5 @@ export function* fixesOnSamples(title: RegExp): Generator<{ file: string; text: 
 }
 
 export function withFix(text: string, fix: QuickFix): string {
-  const lines = text.split('\n');
-  for (const e of [...fix.edits].sort((a, b) => b.range.start.line - a.range.start.line)) lines.splice(e.range.start.line, 0, ...e.newText.replace(/\n$/, '').split('\n'));
-  return lines.join('\n');
+  return applyEdits(text, fix.edits.map((e) => ({ range: e.range, newText: e.newText })));
 }

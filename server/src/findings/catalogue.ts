@@ -133,13 +133,13 @@ export const RULES = {
   'keeper-weak': {
     severity: 'warning',
     title: 'Keeper too weak',
-    explanation: 'The keeper on this node cannot supply the hot-corner leakage, or cannot resist charge sharing, with margin.',
+    explanation: 'The keeper on this node cannot supply the hot-corner leakage, or cannot resist charge sharing, with margin. The quick fix resizes a keeper too weak for the leakage; no keeper size stops charge sharing (precharge the internal node).',
   },
   'keeper-strong': {
     severity: 'warning',
     title: 'Keeper too strong',
     explanation:
-      'The keeper-to-pull-down strength ratio is above the common-practice range (about 0.1 to 0.3), so evaluation is slowed or may fail.',
+      'The keeper-to-pull-down strength ratio is above the common-practice range (about 0.1 to 0.3), so evaluation is slowed or may fail. The quick fix resizes the keeper into the range, still holding ten times the hot-corner leakage.',
   },
   'hyperperiod-capped': {
     severity: 'info',

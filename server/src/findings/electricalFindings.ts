@@ -10,7 +10,8 @@ import { KEEPER_RATIO_MAX } from '../analysis/electrical/keeper';
 import { originKey, revisedNodes } from './perNode';
 import { movedNets, type NetRenumbering } from '../core/renumber';
 
-const KEEPER_WEAK_MARGIN = 2;
+/** A keeper supplying less than this many times the hot-corner leakage is weak (common practice). */
+export const KEEPER_WEAK_MARGIN = 2;
 
 /** One finding a node raises, before findings of the same defining line are merged. */
 interface Emission {

@@ -1,5 +1,5 @@
 // Quick fixes as plain text edits (the server turns them into LSP edits): insert a sized keeper
-// (and its inverter), declare a clock, accept a finding with a reason. Every fix declares the
+// (and its inverter), resize an existing keeper, declare a clock, accept a finding with a reason. Every fix declares the
 // rule codes it answers, and every edit leaves a netlist that still parses and simulates.
 
 import type { AnalysisResult } from '../engine';
@@ -10,7 +10,8 @@ import type { SyntaxFile, Statement, WordItem } from '../syntax/tree';
 import { interpretElement } from '../circuit/elements';
 import { formatEng } from '../circuit/numbers';
 import type { Circuit } from '../circuit/circuit';
-import { sizingBasis } from '../analysis/electrical/keeper';
+import { sizeKeeper, sizingBasis } from '../analysis/electrical/keeper';
+import { KEEPER_WEAK_MARGIN } from '../findings/electricalFindings';
 
 export interface TextEdit {
   file: string;
@@ -86,7 +87,58 @@ export function quickFixes(result: AnalysisResult, d: Diagnostic): QuickFix[] {
     const k = keeperFix(result, d, file) ?? holderFix(result, d, file);
     if (k) out.unshift(k);
   }
+  if (d.node && (d.rule === 'keeper-weak' || d.rule === 'keeper-strong')) {
+    const r = resizeKeeperFix(result, d);
+    if (r) out.unshift(r);
+  }
   return out;
+}
+
+/**
+ * An existing keeper too weak for the hot-corner leakage, or too strong against the pull-down:
+ * the W and L on its line replaced by the sizes a keeper of its own card gets (sizeKeeper: 10x
+ * the leakage held, 0.1-0.3 of the pull-down), in every instance of its cell. Offered only when
+ * those sizes meet both targets, and when the line writes W and L as plain numbers with no
+ * multiplier or fingers. Not for a keeper that cannot stop charge sharing: no keeper size
+ * answers that (the precharge fix does).
+ */
+function resizeKeeperFix(result: AnalysisResult, d: Diagnostic): QuickFix | undefined {
+  for (const { a, c, id } of circuitsWithNode(result, d)) {
+    const e = a.estimates?.get(id);
+    const k = e?.keeper;
+    const ctx = a.electrical;
+    if (!k || !ctx || k.devices.length !== 1) continue;
+    if (d.rule === 'keeper-weak' && (k.holdCurrentA >= KEEPER_WEAK_MARGIN * k.hotLeakageA || d.message.includes('cannot stop charge sharing'))) return undefined;
+    const m = c.mosfets[k.devices[0]!]!;
+    if (m.m !== 1 || m.nf !== 1) return undefined;
+    const file = result.deck.files.find((f) => f.file === m.origin.file);
+    const stmt = file?.statements.find((s) => s.range.start.line === m.origin.range.start.line && s.range.start.character === m.origin.range.start.character);
+    const el = stmt ? interpretElement(stmt) : undefined;
+    if (!file || !el || el.kind !== 'mos') return undefined;
+    const param = (name: string) => el.params.find((p) => p.name.text.toLowerCase() === name);
+    const w = param('w');
+    const l = param('l');
+    // a size written as an expression or a parameter stays the designer's
+    const wv = w?.value;
+    const lv = l?.value;
+    if (wv?.kind !== 'word' || lv?.kind !== 'word' || !/^[\d.]/.test(wv.text) || !/^[\d.]/.test(lv.text)) return undefined;
+    const hot = ctx.corners.reduce((x, y) => (y.tempK > x.tempK ? y : x));
+    const s = sizeKeeper(ctx, id, m.polarity === 'p' ? 1 : 0, k.hotLeakageA, hot.tempK, m);
+    if (!s || !s.meetsHold || !s.meetsRatio) return undefined;
+    const dim = dimensionIn(result);
+    if (dim(s.wM) === wv.text && dim(s.lM) === lv.text) return undefined;
+    const where = m.origin.subckt !== null ? ` in every ${m.origin.subckt}` : '';
+    return {
+      title: `Resize the keeper ${m.origin.local} to W=${dim(s.wM)} L=${dim(s.lM)}${where}`,
+      fixes: [d.rule],
+      preferred: true,
+      edits: [
+        { file: file.file, range: wv.range, newText: dim(s.wM) },
+        { file: file.file, range: lv.range, newText: dim(s.lM) },
+      ],
+    };
+  }
+  return undefined;
 }
 
 /** A transistor's statement as written: its terminal words (d, g, s, b) and model name. */
@@ -133,11 +185,15 @@ function localContext(c: Circuit, file: SyntaxFile, subckt: string | null): { vd
 }
 
 /** Where a fix for a net goes and how its sizes are written. */
+/** A length or width as the netlist writes it: SPICE suffixes in metres, or plain numbers under a scale. */
+function dimensionIn(result: AnalysisResult): (m: number) => string {
+  const scale = result.design.geometryScale.value;
+  return (m: number) => (scale === 1 ? spiceNumber(m) : String(Number((m / scale).toPrecision(3))));
+}
+
 function placement(result: AnalysisResult, c: Circuit, file: SyntaxFile, id: number) {
   const net = c.nets[id]!;
-  const scale = result.design.geometryScale.value;
-  // in the netlist's own units: SPICE suffixes in metres, or plain numbers under a scale
-  const dim = (m: number) => (scale === 1 ? spiceNumber(m) : String(Number((m / scale).toPrecision(3))));
+  const dim = dimensionIn(result);
   const stmt = statementAt(file, net.origin.range.start.line);
   const insertLine = (stmt ? stmt.range.end.line : net.origin.range.start.line) + 1;
   const local = net.origin.local;

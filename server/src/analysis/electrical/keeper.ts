@@ -174,15 +174,21 @@ export function sameSizingBasis(a: Circuit, b: Circuit, changed?: readonly numbe
   });
 }
 
-export function sizeKeeper(ctx: ElectricalContext, node: number, storedLevel: 0 | 1, hotLeakageA: number, hotTempK: number): KeeperSuggestion | undefined {
+/**
+ * A keeper for `node` holding `storedLevel`: the sizes on a grid from the minimum (W 1-4x, L 8x
+ * down to 1x) that supply HOLD_MARGIN x the hot-corner leakage at the budget droop, nearest
+ * KEEPER_RATIO_MIN of the pull-down without passing KEEPER_RATIO_MAX. `template`: the device
+ * whose card it takes (an existing keeper being resized); else a device of the node's polarity.
+ */
+export function sizeKeeper(ctx: ElectricalContext, node: number, storedLevel: 0 | 1, hotLeakageA: number, hotTempK: number, template?: Mosfet): KeeperSuggestion | undefined {
   const c = ctx.circuit;
   const polarity: Polarity = storedLevel === 1 ? 'p' : 'n';
   const basis = sizingBasis(c);
   const own = basis[polarity];
   if (!own) return undefined;
   // a device of the node's own group sets the model (the first in circuit order), else the circuit's first
-  const onNode = ctx.channelOf(node).find((i) => c.mosfets[i]!.polarity === polarity);
-  const template = c.mosfets[onNode ?? own.first]!;
+  const onNode = template ? undefined : ctx.channelOf(node).find((i) => c.mosfets[i]!.polarity === polarity);
+  template ??= c.mosfets[onNode ?? own.first]!;
   const { wMin, lMin } = own;
   const pull = pullStrength(ctx, node, storedLevel, hotTempK);
   const reasoning: string[] = [];
