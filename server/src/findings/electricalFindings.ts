@@ -13,6 +13,13 @@ import { movedNets, type NetRenumbering } from '../core/renumber';
 /** A keeper supplying less than this many times the hot-corner leakage is weak (common practice). */
 export const KEEPER_WEAK_MARGIN = 2;
 
+/** The words that tell a keeper-weak finding about charge sharing from one about leakage (its quick fixes differ). */
+export const KEEPER_SHARING_WORDS = 'cannot stop charge sharing';
+
+export function isKeeperSharingFinding(d: Pick<Diagnostic, 'rule' | 'message'>): boolean {
+  return d.rule === 'keeper-weak' && d.message.includes(KEEPER_SHARING_WORDS);
+}
+
 /** One finding a node raises, before findings of the same defining line are merged. */
 interface Emission {
   /** Tells apart two findings of one rule on one node (keeper-weak: leakage, sharing). */
@@ -156,7 +163,7 @@ function nodeEmissions(ctx: ElectricalContext, e: NodeEstimate, b: string): Emis
       emit('keeper-weak', k.holdCurrentA < k.hotLeakageA ? 'error' : 'warning', `${name}: keeper ${kname} supplies ${formatEng(k.holdCurrentA, 'A')} at the ${b} droop, against ${formatEng(k.hotLeakageA, 'A')} of hot-corner leakage (want at least ${KEEPER_WEAK_MARGIN}x)`);
     }
     if (share > budget) {
-      emit('keeper-weak', 'warning', `${name}: keeper ${kname} cannot stop charge sharing with ${e.chargeSharing!.joined.map((j) => c.nets[j]!.name).join(', ')} from drooping it by ${formatEng(share, 'V')} (budget ${b}); precharge the internal node or reorder the stack`, 'sharing');
+      emit('keeper-weak', 'warning', `${name}: keeper ${kname} ${KEEPER_SHARING_WORDS} with ${e.chargeSharing!.joined.map((j) => c.nets[j]!.name).join(', ')} from drooping it by ${formatEng(share, 'V')} (budget ${b}); precharge the internal node or reorder the stack`, 'sharing');
     }
     if (k.ratio > KEEPER_RATIO_MAX) {
       emit('keeper-strong', k.ratio > 2 * KEEPER_RATIO_MAX ? 'error' : 'warning', `${name}: keeper ${kname} is ${k.ratio.toFixed(2)}x as strong as ${k.against.map((i) => c.mosfets[i]!.name).join(' + ')} (common practice at most ${KEEPER_RATIO_MAX})`);

@@ -11,7 +11,7 @@ import { interpretElement } from '../circuit/elements';
 import { formatEng } from '../circuit/numbers';
 import type { Circuit } from '../circuit/circuit';
 import { sizeKeeper, sizingBasis } from '../analysis/electrical/keeper';
-import { KEEPER_WEAK_MARGIN } from '../findings/electricalFindings';
+import { isKeeperSharingFinding, KEEPER_WEAK_MARGIN } from '../findings/electricalFindings';
 
 export interface TextEdit {
   file: string;
@@ -79,9 +79,11 @@ export function quickFixes(result: AnalysisResult, d: Diagnostic): QuickFix[] {
       edits: [{ file: d.file, range: at(line), newText: `* tidemark: accept ${name} ${d.rule} reason="reviewed: state why this is safe"\n` }],
     });
   }
-  if (d.node && (d.rule === 'charge-sharing' || d.rule === 'combined-droop')) {
+  // a keeper that cannot stop charge sharing: the precharge answers that finding too
+  const sharingKeeper = isKeeperSharingFinding(d);
+  if (d.node && (d.rule === 'charge-sharing' || d.rule === 'combined-droop' || sharingKeeper)) {
     const p = prechargeFix(result, d, file);
-    if (p) out.unshift(p);
+    if (p) out.unshift(sharingKeeper ? { ...p, fixes: [...p.fixes, 'keeper-weak'] } : p);
   }
   if (d.node && KEEPER_FIX_RULES.includes(d.rule)) {
     const k = keeperFix(result, d, file) ?? holderFix(result, d, file);
@@ -108,7 +110,7 @@ function resizeKeeperFix(result: AnalysisResult, d: Diagnostic): QuickFix | unde
     const k = e?.keeper;
     const ctx = a.electrical;
     if (!k || !ctx || k.devices.length !== 1) continue;
-    if (d.rule === 'keeper-weak' && (k.holdCurrentA >= KEEPER_WEAK_MARGIN * k.hotLeakageA || d.message.includes('cannot stop charge sharing'))) return undefined;
+    if (d.rule === 'keeper-weak' && (k.holdCurrentA >= KEEPER_WEAK_MARGIN * k.hotLeakageA || isKeeperSharingFinding(d))) return undefined;
     const m = c.mosfets[k.devices[0]!]!;
     if (m.m !== 1 || m.nf !== 1) return undefined;
     const file = result.deck.files.find((f) => f.file === m.origin.file);
