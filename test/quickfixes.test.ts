@@ -60,6 +60,8 @@ describe('every quick fix on the samples', () => {
       if (f !== 'tern_static_block.sp') expect(applied).toBeGreaterThan(0);
       // the domino sample has a keeper too strong and one too weak for the leakage
       if (f === 'tern_domino_adder.sp') expect(resized).toBeGreaterThanOrEqual(2);
+      // the buses sample's misspelt select is offered the net it was meant to be
+      if (f === 'tern_buses.sp') expect(before.diagnostics.flatMap((d) => quickFixes(before, d)).map((x) => x.title)).toContain('Change selx to sel (1 use)');
       // and a keeper that cannot stop charge sharing there is offered the precharge
       if (f === 'tern_domino_adder.sp') expect(precharged).toBeGreaterThanOrEqual(1);
     });
@@ -277,5 +279,35 @@ describe('the keeper resize quick fix, checked in ngspice', () => {
     const quick = half(await sim(fixed, 1, 1, '2p 3n'));
     expect(quick).toBeLessThan(slow);
     expect(droop(await sim(fixed, 0, 1, '1n 501n'))).toBeLessThan(0.1);
+  });
+});
+
+// The fix for an undriven net whose name is a few letters from a driven one: every use in its
+// scope changed to that net, as written there; never offered for names too short to tell apart.
+describe('the misspelt net name quick fix', () => {
+  const deck = (body: string) => `misspelt names\n.subckt cell a b y vdd vss\n${body}.ends cell\nX1 a b y1 vdd 0 cell\nX2 a b y2 vdd 0 cell\nvdd vdd 0 1\n* tidemark: input a b\n.model tn nmos level=1\n.model tp pmos level=1\n.end\n`;
+  const fixesFor = (text: string) => {
+    const file = path.join(os.tmpdir(), 'tidemark-misspelt.sp');
+    const r = analyse(overlay(file, text), file);
+    const d = r.diagnostics.find((x) => x.rule === 'undriven-net');
+    return { file, d, titles: d ? quickFixes(r, d).map((x) => x.title) : [], fixes: d ? quickFixes(r, d) : [] };
+  };
+  it('changes every use in the cell to the nearest driven net, as it is written', () => {
+    const text = deck('Mp Mid A vdd vdd tp w=1u l=0.1u\nMn Mid A vss vss tn w=1u l=0.1u\nMp2 y MIDX vdd vdd tp w=1u l=0.1u\nMn2 y midx vss vss tn w=1u l=0.1u\n');
+    const { file, d, fixes } = fixesFor(text);
+    expect(d?.node).toBe('x1.midx');
+    const fix = fixes.find((x) => x.title.startsWith('Change'))!;
+    expect(fix.title).toBe('Change MIDX to Mid in cell (2 uses)');
+    const fixed = applyTextEdits(text, fix.edits);
+    expect(fixed).toContain('Mp2 y Mid vdd vdd');
+    expect(fixed).toContain('Mn2 y Mid vss vss');
+    expect(analyse(overlay(file, fixed), file).diagnostics.filter((x) => x.rule === 'undriven-net')).toEqual([]);
+  });
+  it('offers nothing for a name too short or too far from any driven net', () => {
+    for (const body of ['Mp y a vdd vdd tp w=1u l=0.1u\nMn y a2 vss vss tn w=1u l=0.1u\n', 'Mp y a vdd vdd tp w=1u l=0.1u\nMn y enable vss vss tn w=1u l=0.1u\n']) {
+      const { d, titles } = fixesFor(deck(body));
+      expect(d, body).toBeDefined();
+      expect(titles.filter((t) => t.startsWith('Change'))).toEqual([]);
+    }
   });
 });

@@ -1,6 +1,7 @@
 // Quick fixes as plain text edits (the server turns them into LSP edits): insert a sized keeper
-// (and its inverter), resize an existing keeper, declare a clock, accept a finding with a reason. Every fix declares the
-// rule codes it answers, and every edit leaves a netlist that still parses and simulates.
+// (and its inverter), a bus holder or a precharge, resize an existing keeper, correct a misspelt
+// net name, declare a clock, accept a finding with a reason. Every fix declares the rule codes it
+// answers, and every edit leaves a netlist that still parses and simulates.
 
 import type { AnalysisResult } from '../engine';
 import type { Diagnostic } from '../core/diagnostics';
@@ -12,6 +13,7 @@ import { formatEng } from '../circuit/numbers';
 import type { Circuit } from '../circuit/circuit';
 import { sizeKeeper, sizingBasis } from '../analysis/electrical/keeper';
 import { isKeeperSharingFinding, KEEPER_WEAK_MARGIN } from '../findings/electricalFindings';
+import { netReferenceWords } from './outline';
 
 export interface TextEdit {
   file: string;
@@ -93,7 +95,70 @@ export function quickFixes(result: AnalysisResult, d: Diagnostic): QuickFix[] {
     const r = resizeKeeperFix(result, d);
     if (r) out.unshift(r);
   }
+  if (d.node && d.rule === 'undriven-net') out.unshift(...misspeltNetFixes(result, d));
   return out;
+}
+
+/** Nets offered for an undriven name, nearest first. */
+const MAX_NAME_CANDIDATES = 2;
+
+/**
+ * An undriven net whose name is a few letters from a driven net of the same scope (`selx` for
+ * `sel`): every use of the name in its scope changed to that net's, as it is written there. A
+ * candidate must be a signal that something drives, within two edits (a letter put in, taken
+ * out, changed, or two swapped) and less than half the shorter name, so `a1` is never offered
+ * for `a2`.
+ */
+function misspeltNetFixes(result: AnalysisResult, d: Diagnostic): QuickFix[] {
+  for (const { a, c, id } of circuitsWithNode(result, d)) {
+    const origin = c.nets[id]!.origin;
+    const file = result.deck.files.find((f) => f.file === origin.file);
+    if (!file) return [];
+    const network = a.classification.network;
+    const seen = new Set<string>([origin.local]);
+    const candidates: Array<{ local: string; distance: number }> = [];
+    for (let x = 0; x < c.nets.length; x++) {
+      const n = c.nets[x]!;
+      const o = n.origin;
+      if (o.subckt !== origin.subckt || o.file !== origin.file || seen.has(o.local)) continue;
+      seen.add(o.local);
+      if (n.kind !== 'signal' || network.unreachable[x]) continue;
+      const distance = editDistance(origin.local, o.local, 2);
+      if (distance <= 2 && distance < Math.min(origin.local.length, o.local.length) / 2) candidates.push({ local: o.local, distance });
+    }
+    candidates.sort((x, y) => x.distance - y.distance || (x.local < y.local ? -1 : 1));
+    const uses = netReferenceWords(file, origin.subckt, origin.local);
+    if (!uses.length) return [];
+    const where = origin.subckt !== null ? ` in ${origin.subckt}` : '';
+    return candidates.slice(0, MAX_NAME_CANDIDATES).flatMap(({ local }) => {
+      const written = netReferenceWords(file, origin.subckt, local)[0]?.text ?? local;
+      return [{
+        title: `Change ${uses[0]!.text} to ${written}${where} (${uses.length} use${uses.length === 1 ? '' : 's'})`,
+        fixes: ['undriven-net'] as RuleCode[],
+        edits: uses.map((w) => ({ file: file.file, range: w.range, newText: written })),
+      }];
+    });
+  }
+  return [];
+}
+
+/** Edits between two names (optimal string alignment: a swap of neighbours is one), or limit + 1 when more. */
+function editDistance(a: string, b: string, limit: number): number {
+  if (Math.abs(a.length - b.length) > limit) return limit + 1;
+  const rows = [new Array<number>(b.length + 1).fill(0).map((_, j) => j)];
+  for (let i = 1; i <= a.length; i++) {
+    const row = [i];
+    for (let j = 1; j <= b.length; j++) {
+      const cost = a[i - 1] === b[j - 1] ? 0 : 1;
+      let v = Math.min(rows[i - 1]![j]! + 1, row[j - 1]! + 1, rows[i - 1]![j - 1]! + cost);
+      if (i > 1 && j > 1 && a[i - 1] === b[j - 2] && a[i - 2] === b[j - 1]) v = Math.min(v, rows[i - 2]![j - 2]! + 1);
+      row.push(v);
+    }
+    // every later row is at least this row's least
+    if (Math.min(...row) > limit) return limit + 1;
+    rows.push(row);
+  }
+  return rows[a.length]![b.length]!;
 }
 
 /**

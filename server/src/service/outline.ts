@@ -134,7 +134,12 @@ export function completions(deck: Deck, linePrefix: string): CompletionItem[] {
  * the top level) in a file: element nodes and subcircuit ports. Names are case-insensitive.
  */
 export function netReferences(f: SyntaxFile, subckt: string | null, name: string): Range[] {
-  const out: Range[] = [];
+  return netReferenceWords(f, subckt, name).map((w) => w.range);
+}
+
+/** The words of `netReferences`, as written. */
+export function netReferenceWords(f: SyntaxFile, subckt: string | null, name: string): WordItem[] {
+  const out: WordItem[] = [];
   const stack: Array<string | null> = [null];
   for (const s of f.statements) {
     const head = s.head.text.toLowerCase();
@@ -142,7 +147,7 @@ export function netReferences(f: SyntaxFile, subckt: string | null, name: string
       const ws = s.items.filter((x): x is WordItem => x.kind === 'word');
       const here = ws[0]?.text.toLowerCase() ?? null;
       stack.push(here);
-      if (here === subckt) for (const p of ws.slice(1)) if (p.text.toLowerCase() === name) out.push(p.range);
+      if (here === subckt) for (const p of ws.slice(1)) if (p.text.toLowerCase() === name) out.push(p);
       continue;
     }
     if (head === '.ends' || head === '.eom') {
@@ -151,7 +156,7 @@ export function netReferences(f: SyntaxFile, subckt: string | null, name: string
     }
     if (stack[stack.length - 1] !== subckt || head.startsWith('.')) continue;
     const el = interpretElement(s);
-    if (el && 'nodes' in el) for (const w of el.nodes) if (w.text.toLowerCase() === name) out.push(w.range);
+    if (el && 'nodes' in el) for (const w of el.nodes) if (w.text.toLowerCase() === name) out.push(w);
   }
   return out;
 }
