@@ -62,10 +62,14 @@ export function quickFixes(result: AnalysisResult, d: Diagnostic): QuickFix[] {
   if (!file) return out;
   if (d.rule === 'clock-unknown' && d.node) {
     const insertLine = file.title !== undefined ? 1 : 0;
+    // the timing of a clock the circuit already has (the fastest), else 1 ns: a placeholder either way
+    const known = result.circuits.flatMap((a) => a.plan.clocks).reduce<{ periodS: number; name: string } | undefined>((x, k) => (!x || k.periodS < x.periodS ? { periodS: k.periodS, name: k.name } : x), undefined);
+    const period = known ? spiceNumber(known.periodS) : '1n';
+    const high = known ? spiceNumber(known.periodS / 2) : '0.5n';
     out.push({
-      title: `Declare ${d.node} as a clock (period 1n, high 0.5n; edit to the real figures)`,
+      title: `Declare ${d.node} as a clock (period ${period}, high ${high}${known ? `, as ${known.name}` : ''}; edit to the real figures)`,
       fixes: ['clock-unknown'],
-      edits: [{ file: d.file, range: at(insertLine), newText: `* tidemark: clock ${d.node} period=1n high=0.5n\n` }],
+      edits: [{ file: d.file, range: at(insertLine), newText: `* tidemark: clock ${d.node} period=${period} high=${high}\n` }],
     });
   }
   if (d.node && !d.accepted && ACCEPTABLE_RULES.includes(d.rule)) {
