@@ -74,6 +74,26 @@ describe('editor features over the real protocol', () => {
     expect([...currents].sort((x, y) => y - x)).toEqual(currents);
   });
 
+  it('says what holding a memory cell would take: the capacitance for its float window, or the refresh interval', async () => {
+    const file = path.join(__dirname, '..', 'samples', 'tern_dram_array.sp');
+    const text = fs.readFileSync(file, 'utf8');
+    const dram = pathToFileURL(file).toString();
+    const opened = client.diagnosticsFor(dram);
+    await client.open(dram, text);
+    await opened;
+    const line = text.split('\n').findIndex((l) => l.startsWith('Macc '));
+    const hover = (await client.conn.sendRequest('textDocument/hover', { textDocument: { uri: dram }, position: { line, character: text.split('\n')[line]!.indexOf(' sn ') + 2 } })) as { contents: { value: string } };
+    const md = hover.contents.value;
+    const m = /\*\*To hold it\*\* through its (\S+) float window at 110 C: about (\S+) of capacitance \(it has (\S+)\), or restore \(refresh\) it at least every (\S+)/.exec(md);
+    expect(m, md).not.toBeNull();
+    const [windowS, neededF, hasF, everyS] = m!.slice(1).map(parseEngineering) as [number, number, number, number];
+    // the retention at the hot corner in the node's table is the refresh interval, and the
+    // capacitance scales with the window over it
+    expect(md).toContain(`retention at 110 C ${m![4]}`);
+    expect(neededF / ((hasF * windowS) / everyS)).toBeCloseTo(1, 1);
+    expect(neededF).toBeGreaterThan(hasF);
+  });
+
   it('inserts a sized keeper from the quick fix, and the node becomes kept', async () => {
     const d = client.published.filter((p) => p.uri === uri).at(-1)!;
     const floating = d.diagnostics.find((x) => x.code === 'floating-node')!;

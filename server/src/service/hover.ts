@@ -107,6 +107,15 @@ export function netHover(result: AnalysisResult, file: string, target: Extract<T
       const s = e.suggestedKeeper;
       lines.push(`**Remedy**: a ${s.polarity === 'p' ? 'p' : 'n'}-channel keeper W=${formatEng(s.wM, 'm')} L=${formatEng(s.lM, 'm')} (${s.model})${s.inverter.existingOutput ? `, gate on ${s.inverter.existingOutput}` : ', with a new inverter'} — ${s.reasoning.join('; ')}. The quick fix inserts it.`);
     }
+    // nothing to insert (a memory cell, a node that holds data with no holder sized): what holding it would take
+    const window = e.floatWindowS;
+    if (!e.keeper && !e.suggestedKeeper && !e.suggestedHolder && hot.retentionS !== null && window !== null && hot.retentionS < window) {
+      const restore = `restore (refresh) it at least every ${formatEng(hot.retentionS, 's')}`;
+      // retention grows in proportion to the capacitance at the same leakage
+      lines.push(Number.isFinite(window)
+        ? `**To hold it** through its ${formatEng(window, 's')} float window at ${hot.tempC} C: about ${formatEng((e.capacitance.totalF * window) / hot.retentionS, 'F')} of capacitance (it has ${formatEng(e.capacitance.totalF, 'F')}), or ${restore}`
+        : `**To hold it**: it is never restored; ${restore} at ${hot.tempC} C`);
+    }
     if (e.suggestedHolder) {
       const h = e.suggestedHolder;
       const what = h.kind === 'feedback' ? `a weak feedback inverter from ${h.forward.existingOutput}` : 'a bus holder (a new inverter and a weak one back)';
