@@ -94,6 +94,19 @@ describe('editor features over the real protocol', () => {
     expect(neededF).toBeGreaterThan(hasF);
   });
 
+  it('lists each fix once for a line with several findings, with every finding it answers', async () => {
+    const d = client.published.filter((p) => p.uri === uri).at(-1)!;
+    const floating = d.diagnostics.find((x) => x.code === 'floating-node')!;
+    const onLine = d.diagnostics.filter((x) => x.range.start.line === floating.range.start.line);
+    expect(onLine.length).toBeGreaterThan(1);
+    const actions = (await client.conn.sendRequest('textDocument/codeAction', { textDocument: { uri }, range: floating.range, context: { diagnostics: onLine } })) as Array<{ title: string; diagnostics: Array<{ code: string }> }>;
+    const titles = actions.map((a) => a.title);
+    expect(new Set(titles).size).toBe(titles.length);
+    // the keeper answers the float and the short retention alike
+    const keeper = actions.find((a) => a.title.startsWith('Insert a keeper'))!;
+    expect(keeper.diagnostics.map((x) => x.code)).toEqual(expect.arrayContaining(onLine.filter((x) => x.code === 'floating-node' || x.code === 'retention-short').map((x) => x.code)));
+  });
+
   it('inserts a sized keeper from the quick fix, and the node becomes kept', async () => {
     const d = client.published.filter((p) => p.uri === uri).at(-1)!;
     const floating = d.diagnostics.find((x) => x.code === 'floating-node')!;

@@ -663,17 +663,24 @@ connection.onCodeAction((p) =>
     const c = await currentAnalysis(rootFor(p.textDocument.uri));
     if (!c) return [];
     const file = fileURLToPath(p.textDocument.uri);
-    const actions: CodeAction[] = [];
+    // one action per fix: the same fix offered for two findings on the line (a holder for a float
+    // and for its short retention) is listed once, with both findings
+    const actions = new Map<string, CodeAction>();
     for (const ld of p.context.diagnostics) {
-      const d = c.result.diagnostics.find((x) => x.file === file && x.rule === ld.code && x.range.start.line === ld.range.start.line && x.range.start.character === ld.range.start.character);
+      // two findings of one rule can share a place (a keeper too weak for the leakage, and for charge sharing): the message tells them apart
+      const here = c.result.diagnostics.filter((x) => x.file === file && x.rule === ld.code && x.range.start.line === ld.range.start.line && x.range.start.character === ld.range.start.character);
+      const d = here.find((x) => x.message === ld.message) ?? here[0];
       if (!d) continue;
       for (const fx of quickFixes(c.result, d)) {
         const changes: Record<string, Array<{ range: { start: { line: number; character: number }; end: { line: number; character: number } }; newText: string }>> = {};
         for (const e of fx.edits) (changes[pathToFileURL(e.file).toString()] ??= []).push({ range: { start: e.range.start, end: e.range.end }, newText: e.newText });
-        actions.push({ title: fx.title, kind: CodeActionKind.QuickFix, diagnostics: [ld], edit: { changes }, isPreferred: fx.preferred === true });
+        const key = `${fx.title}\n${JSON.stringify(changes)}`;
+        const known = actions.get(key);
+        if (known) known.diagnostics!.push(ld);
+        else actions.set(key, { title: fx.title, kind: CodeActionKind.QuickFix, diagnostics: [ld], edit: { changes }, isPreferred: fx.preferred === true });
       }
     }
-    return actions;
+    return [...actions.values()];
   }, []),
 );
 
