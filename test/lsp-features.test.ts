@@ -94,6 +94,18 @@ describe('editor features over the real protocol', () => {
     expect(neededF).toBeGreaterThan(hasF);
   });
 
+  it('shows a bus whose drivers can fight and that floats for other inputs with both witnesses', async () => {
+    const file = path.join(__dirname, '..', 'samples', 'tern_buses.sp');
+    const text = fs.readFileSync(file, 'utf8');
+    const buses = pathToFileURL(file).toString();
+    const opened = client.diagnosticsFor(buses);
+    await client.open(buses, text);
+    await opened;
+    const line = text.split('\n').findIndex((l) => l.startsWith('Xadc '));
+    const hover = (await client.conn.sendRequest('textDocument/hover', { textDocument: { uri: buses }, position: { line, character: text.split('\n')[line]!.indexOf('rbus') + 1 } })) as { contents: { value: string } };
+    expect(hover.contents.value).toMatch(/\| pclk=1 \| drivers can fight, and floats for some inputs \| [^|]*en_adc=1[^|]* \(fight\); en_adc=0 en_dsp=0 \(float\) \|/);
+  });
+
   it('lists each fix once for a line with several findings, with every finding it answers', async () => {
     const d = client.published.filter((p) => p.uri === uri).at(-1)!;
     const floating = d.diagnostics.find((x) => x.code === 'floating-node')!;

@@ -76,8 +76,11 @@ export function netHover(result: AnalysisResult, file: string, target: Extract<T
   lines.push('| phase | state | when |\n| --- | --- | --- |\n' + a.plan.phases.map((p, i) => {
     const r = cl.perPhase[i]!.get(net);
     const st = r?.state ?? 'driven';
-    const w = r?.state === 'contention' ? when(r.contentionWhen) : when(r?.when);
-    return `| ${p.name} | ${STATE_WORDS[st] ?? st}${r && !r.exact ? ' (not verified)' : ''} | ${w} |`;
+    // a node whose drivers can fight may also float for other inputs (a tri-state bus): both shown
+    const floatsToo = r?.state === 'contention' && (r.floatCover?.length ?? 0) > 0;
+    const also = floatsToo ? (r!.when ? ', and floats for some inputs' : ', and floats') : '';
+    const w = r?.state === 'contention' ? (floatsToo && r.when ? `${when(r.contentionWhen)} (fight); ${when(r.when)} (float)` : when(r.contentionWhen)) : when(r?.when);
+    return `| ${p.name} | ${STATE_WORDS[st] ?? st}${also}${r && !r.exact ? ' (not verified)' : ''} | ${w} |`;
   }).join('\n'));
   const e = a.estimates?.get(net);
   if (e) {
