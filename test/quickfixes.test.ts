@@ -75,6 +75,23 @@ describe('every quick fix on the samples', () => {
     expect(titles.some((t) => /^Insert a weak feedback inverter on st from/.test(t))).toBe(true);
     expect(titles.some((t) => t.startsWith('Declare dbg_clk as a clock'))).toBe(true);
   });
+  it('says when a suggested holder or keeper stays too strong at the longest size tried, and does not prefer it', () => {
+    const fixes = samples.flatMap((f) => {
+      const r = analyse(diskHost(), path.join(SAMPLES, f));
+      return r.diagnostics.flatMap((d) => quickFixes(r, d));
+    });
+    // the flop's slave: its series p-channel driver is weaker than any n half the grid holds
+    const flop = fixes.find((q) => /^Insert a weak feedback inverter on st from q: .* N W=200n L=360n \(the N half [\d.]+x the driver it fights: check the write\)$/.test(q.title));
+    expect(flop, fixes.map((q) => q.title).join('\n')).toBeDefined();
+    expect(flop!.preferred).toBe(false);
+    // the domino keepers meet the range: preferred, no warning
+    const keepers = fixes.filter((q) => q.title.startsWith('Insert a keeper'));
+    expect(keepers.length).toBeGreaterThan(0);
+    for (const k of keepers) {
+      expect(k.title).not.toMatch(/check/);
+      expect(k.preferred).toBe(true);
+    }
+  });
 });
 
 const MODELS = fs.readFileSync(path.join(__dirname, 'fixtures', 'electrical', 'models.inc'), 'utf8');

@@ -11,7 +11,7 @@ import type { SyntaxFile, Statement, WordItem } from '../syntax/tree';
 import { interpretElement } from '../circuit/elements';
 import { formatEng } from '../circuit/numbers';
 import type { Circuit } from '../circuit/circuit';
-import { sizeKeeper, sizingBasis } from '../analysis/electrical/keeper';
+import { sizeKeeper, sizingBasis, tooStrong } from '../analysis/electrical/keeper';
 import { isKeeperSharingFinding, KEEPER_WEAK_MARGIN } from '../findings/electricalFindings';
 import { netReferenceWords } from './outline';
 
@@ -296,12 +296,14 @@ function holderFix(result: AnalysisResult, d: Diagnostic, file: SyntaxFile): Qui
     }
     lines.push(`Mhold_bp_${safe} ${local} ${back} ${lc.vdd} ${vb} ${lc.pModel} w=${dim(h.pullUp.wM)} l=${dim(h.pullUp.lM)}`);
     lines.push(`Mhold_bn_${safe} ${local} ${back} ${lc.gnd} ${gb} ${lc.nModel} w=${dim(h.pullDown.wM)} l=${dim(h.pullDown.lM)}`);
+    // a half that stays too strong even at the longest size tried may stop a write: said, and not preferred
+    const strong = tooStrong(h);
     return {
-      title: h.kind === 'feedback'
+      title: (h.kind === 'feedback'
         ? `Insert a weak feedback inverter on ${local} from ${back}: P W=${dim(h.pullUp.wM)} L=${dim(h.pullUp.lM)}, N W=${dim(h.pullDown.wM)} L=${dim(h.pullDown.lM)}`
-        : `Insert a bus holder on ${local}: weak P W=${dim(h.pullUp.wM)} L=${dim(h.pullUp.lM)}, N W=${dim(h.pullDown.wM)} L=${dim(h.pullDown.lM)}`,
+        : `Insert a bus holder on ${local}: weak P W=${dim(h.pullUp.wM)} L=${dim(h.pullUp.lM)}, N W=${dim(h.pullDown.wM)} L=${dim(h.pullDown.lM)}`) + (strong ? ` (${strong}: check the write)` : ''),
       fixes: KEEPER_FIX_RULES,
-      preferred: true,
+      preferred: !strong,
       edits: [{ file: file.file, range: at(afterFirstUses(c, file, id, lines, insertLine)), newText: lines.join('\n') + '\n' }],
     };
   }
@@ -371,10 +373,11 @@ function keeperFix(result: AnalysisResult, d: Diagnostic, file: SyntaxFile): Qui
       lines.push(`Mkinv_n_${safe} ${gate} ${local} ${lc.gnd} ${lc.gndBulk ?? lc.gnd} ${lc.nModel} w=${dim(wn)} l=${dim(l)}`);
     }
     lines.push(`Mkeep_${safe} ${local} ${gate} ${vdd} ${bulk} ${model} w=${dim(s.wM)} l=${dim(s.lM)}`);
+    const strong = tooStrong(s);
     return {
-      title: `Insert a keeper on ${local}: W=${dim(s.wM)} L=${dim(s.lM)}${s.inverter.existingOutput ? '' : ' and its inverter'}`,
+      title: `Insert a keeper on ${local}: W=${dim(s.wM)} L=${dim(s.lM)}${s.inverter.existingOutput ? '' : ' and its inverter'}${strong ? ` (${strong}: check the evaluation)` : ''}`,
       fixes: KEEPER_FIX_RULES,
-      preferred: true,
+      preferred: !strong,
       edits: [{ file: file.file, range: at(afterFirstUses(c, file, id, lines, insertLine)), newText: lines.join('\n') + '\n' }],
     };
   }

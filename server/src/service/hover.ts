@@ -7,6 +7,7 @@ import type { Target } from './locate';
 import { formatEng } from '../circuit/numbers';
 import { interpretElement } from '../circuit/elements';
 import type { Range } from '../core/source';
+import { tooStrong, type HolderSuggestion, type KeeperSuggestion } from '../analysis/electrical/keeper';
 
 function sameRange(a: Range, b: Range): boolean {
   return a.start.line === b.start.line && a.start.character === b.start.character && a.end.line === b.end.line && a.end.character === b.end.character;
@@ -108,7 +109,7 @@ export function netHover(result: AnalysisResult, file: string, target: Extract<T
     if (e.keeper) lines.push(`**Keeper** ${e.keeper.devices.map((i) => c.mosfets[i]!.name).join(', ')}: supplies ${formatEng(e.keeper.holdCurrentA, 'A')} at the budget droop against ${formatEng(e.keeper.hotLeakageA, 'A')} hot leakage; ${e.keeper.ratio.toFixed(2)}x the pull-down`);
     if (e.suggestedKeeper) {
       const s = e.suggestedKeeper;
-      lines.push(`**Remedy**: a ${s.polarity === 'p' ? 'p' : 'n'}-channel keeper W=${formatEng(s.wM, 'm')} L=${formatEng(s.lM, 'm')} (${s.model})${s.inverter.existingOutput ? `, gate on ${s.inverter.existingOutput}` : ', with a new inverter'} — ${s.reasoning.join('; ')}. The quick fix inserts it.`);
+      lines.push(`**Remedy**: a ${s.polarity === 'p' ? 'p' : 'n'}-channel keeper W=${formatEng(s.wM, 'm')} L=${formatEng(s.lM, 'm')} (${s.model})${s.inverter.existingOutput ? `, gate on ${s.inverter.existingOutput}` : ', with a new inverter'} — ${s.reasoning.join('; ')}.${warnStrong(s, 'evaluation')} The quick fix inserts it.`);
     }
     // nothing to insert (a memory cell, a node that holds data with no holder sized): what holding it would take
     const window = e.floatWindowS;
@@ -122,12 +123,18 @@ export function netHover(result: AnalysisResult, file: string, target: Extract<T
     if (e.suggestedHolder) {
       const h = e.suggestedHolder;
       const what = h.kind === 'feedback' ? `a weak feedback inverter from ${h.forward.existingOutput}` : 'a bus holder (a new inverter and a weak one back)';
-      lines.push(`**Remedy**: the node holds data, so it needs both levels held: ${what}, P W=${formatEng(h.pullUp.wM, 'm')} L=${formatEng(h.pullUp.lM, 'm')} (${formatEng(h.pullUp.holdCurrentA, 'A')} at the budget droop), N W=${formatEng(h.pullDown.wM, 'm')} L=${formatEng(h.pullDown.lM, 'm')} (${formatEng(h.pullDown.holdCurrentA, 'A')}); ${h.pullUp.strengthRatio.toFixed(2)}/${h.pullDown.strengthRatio.toFixed(2)}x the drivers they fight. The quick fix inserts it.`);
+      lines.push(`**Remedy**: the node holds data, so it needs both levels held: ${what}, P W=${formatEng(h.pullUp.wM, 'm')} L=${formatEng(h.pullUp.lM, 'm')} (${formatEng(h.pullUp.holdCurrentA, 'A')} at the budget droop), N W=${formatEng(h.pullDown.wM, 'm')} L=${formatEng(h.pullDown.lM, 'm')} (${formatEng(h.pullDown.holdCurrentA, 'A')}); ${h.pullUp.strengthRatio.toFixed(2)}/${h.pullDown.strengthRatio.toFixed(2)}x the drivers they fight.${warnStrong(h, 'a write')} The quick fix inserts it.`);
     }
     if (e.notes.length) lines.push(`_${e.notes.join('; ')}_`);
   }
   lines.push('_Tidemark estimates are a screening aid, not sign-off._');
   return lines.join('\n\n');
+}
+
+/** A sentence for a suggestion left too strong at the longest size tried (empty when none is). */
+function warnStrong(s: KeeperSuggestion | HolderSuggestion, what: string): string {
+  const strong = tooStrong(s);
+  return strong ? ` ${strong[0]!.toUpperCase()}${strong.slice(1)}, even at the longest size tried: check that ${what} still wins, or strengthen the driver.` : '';
 }
 
 /** A contributor under this share of its node's leakage is not listed (it changes no figure shown). */

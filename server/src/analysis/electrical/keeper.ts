@@ -236,6 +236,17 @@ export function sizeKeeper(ctx: ElectricalContext, node: number, storedLevel: 0 
   };
 }
 
+/**
+ * What a suggestion leaves too strong: the halves (or the keeper) whose strength ratio stays over
+ * KEEPER_RATIO_MAX at the longest size tried, as words for a title or a card ('the N half 1.41x
+ * the driver it fights'); undefined when every part meets the range.
+ */
+export function tooStrong(s: KeeperSuggestion | HolderSuggestion): string | undefined {
+  const parts = 'pullUp' in s ? [['the P half', s.pullUp], ['the N half', s.pullDown]] as const : [['the keeper', s]] as const;
+  const over = parts.filter(([, k]) => !k.meetsRatio).map(([what, k]) => `${what} ${k.strengthRatio.toFixed(2)}x the driver it fights`);
+  return over.length ? over.join(', ') : undefined;
+}
+
 export interface HolderSuggestion {
   kind: 'holder' | 'feedback';
   /** The weak feedback inverter's halves: the p half holds a 1, the n half holds a 0. */
