@@ -74,16 +74,22 @@ describe('editor features over the real protocol', () => {
     expect([...currents].sort((x, y) => y - x)).toEqual(currents);
   });
 
-  it('says what holding a memory cell would take: the capacitance for its float window, or the refresh interval', async () => {
-    const file = path.join(__dirname, '..', 'samples', 'tern_dram_array.sp');
+  /** Opens a sample, waits for its findings, and hovers `word` on the first line starting with `lineStart`. */
+  const hoverInSample = async (sample: string, lineStart: string, word: string): Promise<string> => {
+    const file = path.join(__dirname, '..', 'samples', sample);
     const text = fs.readFileSync(file, 'utf8');
-    const dram = pathToFileURL(file).toString();
-    const opened = client.diagnosticsFor(dram);
-    await client.open(dram, text);
+    const sampleUri = pathToFileURL(file).toString();
+    const opened = client.diagnosticsFor(sampleUri);
+    await client.open(sampleUri, text);
     await opened;
-    const line = text.split('\n').findIndex((l) => l.startsWith('Macc '));
-    const hover = (await client.conn.sendRequest('textDocument/hover', { textDocument: { uri: dram }, position: { line, character: text.split('\n')[line]!.indexOf(' sn ') + 2 } })) as { contents: { value: string } };
-    const md = hover.contents.value;
+    const lines = text.split('\n');
+    const line = lines.findIndex((l) => l.startsWith(lineStart));
+    const hover = (await client.conn.sendRequest('textDocument/hover', { textDocument: { uri: sampleUri }, position: { line, character: lines[line]!.indexOf(word) + 1 } })) as { contents: { value: string } };
+    return hover.contents.value;
+  };
+
+  it('says what holding a memory cell would take: the capacitance for its float window, or the refresh interval', async () => {
+    const md = await hoverInSample('tern_dram_array.sp', 'Macc ', ' sn ');
     const m = /\*\*To hold it\*\* through its (\S+) float window at 110 C: about (\S+) of capacitance \(it has (\S+)\), or restore \(refresh\) it at least every (\S+)/.exec(md);
     expect(m, md).not.toBeNull();
     const [windowS, neededF, hasF, everyS] = m!.slice(1).map(parseEngineering) as [number, number, number, number];
@@ -95,15 +101,8 @@ describe('editor features over the real protocol', () => {
   });
 
   it('shows a bus whose drivers can fight and that floats for other inputs with both witnesses', async () => {
-    const file = path.join(__dirname, '..', 'samples', 'tern_buses.sp');
-    const text = fs.readFileSync(file, 'utf8');
-    const buses = pathToFileURL(file).toString();
-    const opened = client.diagnosticsFor(buses);
-    await client.open(buses, text);
-    await opened;
-    const line = text.split('\n').findIndex((l) => l.startsWith('Xadc '));
-    const hover = (await client.conn.sendRequest('textDocument/hover', { textDocument: { uri: buses }, position: { line, character: text.split('\n')[line]!.indexOf('rbus') + 1 } })) as { contents: { value: string } };
-    expect(hover.contents.value).toMatch(/\| pclk=1 \| drivers can fight, and floats for some inputs \| [^|]*en_adc=1[^|]* \(fight\); en_adc=0 en_dsp=0 \(float\) \|/);
+    const md = await hoverInSample('tern_buses.sp', 'Xadc ', 'rbus');
+    expect(md).toMatch(/\| pclk=1 \| drivers can fight, and floats for some inputs \| [^|]*en_adc=1[^|]* \(fight\); en_adc=0 en_dsp=0 \(float\) \|/);
   });
 
   it('lists each fix once for a line with several findings, with every finding it answers', async () => {
