@@ -255,13 +255,13 @@ function localContext(c: Circuit, file: SyntaxFile, subckt: string | null): { vd
   return ctx;
 }
 
-/** Where a fix for a net goes and how its sizes are written. */
 /** A length or width as the netlist writes it: SPICE suffixes in metres, or plain numbers under a scale. */
 function dimensionIn(result: AnalysisResult): (m: number) => string {
   const scale = result.design.geometryScale.value;
   return (m: number) => (scale === 1 ? spiceNumber(m) : String(Number((m / scale).toPrecision(3))));
 }
 
+/** Where a fix for a net goes and how its sizes are written. */
 function placement(result: AnalysisResult, c: Circuit, file: SyntaxFile, id: number) {
   const net = c.nets[id]!;
   const dim = dimensionIn(result);
