@@ -11,7 +11,7 @@ import type { SyntaxFile, Statement, WordItem } from '../syntax/tree';
 import { interpretElement } from '../circuit/elements';
 import { formatEng } from '../circuit/numbers';
 import type { Circuit } from '../circuit/circuit';
-import { sizeKeeper, sizingBasis, tooStrong } from '../analysis/electrical/keeper';
+import { overpowersDriver, sizeKeeper, sizingBasis, tooStrong } from '../analysis/electrical/keeper';
 import { isKeeperSharingFinding, KEEPER_WEAK_MARGIN } from '../findings/electricalFindings';
 import { netReferenceWords } from './outline';
 
@@ -279,6 +279,8 @@ function holderFix(result: AnalysisResult, d: Diagnostic, file: SyntaxFile): Qui
   for (const { a, c, id } of circuitsWithNode(result, d)) {
     const h = a.estimates?.get(id)?.suggestedHolder;
     if (!h) continue;
+    // a half stronger than the driver it fights would stop the write: nothing to offer (the hover says why)
+    if (overpowersDriver(h)) return undefined;
     const { local, safe, dim, insertLine, lc } = placement(result, c, file, id);
     if (!lc.gnd || !lc.vdd || !lc.nModel || !lc.pModel) return undefined;
     const vb = lc.vddBulk ?? lc.vdd;
@@ -357,6 +359,7 @@ function keeperFix(result: AnalysisResult, d: Diagnostic, file: SyntaxFile): Qui
     const e = a.estimates?.get(id);
     const s = e?.suggestedKeeper;
     if (!s) continue;
+    if (overpowersDriver(s)) return undefined;
     const { local, safe, dim, insertLine, lc } = placement(result, c, file, id);
     const vdd = s.polarity === 'p' ? lc.vdd : lc.gnd;
     const bulk = s.polarity === 'p' ? (lc.vddBulk ?? lc.vdd) : (lc.gndBulk ?? lc.gnd);

@@ -7,7 +7,7 @@ import type { Target } from './locate';
 import { formatEng } from '../circuit/numbers';
 import { interpretElement } from '../circuit/elements';
 import type { Range } from '../core/source';
-import { tooStrong, type HolderSuggestion, type KeeperSuggestion } from '../analysis/electrical/keeper';
+import { overpowersDriver, tooStrong, type HolderSuggestion, type KeeperSuggestion } from '../analysis/electrical/keeper';
 
 function sameRange(a: Range, b: Range): boolean {
   return a.start.line === b.start.line && a.start.character === b.start.character && a.end.line === b.end.line && a.end.character === b.end.character;
@@ -109,7 +109,7 @@ export function netHover(result: AnalysisResult, file: string, target: Extract<T
     if (e.keeper) lines.push(`**Keeper** ${e.keeper.devices.map((i) => c.mosfets[i]!.name).join(', ')}: supplies ${formatEng(e.keeper.holdCurrentA, 'A')} at the budget droop against ${formatEng(e.keeper.hotLeakageA, 'A')} hot leakage; ${e.keeper.ratio.toFixed(2)}x the pull-down`);
     if (e.suggestedKeeper) {
       const s = e.suggestedKeeper;
-      lines.push(`**Remedy**: a ${s.polarity === 'p' ? 'p' : 'n'}-channel keeper W=${formatEng(s.wM, 'm')} L=${formatEng(s.lM, 'm')} (${s.model})${s.inverter.existingOutput ? `, gate on ${s.inverter.existingOutput}` : ', with a new inverter'} — ${s.reasoning.join('; ')}.${warnStrong(s, 'evaluation')} The quick fix inserts it.`);
+      lines.push(`**Remedy**: a ${s.polarity === 'p' ? 'p' : 'n'}-channel keeper W=${formatEng(s.wM, 'm')} L=${formatEng(s.lM, 'm')} (${s.model})${s.inverter.existingOutput ? `, gate on ${s.inverter.existingOutput}` : ', with a new inverter'} — ${s.reasoning.join('; ')}.${remedyEnd(s, 'evaluation')}`);
     }
     // nothing to insert (a memory cell, a node that holds data with no holder sized): what holding it would take
     const window = e.floatWindowS;
@@ -123,7 +123,7 @@ export function netHover(result: AnalysisResult, file: string, target: Extract<T
     if (e.suggestedHolder) {
       const h = e.suggestedHolder;
       const what = h.kind === 'feedback' ? `a weak feedback inverter from ${h.forward.existingOutput}` : 'a bus holder (a new inverter and a weak one back)';
-      lines.push(`**Remedy**: the node holds data, so it needs both levels held: ${what}, P W=${formatEng(h.pullUp.wM, 'm')} L=${formatEng(h.pullUp.lM, 'm')} (${formatEng(h.pullUp.holdCurrentA, 'A')} at the budget droop), N W=${formatEng(h.pullDown.wM, 'm')} L=${formatEng(h.pullDown.lM, 'm')} (${formatEng(h.pullDown.holdCurrentA, 'A')}); ${h.pullUp.strengthRatio.toFixed(2)}/${h.pullDown.strengthRatio.toFixed(2)}x the drivers they fight.${warnStrong(h, 'a write')} The quick fix inserts it.`);
+      lines.push(`**Remedy**: the node holds data, so it needs both levels held: ${what}, P W=${formatEng(h.pullUp.wM, 'm')} L=${formatEng(h.pullUp.lM, 'm')} (${formatEng(h.pullUp.holdCurrentA, 'A')} at the budget droop), N W=${formatEng(h.pullDown.wM, 'm')} L=${formatEng(h.pullDown.lM, 'm')} (${formatEng(h.pullDown.holdCurrentA, 'A')}); ${h.pullUp.strengthRatio.toFixed(2)}/${h.pullDown.strengthRatio.toFixed(2)}x the drivers they fight.${remedyEnd(h, 'a write')}`);
     }
     if (e.notes.length) lines.push(`_${e.notes.join('; ')}_`);
   }
@@ -131,10 +131,16 @@ export function netHover(result: AnalysisResult, file: string, target: Extract<T
   return lines.join('\n\n');
 }
 
-/** A sentence for a suggestion left too strong at the longest size tried (empty when none is). */
-function warnStrong(s: KeeperSuggestion | HolderSuggestion, what: string): string {
+/**
+ * The end of a remedy: whether the quick fix inserts it, and for a suggestion left too strong
+ * at the longest size tried, what that means (`what`: the operation the driver must still win).
+ */
+function remedyEnd(s: KeeperSuggestion | HolderSuggestion, what: string): string {
   const strong = tooStrong(s);
-  return strong ? ` ${strong[0]!.toUpperCase()}${strong.slice(1)}, even at the longest size tried: check that ${what} still wins, or strengthen the driver.` : '';
+  if (!strong) return ' The quick fix inserts it.';
+  const parts = `${strong[0]!.toUpperCase()}${strong.slice(1)} even at the longest size tried`;
+  if (overpowersDriver(s)) return ` ${parts}, so ${what} would fail: strengthen the driver (no quick fix is offered).`;
+  return ` ${parts}: check that ${what} still wins, or strengthen the driver. The quick fix inserts it.`;
 }
 
 /** A contributor under this share of its node's leakage is not listed (it changes no figure shown). */

@@ -242,9 +242,21 @@ export function sizeKeeper(ctx: ElectricalContext, node: number, storedLevel: 0 
  * the driver it fights'); undefined when every part meets the range.
  */
 export function tooStrong(s: KeeperSuggestion | HolderSuggestion): string | undefined {
-  const parts = 'pullUp' in s ? [['the P half', s.pullUp], ['the N half', s.pullDown]] as const : [['the keeper', s]] as const;
-  const over = parts.filter(([, k]) => !k.meetsRatio).map(([what, k]) => `${what} ${k.strengthRatio.toFixed(2)}x the driver it fights`);
+  const over = suggestionParts(s).filter(([, k]) => !k.meetsRatio).map(([what, k]) => `${what} ${k.strengthRatio.toFixed(2)}x the driver it fights`);
   return over.length ? over.join(', ') : undefined;
+}
+
+/**
+ * Whether a part of the suggestion is at least as strong as the driver it fights: then the
+ * driver cannot overpower it (a write of the other level, or an evaluation, fails) and no
+ * fix is offered. ngspice shows it on the flop sample (test/quickfixes.test.ts).
+ */
+export function overpowersDriver(s: KeeperSuggestion | HolderSuggestion): boolean {
+  return suggestionParts(s).some(([, k]) => k.strengthRatio >= 1);
+}
+
+function suggestionParts(s: KeeperSuggestion | HolderSuggestion): ReadonlyArray<readonly [string, KeeperSuggestion]> {
+  return 'pullUp' in s ? [['the P half', s.pullUp], ['the N half', s.pullDown]] : [['the keeper', s]];
 }
 
 export interface HolderSuggestion {
