@@ -350,6 +350,12 @@ describe('the misspelt net name quick fix', () => {
     expect(fixed).toContain('Mn2 y Mid vss vss');
     expect(analyse(overlay(file, fixed), file).diagnostics.filter((x) => x.rule === 'undriven-net')).toEqual([]);
   });
+  it('counts two neighbouring letters swapped as one edit, and offers only the nearest names', () => {
+    // 'ebna' is one swap from 'enba' and two edits from 'enbb': only the first is offered
+    const { titles } = fixesFor(deck('Mp enba a vdd vdd tp w=1u l=0.1u\nMn enba a vss vss tn w=1u l=0.1u\nMp3 enbb b vdd vdd tp w=1u l=0.1u\nMn3 enbb b vss vss tn w=1u l=0.1u\nMp2 y ebna vdd vdd tp w=1u l=0.1u\nMn2 y ebna vss vss tn w=1u l=0.1u\n'));
+    expect(titles.filter((t) => t.startsWith('Change'))).toEqual(['Change ebna to enba in cell (2 uses)']);
+  });
+
   it('offers nothing for a name too short or too far from any driven net', () => {
     for (const body of ['Mp y a vdd vdd tp w=1u l=0.1u\nMn y a2 vss vss tn w=1u l=0.1u\n', 'Mp y a vdd vdd tp w=1u l=0.1u\nMn y enable vss vss tn w=1u l=0.1u\n']) {
       const { d, titles } = fixesFor(deck(body));

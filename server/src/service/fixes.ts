@@ -120,7 +120,7 @@ function misspeltNetFixes(result: AnalysisResult, d: Diagnostic): QuickFix[] {
     if (!file) return [];
     const network = a.classification.network;
     const seen = new Set<string>([origin.local]);
-    const candidates: Array<{ local: string; distance: number }> = [];
+    const candidates: Array<{ local: string; distance: number; x: number }> = [];
     for (let x = 0; x < c.nets.length; x++) {
       const n = c.nets[x]!;
       const o = n.origin;
@@ -128,14 +128,17 @@ function misspeltNetFixes(result: AnalysisResult, d: Diagnostic): QuickFix[] {
       seen.add(o.local);
       if (n.kind !== 'signal' || network.unreachable[x]) continue;
       const distance = editDistance(origin.local, o.local, 2);
-      if (distance <= 2 && distance < Math.min(origin.local.length, o.local.length) / 2) candidates.push({ local: o.local, distance });
+      if (distance <= 2 && distance < Math.min(origin.local.length, o.local.length) / 2) candidates.push({ local: o.local, distance, x });
     }
-    candidates.sort((x, y) => x.distance - y.distance || (x.local < y.local ? -1 : 1));
+    // only the nearest: among numbered names (n25000, n15000) a second distance says nothing
+    const best = Math.min(...candidates.map((x) => x.distance));
+    const nearest = candidates.filter((x) => x.distance === best).sort((x, y) => (x.local < y.local ? -1 : 1));
+    if (!nearest.length) return [];
     const uses = netReferenceWords(file, origin.subckt, origin.local);
     if (!uses.length) return [];
     const where = origin.subckt !== null ? ` in ${origin.subckt}` : '';
-    return candidates.slice(0, MAX_NAME_CANDIDATES).flatMap(({ local }) => {
-      const written = netReferenceWords(file, origin.subckt, local)[0]?.text ?? local;
+    return nearest.slice(0, MAX_NAME_CANDIDATES).flatMap(({ local, x }) => {
+      const written = writtenAt(file, c.nets[x]!.origin.range) ?? local;
       return [{
         title: `Change ${uses[0]!.text} to ${written}${where} (${uses.length} use${uses.length === 1 ? '' : 's'})`,
         fixes: ['undriven-net'] as RuleCode[],
@@ -146,24 +149,45 @@ function misspeltNetFixes(result: AnalysisResult, d: Diagnostic): QuickFix[] {
   return [];
 }
 
+/** The word written at `range` (a net's first use), as the file has it. */
+function writtenAt(file: SyntaxFile, range: Range): string | undefined {
+  const stmt = statementAt(file, range.start.line);
+  const same = (w: WordItem) => w.range.start.line === range.start.line && w.range.start.character === range.start.character;
+  for (const x of stmt?.items ?? []) if (x.kind === 'word' && same(x)) return x.text;
+  return undefined;
+}
+
 /** Edits between two names (optimal string alignment: a swap of neighbours is one), or limit + 1 when more. */
 function editDistance(a: string, b: string, limit: number): number {
   if (Math.abs(a.length - b.length) > limit) return limit + 1;
-  const rows = [new Array<number>(b.length + 1).fill(0).map((_, j) => j)];
+  const width = b.length + 1;
+  if (rowsBuffer.length < 3 * width) rowsBuffer = new Int32Array(6 * width);
+  // three rows in one buffer: two back, one back, this one
+  const rows = rowsBuffer;
+  let back2 = 0;
+  let back1 = width;
+  let here = 2 * width;
+  for (let j = 0; j < width; j++) rows[back1 + j] = j;
   for (let i = 1; i <= a.length; i++) {
-    const row = [i];
-    for (let j = 1; j <= b.length; j++) {
-      const cost = a[i - 1] === b[j - 1] ? 0 : 1;
-      let v = Math.min(rows[i - 1]![j]! + 1, row[j - 1]! + 1, rows[i - 1]![j - 1]! + cost);
-      if (i > 1 && j > 1 && a[i - 1] === b[j - 2] && a[i - 2] === b[j - 1]) v = Math.min(v, rows[i - 2]![j - 2]! + 1);
-      row.push(v);
+    rows[here] = i;
+    let least = i;
+    for (let j = 1; j < width; j++) {
+      const cost = a.charCodeAt(i - 1) === b.charCodeAt(j - 1) ? 0 : 1;
+      let v = Math.min(rows[back1 + j]! + 1, rows[here + j - 1]! + 1, rows[back1 + j - 1]! + cost);
+      if (i > 1 && j > 1 && a.charCodeAt(i - 1) === b.charCodeAt(j - 2) && a.charCodeAt(i - 2) === b.charCodeAt(j - 1)) v = Math.min(v, rows[back2 + j - 2]! + 1);
+      rows[here + j] = v;
+      if (v < least) least = v;
     }
     // every later row is at least this row's least
-    if (Math.min(...row) > limit) return limit + 1;
-    rows.push(row);
+    if (least > limit) return limit + 1;
+    const t = back2;
+    back2 = back1;
+    back1 = here;
+    here = t;
   }
-  return rows[a.length]![b.length]!;
+  return rows[back1 + b.length]!;
 }
+let rowsBuffer = new Int32Array(96);
 
 /**
  * An existing keeper too weak for the hot-corner leakage, or too strong against the pull-down:

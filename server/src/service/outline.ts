@@ -155,6 +155,8 @@ export function netReferenceWords(f: SyntaxFile, subckt: string | null, name: st
       continue;
     }
     if (stack[stack.length - 1] !== subckt || head.startsWith('.')) continue;
+    // a line's nodes are among its plain words: most lines are passed over without reading them as an element
+    if (!s.items.some((x) => x.kind === 'word' && x.text.toLowerCase() === name)) continue;
     const el = interpretElement(s);
     if (el && 'nodes' in el) for (const w of el.nodes) if (w.text.toLowerCase() === name) out.push(w);
   }
