@@ -9,7 +9,7 @@ import { KeyTable, KeyWriter } from '../server/src/analysis/electrical/estimate'
 function write(w: KeyWriter, ints: readonly number[]): KeyWriter {
   w.reset();
   for (const x of ints) w.int(x);
-  return w.done();
+  return w;
 }
 
 describe('structure key table', () => {

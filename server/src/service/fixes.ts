@@ -7,7 +7,7 @@ import type { AnalysisResult } from '../engine';
 import type { Diagnostic } from '../core/diagnostics';
 import type { RuleCode } from '../findings/catalogue';
 import type { Range } from '../core/source';
-import type { SyntaxFile, Statement, WordItem } from '../syntax/tree';
+import type { AssignItem, SyntaxFile, Statement, WordItem } from '../syntax/tree';
 import { interpretElement } from '../circuit/elements';
 import { formatEng } from '../circuit/numbers';
 import type { Circuit } from '../circuit/circuit';
@@ -207,10 +207,9 @@ function resizeKeeperFix(result: AnalysisResult, d: Diagnostic): QuickFix | unde
     const m = c.mosfets[k.devices[0]!]!;
     if (m.m !== 1 || m.nf !== 1) return undefined;
     const file = result.deck.files.find((f) => f.file === m.origin.file);
-    const stmt = file?.statements.find((s) => s.range.start.line === m.origin.range.start.line && s.range.start.character === m.origin.range.start.character);
-    const el = stmt ? interpretElement(stmt) : undefined;
-    if (!file || !el || el.kind !== 'mos') return undefined;
-    const param = (name: string) => el.params.find((p) => p.name.text.toLowerCase() === name);
+    const written = file && writtenMos(file, m);
+    if (!file || !written) return undefined;
+    const param = (name: string) => written.params.find((p) => p.name.text.toLowerCase() === name);
     const w = param('w');
     const l = param('l');
     // a size written as an expression or a parameter stays the designer's
@@ -236,13 +235,13 @@ function resizeKeeperFix(result: AnalysisResult, d: Diagnostic): QuickFix | unde
   return undefined;
 }
 
-/** A transistor's statement as written: its terminal words (d, g, s, b) and model name. */
-function writtenMos(file: SyntaxFile, m: Circuit['mosfets'][number]): { words: WordItem[]; model: string | undefined } | undefined {
+/** A transistor's statement as written: its terminal words (d, g, s, b), model name and parameters. */
+function writtenMos(file: SyntaxFile, m: Circuit['mosfets'][number]): { words: WordItem[]; model: string | undefined; params: AssignItem[] } | undefined {
   if (m.origin.file !== file.file) return undefined;
   const stmt = file.statements.find((s) => s.range.start.line === m.origin.range.start.line && s.range.start.character === m.origin.range.start.character);
   const el = stmt ? interpretElement(stmt) : undefined;
   if (!el || el.kind !== 'mos') return undefined;
-  return { words: el.nodes as WordItem[], model: el.model?.text };
+  return { words: el.nodes as WordItem[], model: el.model?.text, params: el.params };
 }
 
 function netOrigin(result: AnalysisResult, node: string) {

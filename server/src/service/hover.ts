@@ -148,9 +148,14 @@ const SIGNIFICANT = 0.01;
 /** Rows of a device's leakage table. */
 const MAX_LEAK_ROWS = 8;
 
+/** Whether a contribution is at least SIGNIFICANT of its node's leakage. */
+function isSignificant(currentA: number, totalA: number): boolean {
+  return Math.abs(currentA) >= SIGNIFICANT * Math.abs(totalA);
+}
+
 /** The contributors at least SIGNIFICANT of the total (the largest always), in their order. */
 function significant<T extends { currentA: number }>(list: readonly T[], totalA: number): T[] {
-  return list.filter((y, i) => i === 0 || Math.abs(y.currentA) >= SIGNIFICANT * Math.abs(totalA));
+  return list.filter((y, i) => i === 0 || isSignificant(y.currentA, totalA));
 }
 
 export function deviceHover(result: AnalysisResult, file: string, target: Extract<Target, { kind: 'device' }>): string | undefined {
@@ -175,7 +180,7 @@ export function deviceHover(result: AnalysisResult, file: string, target: Extrac
         for (const k of s.corners) {
           for (const x of k.contributors) {
             if (e.devices[x.pos] !== idx) continue;
-            if (Math.abs(x.currentA) < SIGNIFICANT * Math.abs(k.leakageA)) slight++;
+            if (!isSignificant(x.currentA, k.leakageA)) slight++;
             else leaks.push({ currentA: Math.abs(x.currentA), row: `| ${c.nets[node]!.name} | ${s.level} | ${k.tempC} C | ${x.mechanism} | ${formatEng(x.currentA, 'A')} |` });
           }
         }

@@ -734,7 +734,7 @@ class StructureKeys {
         this.code(sw.b);
       }
     }
-    return { key: key.done(), devices };
+    return { key, devices };
   }
 
   /** A MOSFET of the group (`tag` 7) or a gate load (8): its line and sizes, then its four nets. */
@@ -812,10 +812,6 @@ export class KeyWriter {
       v = Math.floor(v / 0x8000);
     }
     this.push(v);
-    return this;
-  }
-  /** The key as written; valid until the next reset. */
-  done(): this {
     return this;
   }
   private push(code: number): void {

@@ -484,7 +484,7 @@ export function leakageAt(ctx: ElectricalContext, ln: LeakageNetwork, v: number,
         for (let t = 0; t < 4; t++) {
           const j = slots[o + t]!;
           // each group once (a device may have two terminals on it)
-          if (j < 1 || j > groups || slots.subarray(o, o + t).includes(j)) continue;
+          if (j < 1 || j > groups || (t > 0 && slots[o] === j) || (t > 1 && slots[o + 1] === j) || (t > 2 && slots[o + 2] === j)) continue;
           const keep = vol[j]!;
           vol[j] = keep + NEWTON_DIFFERENCE_V;
           nudged.fill(0);
