@@ -100,6 +100,9 @@ export function* estimateNodeSteps(ctx: ElectricalContext, how: EstimateHow = {}
   // asked for, which was a look-up per net and phase
   const listed = new Uint8Array(ctx.circuit.nets.length);
   for (const results of new Set(ctx.classification.perPhase)) for (const n of results.keys()) listed[n] = 1;
+  // every listed node asks each phase for its results: read once in order into arrays by node,
+  // as a look-up per node and phase in maps of tens of thousands was a quarter of the pass
+  run.readResultsByNode();
   for (let n = 0; n < listed.length; n++) {
     if (!listed[n]) continue;
     if (due()) yield;
@@ -321,6 +324,8 @@ class EstimateRun {
   private readonly keys: StructureKeys;
   /** The node's results per phase, while it is estimated. */
   private readonly results: Array<NodePhaseResult | undefined> = [];
+  /** For a pass over every node: each phase's results by node (the first of each set of clock values only). */
+  private byNode: Array<Array<NodePhaseResult | undefined> | undefined> | undefined;
   private readonly constantEverywhere: (n: number) => boolean;
   /** Node -> the node whose solve its estimate copies (itself when solved; -1 not estimated). */
   readonly shareOf: Int32Array;
@@ -335,6 +340,18 @@ class EstimateRun {
     this.constantEverywhere = (n: number) => keys.constantEverywhere(n);
   }
 
+  /** Reads every phase's results into arrays by node, for a pass that asks for most nodes. */
+  readResultsByNode(): void {
+    const first = this.keys.firstPhase;
+    const nets = this.ctx.circuit.nets.length;
+    this.byNode = this.ctx.classification.perPhase.map((results, i) => {
+      if (first[i] !== i) return undefined;
+      const list = new Array<NodePhaseResult | undefined>(nets).fill(undefined);
+      for (const [n, s] of results) list[n] = s;
+      return list;
+    });
+  }
+
   /** The node's estimate, or undefined when it never floats (nothing to estimate). */
   estimate(n: number): NodeEstimate | undefined {
     const ctx = this.ctx;
@@ -346,8 +363,9 @@ class EstimateRun {
     // a phase with an earlier one's clock values has its results: asked once
     const first = this.keys.firstPhase;
     const results = this.results;
+    const byNode = this.byNode;
     for (let i = 0; i < cl.perPhase.length; i++) {
-      const s = (results[i] = first[i] === i ? cl.perPhase[i]!.get(n) : results[first[i]!]);
+      const s = (results[i] = first[i] === i ? (byNode ? byNode[i]![n] : cl.perPhase[i]!.get(n)) : results[first[i]!]);
       if (s && (floatsIn(s) || s.state === 'kept')) (floating ??= []).push({ s, i });
     }
     if (!floating) return undefined;
@@ -710,7 +728,13 @@ class StructureKeys {
         const id = inputs[k]!;
         if (this.outsideTurn[id] === turn) needed.push(this.outsideAt[id]! * 2 + inputs[k + 1]!);
       }
-      needed.sort((a, b) => a - b);
+      // a handful at most: sorted in place without a comparator call per pair
+      for (let k = 1; k < needed.length; k++) {
+        const x = needed[k]!;
+        let j = k - 1;
+        for (; j >= 0 && needed[j]! > x; j--) needed[j + 1] = needed[j]!;
+        needed[j + 1] = x;
+      }
       key.tag(10).int(needed.length);
       for (const x of needed) key.int(x);
     }
