@@ -133,6 +133,8 @@ describe('editor features over the real protocol', () => {
     expect(diags.diagnostics.some((x) => x.code === 'floating-node')).toBe(false);
     const hover = (await client.conn.sendRequest('textDocument/hover', { textDocument: { uri }, position: { line: 4, character: 6 } })) as { contents: { value: string } };
     expect(hover.contents.value).toMatch(/clk=1 \| held by its keeper/);
+    // the keeper's strength against the pull-down, never a weak one's ratio rounded to 0.00
+    expect(hover.contents.value).toMatch(/; (0\.\d*[1-9]\d*|[1-9][\d.]*)x the pull-down/);
     fs.writeFileSync(path.join(dir, 'dom-fixed.sp'), edited);
   });
 

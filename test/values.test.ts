@@ -3,7 +3,7 @@
 // ignored), and ngspice itself (WebAssembly build) evaluating the very same netlist.
 
 import { describe, expect, it } from 'vitest';
-import { parseSpiceNumber } from '../server/src/circuit/numbers';
+import { formatRatio, parseSpiceNumber } from '../server/src/circuit/numbers';
 import { analyse } from '../server/src/engine';
 import { memoryHost } from '../server/src/core/host';
 import { runNgspice } from './support/ngspice';
@@ -37,6 +37,16 @@ describe('SPICE numbers (ngspice User Manual, scale factors)', () => {
   }
   it('rejects what is not a number', () => {
     for (const t of ['abc', '', 'u1', '1+2', '--1']) expect(parseSpiceNumber(t)).toBeUndefined();
+  });
+});
+
+describe('strength ratios in messages', () => {
+  it('keeps two decimals, and two significant digits under 0.1 (a long keeper is not 0.00x)', () => {
+    expect(formatRatio(0.48)).toBe('0.48');
+    expect(formatRatio(1.414)).toBe('1.41');
+    expect(formatRatio(0)).toBe('0.00');
+    expect(formatRatio(0.0014)).toBe('0.0014');
+    expect(formatRatio(0.04567)).toBe('0.046');
   });
 });
 

@@ -77,3 +77,11 @@ export function formatEng(value: number, unit = ''): string {
   }
   return `${value.toExponential(2)}${unit}`;
 }
+
+/**
+ * A strength ratio for a message: two decimals, or two significant digits under 0.1, so a long
+ * keeper's 0.0043 does not read as 0.00.
+ */
+export function formatRatio(r: number): string {
+  return r === 0 || !Number.isFinite(r) || Math.abs(r) >= 0.1 ? r.toFixed(2) : String(Number(r.toPrecision(2)));
+}

@@ -2,7 +2,7 @@
 // keeper-weak, keeper-strong. Severity follows the margin. One finding per defining line.
 
 import type { Circuit } from '../circuit/circuit';
-import { formatEng } from '../circuit/numbers';
+import { formatEng, formatRatio } from '../circuit/numbers';
 import { diag, type Diagnostic } from '../core/diagnostics';
 import type { NodeEstimate } from '../analysis/electrical/estimate';
 import type { ElectricalContext } from '../analysis/electrical/context';
@@ -166,7 +166,7 @@ function nodeEmissions(ctx: ElectricalContext, e: NodeEstimate, b: string): Emis
       emit('keeper-weak', 'warning', `${name}: keeper ${kname} ${KEEPER_SHARING_WORDS} with ${e.chargeSharing!.joined.map((j) => c.nets[j]!.name).join(', ')} from drooping it by ${formatEng(share, 'V')} (budget ${b}); precharge the internal node or reorder the stack`, 'sharing');
     }
     if (k.ratio > KEEPER_RATIO_MAX) {
-      emit('keeper-strong', k.ratio > 2 * KEEPER_RATIO_MAX ? 'error' : 'warning', `${name}: keeper ${kname} is ${k.ratio.toFixed(2)}x as strong as ${k.against.map((i) => c.mosfets[i]!.name).join(' + ')} (common practice at most ${KEEPER_RATIO_MAX})`);
+      emit('keeper-strong', k.ratio > 2 * KEEPER_RATIO_MAX ? 'error' : 'warning', `${name}: keeper ${kname} is ${formatRatio(k.ratio)}x as strong as ${k.against.map((i) => c.mosfets[i]!.name).join(' + ')} (common practice at most ${KEEPER_RATIO_MAX})`);
     }
   }
   return out;

@@ -4,7 +4,7 @@
 
 import type { AnalysisResult, CircuitAnalysis } from '../engine';
 import type { Target } from './locate';
-import { formatEng } from '../circuit/numbers';
+import { formatEng, formatRatio } from '../circuit/numbers';
 import { interpretElement } from '../circuit/elements';
 import type { Range } from '../core/source';
 import { overpowersDriver, tooStrong, type HolderSuggestion, type KeeperSuggestion } from '../analysis/electrical/keeper';
@@ -106,7 +106,7 @@ export function netHover(result: AnalysisResult, file: string, target: Extract<T
     if (e.coupling.droopV > 0) droops.push(`coupling ${formatEng(e.coupling.droopV, 'V')} (${e.coupling.aggressors.slice(0, 3).map((x) => x.net).join(', ')})`);
     lines.push(`**Droop against the ${budget} budget**: ${droops.join('; ') || 'none'}`);
     lines.push(`**Critical charge** ${formatEng(e.qcritC, 'C')}${e.minClockHz ? ` · minimum clock ${formatEng(e.minClockHz, 'Hz')}` : ''}`);
-    if (e.keeper) lines.push(`**Keeper** ${e.keeper.devices.map((i) => c.mosfets[i]!.name).join(', ')}: supplies ${formatEng(e.keeper.holdCurrentA, 'A')} at the budget droop against ${formatEng(e.keeper.hotLeakageA, 'A')} hot leakage; ${e.keeper.ratio.toFixed(2)}x the pull-down`);
+    if (e.keeper) lines.push(`**Keeper** ${e.keeper.devices.map((i) => c.mosfets[i]!.name).join(', ')}: supplies ${formatEng(e.keeper.holdCurrentA, 'A')} at the budget droop against ${formatEng(e.keeper.hotLeakageA, 'A')} hot leakage; ${formatRatio(e.keeper.ratio)}x the pull-down`);
     if (e.suggestedKeeper) {
       const s = e.suggestedKeeper;
       lines.push(`**Remedy**: a ${s.polarity === 'p' ? 'p' : 'n'}-channel keeper W=${formatEng(s.wM, 'm')} L=${formatEng(s.lM, 'm')} (${s.model})${s.inverter.existingOutput ? `, gate on ${s.inverter.existingOutput}` : ', with a new inverter'} — ${s.reasoning.join('; ')}.${remedyEnd(s, 'evaluation')}`);
@@ -123,7 +123,7 @@ export function netHover(result: AnalysisResult, file: string, target: Extract<T
     if (e.suggestedHolder) {
       const h = e.suggestedHolder;
       const what = h.kind === 'feedback' ? `a weak feedback inverter from ${h.forward.existingOutput}` : 'a bus holder (a new inverter and a weak one back)';
-      lines.push(`**Remedy**: the node holds data, so it needs both levels held: ${what}, P W=${formatEng(h.pullUp.wM, 'm')} L=${formatEng(h.pullUp.lM, 'm')} (${formatEng(h.pullUp.holdCurrentA, 'A')} at the budget droop), N W=${formatEng(h.pullDown.wM, 'm')} L=${formatEng(h.pullDown.lM, 'm')} (${formatEng(h.pullDown.holdCurrentA, 'A')}); ${h.pullUp.strengthRatio.toFixed(2)}/${h.pullDown.strengthRatio.toFixed(2)}x the drivers they fight.${remedyEnd(h, 'a write')}`);
+      lines.push(`**Remedy**: the node holds data, so it needs both levels held: ${what}, P W=${formatEng(h.pullUp.wM, 'm')} L=${formatEng(h.pullUp.lM, 'm')} (${formatEng(h.pullUp.holdCurrentA, 'A')} at the budget droop), N W=${formatEng(h.pullDown.wM, 'm')} L=${formatEng(h.pullDown.lM, 'm')} (${formatEng(h.pullDown.holdCurrentA, 'A')}); ${formatRatio(h.pullUp.strengthRatio)}/${formatRatio(h.pullDown.strengthRatio)}x the drivers they fight.${remedyEnd(h, 'a write')}`);
     }
     if (e.notes.length) lines.push(`_${e.notes.join('; ')}_`);
   }

@@ -9,7 +9,7 @@ import type { Circuit, Mosfet, Polarity } from '../../circuit/circuit';
 import { NetRole } from '../switchNetwork';
 import { channelCurrent } from './leakage';
 import type { ElectricalContext } from './context';
-import { formatEng } from '../../circuit/numbers';
+import { formatEng, formatRatio } from '../../circuit/numbers';
 
 /** Common-practice bounds (no source): keeper/pull-down ratio, and the hold margin over leakage. */
 export const KEEPER_RATIO_MIN = 0.1;
@@ -215,7 +215,7 @@ export function sizeKeeper(ctx: ElectricalContext, node: number, storedLevel: 0 
   }
   const f = (x: number) => `${(x * 1e6).toPrecision(3)}u`;
   reasoning.push(`hot-corner leakage ${formatEng(hotLeakageA, 'A')}; the keeper supplies ${formatEng(picked.hold, 'A')} with the node ${formatEng(ctx.budgetV, 'V')} from its level (need ${HOLD_MARGIN}x, common practice)`);
-  if (pull.currentA > 0) reasoning.push(`keeper/pull-down ratio ${picked.ratio.toFixed(2)} against ${pull.devices.map((i) => c.mosfets[i]!.name).join(' + ')} (common practice ${KEEPER_RATIO_MIN}-${KEEPER_RATIO_MAX})`);
+  if (pull.currentA > 0) reasoning.push(`keeper/pull-down ratio ${formatRatio(picked.ratio)} against ${pull.devices.map((i) => c.mosfets[i]!.name).join(' + ')} (common practice ${KEEPER_RATIO_MIN}-${KEEPER_RATIO_MAX})`);
   reasoning.push(`W = ${f(picked.w)} (minimum ${f(wMin)}), L = ${f(picked.l)} (${(picked.l / lMin).toFixed(1)}x minimum) to stay weak`);
   const inv = existingInverter(ctx, node);
   const nBasis = basis.n;
@@ -242,7 +242,7 @@ export function sizeKeeper(ctx: ElectricalContext, node: number, storedLevel: 0 
  * the driver it fights'); undefined when every part meets the range.
  */
 export function tooStrong(s: KeeperSuggestion | HolderSuggestion): string | undefined {
-  const over = suggestionParts(s).filter(([, k]) => !k.meetsRatio).map(([what, k]) => `${what} ${k.strengthRatio.toFixed(2)}x the driver it fights`);
+  const over = suggestionParts(s).filter(([, k]) => !k.meetsRatio).map(([what, k]) => `${what} ${formatRatio(k.strengthRatio)}x the driver it fights`);
   return over.length ? over.join(', ') : undefined;
 }
 
