@@ -15,6 +15,12 @@ import { formatEng, formatRatio } from '../../circuit/numbers';
 export const KEEPER_RATIO_MIN = 0.1;
 export const KEEPER_RATIO_MAX = 0.3;
 export const HOLD_MARGIN = 10;
+/**
+ * Channel lengths (x the minimum) tried at the minimum width when no size of the grid is weak
+ * enough against the driver it fights: common practice for weak keepers and bus holders (no
+ * source), up to about a micrometre in a 45 nm process.
+ */
+const LONG_KEEPER_L_FACTORS = [12, 16, 24];
 
 export interface KeeperSuggestion {
   polarity: Polarity;
@@ -177,8 +183,10 @@ export function sameSizingBasis(a: Circuit, b: Circuit, changed?: readonly numbe
 /**
  * A keeper for `node` holding `storedLevel`: the sizes on a grid from the minimum (W 1-4x, L 8x
  * down to 1x) that supply HOLD_MARGIN x the hot-corner leakage at the budget droop, nearest
- * KEEPER_RATIO_MIN of the pull-down without passing KEEPER_RATIO_MAX. `template`: the device
- * whose card it takes (an existing keeper being resized); else a device of the node's polarity.
+ * KEEPER_RATIO_MIN of the pull-down without passing KEEPER_RATIO_MAX; when none is that weak,
+ * the shortest of LONG_KEEPER_L_FACTORS at the minimum width that is and still holds.
+ * `template`: the device whose card it takes (an existing keeper being resized); else a device
+ * of the node's polarity.
  */
 export function sizeKeeper(ctx: ElectricalContext, node: number, storedLevel: 0 | 1, hotLeakageA: number, hotTempK: number, template?: Mosfet): KeeperSuggestion | undefined {
   const c = ctx.circuit;
@@ -207,6 +215,21 @@ export function sizeKeeper(ctx: ElectricalContext, node: number, storedLevel: 0 
       if (!fallbackChoice || ratio < fallbackChoice.ratio) fallbackChoice = { w, l, hold, ratio };
     }
     if (choice && choice.ratio >= KEEPER_RATIO_MIN) break;
+  }
+  // every size on the grid fights too hard (a weak driver, as a tri-state bus's or a latch's
+  // pass gate): longer channels at the minimum width, the shortest that stays weak enough, as
+  // long as it still holds the node (a long keeper is common practice; so is a stack of shorter ones)
+  for (const lf of choice ? [] : LONG_KEEPER_L_FACTORS) {
+    const w = wMin;
+    const l = lMin * lf;
+    const hold = keeperHoldCurrent(ctx, { ...base, wM: w, lM: l }, storedLevel, ctx.budgetV, hotTempK);
+    if (hold < need) break;
+    const ratio = pull.currentA > 0 ? fightCurrent(ctx, { ...base, wM: w, lM: l }, hotTempK) / pull.currentA : 0;
+    if (!fallbackChoice || ratio < fallbackChoice.ratio) fallbackChoice = { w, l, hold, ratio };
+    if (ratio <= KEEPER_RATIO_MAX) {
+      choice = { w, l, hold, ratio };
+      break;
+    }
   }
   const picked = choice ?? fallbackChoice;
   if (!picked) {
