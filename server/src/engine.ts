@@ -19,6 +19,7 @@ import { estimateNodeSteps, nodesAround, nodesReading, reestimate, renameEstimat
 import { patchSizes, type SizePatch } from './circuit/patch';
 import { reelaborateValues } from './circuit/valueEdit';
 import { acceptEdit, layoutEdit } from './circuit/acceptEdit';
+import { inertEdit } from './circuit/inertEdit';
 import { electricalDirectiveLines, electricalEdit } from './circuit/electricalEdit';
 import { renameNets, type NetRename } from './circuit/rename';
 import { rewireNets, type Rewiring } from './circuit/rewire';
@@ -177,11 +178,12 @@ export function reelaborate(previous: AnalysisResult, deck: Deck, options: Engin
  * findings stood on a deleted line. Findings that count devices, quote line numbers or stand on
  * a deleted line are not moved (undefined), nor are the parse's when they differ from the moved ones.
  */
-function splicedFrontEnd(previous: AnalysisResult, deck: Deck, sp: DeviceSplice): { onRemoved(d: Diagnostic): boolean } | undefined {
+function splicedFrontEnd(previous: AnalysisResult, deck: Deck, sp: DeviceSplice, parseChecked = false): { onRemoved(d: Diagnostic): boolean } | undefined {
   const gone = sp.removedLines;
   const onRemoved = (d: Diagnostic) => gone !== undefined && d.file === gone.file && d.range.start.line >= gone.from && d.range.start.line <= gone.to;
   if (previous.frontEnd.some((d) => onRemoved(d) || d.rule === 'duplicate-definition' || d.rule === 'geometry-scale')) return undefined;
-  if (JSON.stringify(shiftDiagnostics(previous.deck.diagnostics, sp.shift)) !== JSON.stringify(deck.diagnostics)) return undefined;
+  // (a caller that worked out the new parse's findings itself has compared the rest)
+  if (!parseChecked && JSON.stringify(shiftDiagnostics(previous.deck.diagnostics, sp.shift)) !== JSON.stringify(deck.diagnostics)) return undefined;
   return { onRemoved };
 }
 
@@ -201,6 +203,9 @@ export function reanalyse(previous: AnalysisResult, deck: Deck, options: EngineO
   // accept directives alone: the same results, marked again
   const accepted = acceptEdit(previous.deck, previous.design, deck, previous.frontEnd);
   if (accepted) return afterSplice(previous, deck, { design: accepted.design, renumbering: previous.circuits.map(() => undefined), shift: accepted.shift, removedLines: undefined, widened: [] }, options, accepted.frontEnd);
+  // a line being typed that adds nothing yet (too few nodes, no model, unreadable): its findings alone
+  const typing = inertEdit(previous.deck, previous.design, deck, previous.frontEnd, options);
+  if (typing) return afterSplice(previous, deck, { design: shiftedDesign(previous.design, typing.shift), renumbering: previous.circuits.map(() => undefined), shift: typing.shift, removedLines: undefined, widened: [] }, options, typing.frontEnd, true);
   // a budget, corners, clock or standby line put in or taken out
   const lines = electricalDirectiveLines(previous.deck, previous.design, deck, previous.frontEnd);
   if (lines) return afterElectrical(previous, deck, lines.design, options, lines.shift, lines.frontEnd);
@@ -278,7 +283,8 @@ function afterSizes(previous: AnalysisResult, deck: Deck, patch: SizePatch, fron
       },
     };
   });
-  return finish(deck, patch.design, circuits, frontEnd, options);
+  // (the value path's front end is worked out again, on the edited lines' old extent)
+  return finish(deck, patch.design, circuits, move(frontEnd), options);
 }
 
 /**
@@ -434,8 +440,8 @@ function widenAnalysis(a: CircuitAnalysis, circuit: Circuit, ins: NetRenumbering
  * accept directives alone (circuit/acceptEdit.ts): no device comes or goes, and `frontEnd` is
  * the new text's front-end findings.
  */
-function afterSplice(previous: AnalysisResult, deck: Deck, sp: DeviceSplice, options: EngineOptions, frontEnd?: Diagnostic[]): AnalysisResult | undefined {
-  const carried = splicedFrontEnd(previous, deck, sp);
+function afterSplice(previous: AnalysisResult, deck: Deck, sp: DeviceSplice, options: EngineOptions, frontEnd?: Diagnostic[], parseChecked = false): AnalysisResult | undefined {
+  const carried = splicedFrontEnd(previous, deck, sp, parseChecked);
   if (!carried) return undefined;
   const { onRemoved } = carried;
   const move = (list: Diagnostic[]) => shiftDiagnostics(list, sp.shift);

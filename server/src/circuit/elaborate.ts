@@ -60,6 +60,39 @@ export function elementNodeWords(item: Statement): { skipped?: undefined; syntax
 }
 
 /**
+ * What the elaborator says of an element line it leaves out (`elementNodeWords` skipped it: no
+ * element, no net name), in the order it says it; a line that is not left out says nothing here.
+ * The quick answer to a half-typed line (inertEdit.ts) says the same through this.
+ */
+export function skippedLineFindings(file: string, item: Statement, read = elementNodeWords(item)): Diagnostic[] {
+  if (read.skipped === undefined || read.skipped === 'unreadable') return [];
+  if (read.skipped === 'name') return [diag('syntax', file, item.head.range, `'${item.head.text}' is not an element name: elements start with a letter`)];
+  const out: Diagnostic[] = [];
+  if (!MODELLED_LETTERS.has(item.head.text[0]!.toLowerCase())) out.push(unmodelledFinding(file, item));
+  if (read.skipped === 'nodes') out.push(diag('syntax', file, item.range, `${item.head.text} needs ${read.need} nodes${read.syntax?.kind === 'mos' ? ' (drain gate source bulk) and a model' : ''}`));
+  else out.push(diag('syntax', file, item.range, `${item.head.text} needs nodes and a subcircuit name`));
+  return out;
+}
+
+function unmodelledFinding(file: string, item: Statement): Diagnostic {
+  const letter = item.head.text[0]!.toLowerCase();
+  return diag('unknown-element', file, item.head.range, `${item.head.text}: '${letter.toUpperCase()}' elements are not modelled; kept as connectivity only`);
+}
+
+/**
+ * Whether the top level is elaborated (a circuit of its own, its element lines read): it has an
+ * element line other than a source, or there is no definition; never under a chosen top cell.
+ */
+export function topIsElaborated(deck: Deck, options: EngineOptions): boolean {
+  if (options.top) return false;
+  const topHasDevices = deck.top.some((s) => {
+    const c = s.item.head.text[0]!.toLowerCase();
+    return c !== '.' && c !== 'v' && c !== 'i';
+  });
+  return topHasDevices || deck.subckts.size === 0;
+}
+
+/**
  * The flat nets renumbered in runs by the definition whose body names them, the circuit's own
  * scope (`own`: null for the top level) last, after the definitions from the most copied to the
  * least (ties in the order first built); before them all the `pinned` nets, those every part of
@@ -451,10 +484,6 @@ class Elaborator {
   /** The circuits to elaborate: the top level (undefined) or standalone cells. */
   private circuitPlan(): Array<SubcktDefinition | undefined> {
     const deck = this.deck;
-    const topHasDevices = deck.top.some((s) => {
-      const c = s.item.head.text[0]!.toLowerCase();
-      return c !== '.' && c !== 'v' && c !== 'i';
-    });
     if (this.options.top) {
       const def = deck.subckts.get(this.options.top.toLowerCase());
       if (def) return [def];
@@ -462,7 +491,7 @@ class Elaborator {
       this.report(diag('unknown-subckt', f?.file ?? '', { start: { line: 0, character: 0 }, end: { line: 0, character: 0 } }, `--top names '${this.options.top}', which the netlist does not define`));
       return [];
     }
-    if (topHasDevices || deck.subckts.size === 0) return [undefined];
+    if (topIsElaborated(deck, this.options)) return [undefined];
     return [...deck.subckts.values()];
   }
 
@@ -636,25 +665,13 @@ class Elaborator {
         }
         continue;
       }
-      const letter = head[0]!;
       const read = elementNodeWords(item);
-      if (read.skipped === 'name') {
-        this.report(diag('syntax', file, item.head.range, `'${item.head.text}' is not an element name: elements start with a letter`));
-        continue;
-      }
-      if (read.skipped === 'unreadable') continue;
-      const syntax = read.syntax!;
-      if (!MODELLED_LETTERS.has(letter)) {
-        this.report(diag('unknown-element', file, item.head.range, `${item.head.text}: '${letter.toUpperCase()}' elements are not modelled; kept as connectivity only`));
-      }
-      if (read.skipped === 'nodes') {
-        this.report(diag('syntax', file, item.range, `${item.head.text} needs ${read.need} nodes${syntax.kind === 'mos' ? ' (drain gate source bulk) and a model' : ''}`));
-        continue;
-      }
       if (read.skipped !== undefined) {
-        this.report(diag('syntax', file, item.range, `${item.head.text} needs nodes and a subcircuit name`));
+        for (const d of skippedLineFindings(file, item, read)) this.report(d);
         continue;
       }
+      const syntax = read.syntax;
+      if (!MODELLED_LETTERS.has(head[0]!)) this.report(unmodelledFinding(file, item));
       const nodes = read.nodes.map((w) => netRef(w, file));
       elements.push({ syntax, nodes, origin: { file, range: item.range, subckt, local: item.head.text.toLowerCase() }, file });
     }
