@@ -1,6 +1,7 @@
 // The elaboration stage's answer to a line being typed: an element line the elaborator leaves
-// out (too few nodes, no model yet, not an element name) or a line the parser cannot read yet,
-// put in, changed or taken out at one place. Such a line adds no element and no net name, so
+// out (too few nodes, no model yet, not an element name), a directive that reads to nothing yet
+// (an unknown verb, a clock with no period) or a line the parser cannot read yet, put in,
+// changed or taken out at one place. Such a line adds no element and no net name, so
 // the design stands (moved by the edit's line count after it); only the front end's findings on
 // the edited lines change: the parser's, and the elaborator's for the lines it leaves out, said
 // as the elaborator says them (`skippedLineFindings`) where it reads the line at all. Anything
@@ -9,12 +10,13 @@
 import type { Diagnostic } from '../core/diagnostics';
 import type { EngineOptions } from '../core/options';
 import { startLineOf } from '../core/source';
-import type { Statement, SyntaxFile } from '../syntax/tree';
-import { sameRange, sameStatement } from '../syntax/compare';
+import type { DirectiveLine, Statement, SyntaxFile } from '../syntax/tree';
+import { sameRange } from '../syntax/compare';
 import type { Design } from './circuit';
-import type { Deck } from './deck';
+import type { Deck, SubcktDefinition } from './deck';
+import { emptyDirectives, readDirectives } from './directives';
 import { elementNodeWords, skippedLineFindings, topIsElaborated } from './elaborate';
-import { oneChangedFile, shiftDiagnostics, type LineShift } from './splice';
+import { oneChangedFile, sharedEnds, shiftDiagnostics, type LineShift } from './splice';
 
 export interface InertEdit {
   shift: LineShift;
@@ -39,10 +41,16 @@ export function inertEdit(previousDeck: Deck, previous: Design, deck: Deck, prev
   const xs = x.statements;
   const ys = y.statements;
   const d = y.lineCount - x.lineCount;
-  let p = 0;
-  while (p < xs.length && p < ys.length && (xs[p] === ys[p] || sameStatement(xs[p]!, ys[p]!, 0))) p++;
-  let s = 0;
-  while (s < xs.length - p && s < ys.length - p && sameStatement(xs[xs.length - 1 - s]!, ys[ys.length - 1 - s]!, d)) s++;
+  let { p, s } = sharedEnds(x, y);
+  if (p === xs.length && p === ys.length && d === 0) {
+    // every statement in place: the edit is where a directive or a parser finding differs (a
+    // directive or an unreadable line typed in place); the statements after it are the suffix
+    const lines = differingLines(x, y);
+    if (lines === undefined) return undefined;
+    p = statementsBefore(xs, lines.first);
+    if (p < xs.length && startLineOf(xs[p]!.range) <= lines.last) return undefined;
+    s = xs.length - p;
+  }
   const removed = xs.slice(p, xs.length - s);
   const added = ys.slice(p, ys.length - s);
   if (!removed.every(leftOut) || !added.every(leftOut)) return undefined;
@@ -55,8 +63,16 @@ export function inertEdit(previousDeck: Deck, previous: Design, deck: Deck, prev
   if (newEnd - oldEnd !== d || oldEnd < from) return undefined;
   const inOld = (f: string, line: number) => f === x.file && line >= from && line < oldEnd;
   const inNew = (f: string, line: number) => f === x.file && line >= from && line < newEnd;
-  // directives and pin lines: none among the edited lines, each the same and moved like its side
-  if (!sameSpecialLines(x, y, from, oldEnd, d, p, s)) return undefined;
+  // directives being typed (an unknown verb, a clock with no period yet) say only their
+  // findings; every other directive and pin line the same, none among the edited lines
+  const typedDirectives = new Map<DirectiveLine, Diagnostic[]>();
+  const typed = (file: SyntaxFile, end: number) => (l: DirectiveLine) => {
+    if (l.range.start.line < from || l.range.start.line >= end) return false;
+    const said = readsToNothing(file.file, l);
+    if (said && file === y) typedDirectives.set(l, said);
+    return said !== undefined;
+  };
+  if (!sameSpecialLines(x, y, from, oldEnd, d, p, s, typed(x, oldEnd), typed(y, newEnd))) return undefined;
   const shift: LineShift = { file: x.file, fromLine: oldEnd, lines: d };
   // every other parser and include finding the same, moved with its line
   const keptParse = previousDeck.diagnostics.filter((f) => !inOld(f.file, f.range.start.line));
@@ -75,21 +91,82 @@ export function inertEdit(previousDeck: Deck, previous: Design, deck: Deck, prev
     const read = scope === null ? topIsElaborated(deck, options) : built.has(scope);
     if (read) said.push(...skippedLineFindings(x.file, st));
   }
+  // the elaborator reads the directives of the top level and of every definition it keeps
+  const reachable = new Set<DirectiveLine>(deck.directives.map((l) => l.item));
+  const addDefinitions = (defs: Map<string, SubcktDefinition>) => {
+    for (const def of defs.values()) {
+      for (const l of def.directives) reachable.add(l.item);
+      addDefinitions(def.local);
+    }
+  };
+  if (typedDirectives.size) addDefinitions(deck.subckts);
+  for (const [l, findings] of typedDirectives) {
+    if (!reachable.has(l)) return undefined;
+    said.push(...findings);
+  }
   const kept = previousFrontEnd.filter((f) => !inOld(f.file, f.range.start.line));
   return { shift, frontEnd: [...shiftDiagnostics(kept, shift), ...newParse, ...said] };
 }
 
 /**
- * Directives and pin lines the same in both parses, none on the edited lines [from, oldEnd),
- * each before them in place and each after them moved by `d`.
+ * The first and last line where two parses of the same line count differ in a directive or a
+ * parser finding; undefined when they do not.
  */
-function sameSpecialLines(x: SyntaxFile, y: SyntaxFile, from: number, oldEnd: number, d: number, p: number, s: number): boolean {
-  if (x.directives.length !== y.directives.length || x.pinInfos.length !== y.pinInfos.length) return false;
+function differingLines(x: SyntaxFile, y: SyntaxFile): { first: number; last: number } | undefined {
+  const keys = (f: SyntaxFile) => [
+    ...f.directives.map((l) => [l.range.start.line, JSON.stringify([l.verb, l.range, l.statementIndex, l.args])] as const),
+    ...f.diagnostics.map((g) => [g.range.start.line, JSON.stringify(g)] as const),
+  ];
+  const a = keys(x);
+  const b = keys(y);
+  const inA = new Set(a.map(([, k]) => k));
+  const inB = new Set(b.map(([, k]) => k));
+  let first = Infinity;
+  let last = -1;
+  for (const [line] of [...a.filter(([, k]) => !inB.has(k)), ...b.filter(([, k]) => !inA.has(k))]) {
+    first = Math.min(first, line);
+    last = Math.max(last, line);
+  }
+  return last < 0 ? undefined : { first, last };
+}
+
+/** How many statements start before `line` (they come in line order). */
+function statementsBefore(list: readonly Statement[], line: number): number {
+  let lo = 0;
+  let hi = list.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1;
+    if (startLineOf(list[mid]!.range) < line) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo;
+}
+
+/**
+ * A directive line that adds nothing to the directives (an unknown verb, a malformed one): what
+ * reading it says, as the elaborator reads it (each line on its own); undefined for one that adds.
+ */
+function readsToNothing(file: string, line: DirectiveLine): Diagnostic[] | undefined {
+  const into = emptyDirectives();
+  const said: Diagnostic[] = [];
+  readDirectives([{ file, item: line }], into, said);
+  return JSON.stringify(into) === JSON.stringify(emptyDirectives()) ? said : undefined;
+}
+
+/**
+ * Directives and pin lines the same in both parses apart from the edited lines' directives that
+ * `typedX`, `typedY` take (those that read to nothing), none other on the edited lines
+ * [from, oldEnd), each before them in place and each after them moved by `d`.
+ */
+function sameSpecialLines(x: SyntaxFile, y: SyntaxFile, from: number, oldEnd: number, d: number, p: number, s: number, typedX: (l: DirectiveLine) => boolean, typedY: (l: DirectiveLine) => boolean): boolean {
+  const xd = x.directives.filter((l) => !typedX(l));
+  const yd = y.directives.filter((l) => !typedY(l));
+  if (xd.length !== yd.length || x.pinInfos.length !== y.pinInfos.length) return false;
   const placed = (si: number, sj: number) => (si <= p && sj === si) || (si >= x.statements.length - s && sj === si + y.statements.length - x.statements.length);
   const by = (line: number) => (line < from ? 0 : line >= oldEnd ? d : undefined);
-  for (let i = 0; i < x.directives.length; i++) {
-    const u = x.directives[i]!;
-    const v = y.directives[i]!;
+  for (let i = 0; i < xd.length; i++) {
+    const u = xd[i]!;
+    const v = yd[i]!;
     const k = by(u.range.start.line);
     if (k === undefined || u.verb !== v.verb || u.args.length !== v.args.length || !placed(u.statementIndex, v.statementIndex) || !sameRange(u.range, v.range, k)) return false;
     for (let j = 0; j < u.args.length; j++) if (u.args[j]!.text !== v.args[j]!.text || !sameRange(u.args[j]!.range, v.args[j]!.range, k)) return false;

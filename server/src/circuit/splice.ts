@@ -275,6 +275,21 @@ function shiftedRange(r: Range, lines: number): Range {
 }
 
 /**
+ * How many statements two parses of a file share at the start (`p`, in place) and after that
+ * at the end (`s`, moved by the change in line count): the statements between are the edit's.
+ */
+export function sharedEnds(x: SyntaxFile, y: SyntaxFile): { p: number; s: number } {
+  const xs = x.statements;
+  const ys = y.statements;
+  const d = y.lineCount - x.lineCount;
+  let p = 0;
+  while (p < xs.length && p < ys.length && (xs[p] === ys[p] || sameStatement(xs[p]!, ys[p]!, 0))) p++;
+  let s = 0;
+  while (s < xs.length - p && s < ys.length - p && sameStatement(xs[xs.length - 1 - s]!, ys[ys.length - 1 - s]!, d)) s++;
+  return { p, s };
+}
+
+/**
  * The one file that differs, its removed or added statements (never both), and the line shift
  * after them; every directive, pin line and parser finding must be the same, in place before
  * the edit or moved with the lines after it.
@@ -286,10 +301,7 @@ function diffFiles(a: readonly SyntaxFile[], b: readonly SyntaxFile[]): { file: 
   const xs = x.statements;
   const ys = y.statements;
   const d = y.lineCount - x.lineCount;
-  let p = 0;
-  while (p < xs.length && p < ys.length && (xs[p] === ys[p] || sameStatement(xs[p]!, ys[p]!, 0))) p++;
-  let s = 0;
-  while (s < xs.length - p && s < ys.length - p && sameStatement(xs[xs.length - 1 - s]!, ys[ys.length - 1 - s]!, d)) s++;
+  const { p, s } = sharedEnds(x, y);
   const removed = xs.slice(p, xs.length - s);
   const added = ys.slice(p, ys.length - s);
   if ((removed.length === 0) === (added.length === 0)) return undefined;
