@@ -112,6 +112,13 @@ describe('a line being typed is answered from the previous analysis and equals a
     expect(quick(library, put(library, '.ends\n', 'Mz a')).fast).toBeUndefined();
     // a line that is not an element name, elements short of nodes, an instance with no subcircuit
     for (const line of ['1abc', 'C1', 'R2 a', 'X2']) expect(quick(top, put(top, 'X1 p q used\n', line)).fast).toBeDefined();
+    // a length on a line left out counts in the guess of the geometry scale: left to a fresh
+    // analysis, which here guesses microns from it and scales every device
+    const metres = 'metres\n.model bn nmos level=1\nM1 d g 0 0 bn w=0.2u l=0.1u\nv1 d 0 1\nvg g 0 1\n.end\n';
+    const guessing = quick(metres, put(metres, 'M1 d g 0 0 bn w=0.2u l=0.1u\n', 'Mx d l=5'));
+    expect(guessing.fast).toBeUndefined();
+    expect(guessing.fresh.design.geometryScale.from).toBe('assumed');
+    expect(quick(metres, put(metres, 'M1 d g 0 0 bn w=0.2u l=0.1u\n', 'Mx d')).fast).toBeDefined();
     // an element of a letter with no node count of its own names its nets at once: not this path
     expect(quick(top, put(top, 'X1 p q used\n', 'B1 a')).fast).toBeUndefined();
   });

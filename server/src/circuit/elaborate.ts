@@ -262,21 +262,31 @@ export function guessMicronScale(deck: Deck): { median: number; first: { file: s
 }
 
 /** `guessMicronScale` in slices (a flat netlist has a line per device). */
+/**
+ * The lengths a line gives the guess of the geometry scale: every `l=` written as a plain number
+ * on a MOSFET or instance line, read or not as an element (a line left out counts too).
+ */
+export function scaleGuessLengths(stmt: Statement): Array<{ value: number; range: Range }> {
+  const c = stmt.head.text[0]!.toLowerCase();
+  if (c !== 'm' && c !== 'x') return [];
+  const out: Array<{ value: number; range: Range }> = [];
+  for (const it of stmt.items) {
+    if (it.kind === 'assign' && it.name.text.toLowerCase() === 'l' && it.value?.kind === 'word') {
+      const v = parseSpiceNumber(it.value.text);
+      if (v !== undefined) out.push({ value: v, range: it.range });
+    }
+  }
+  return out;
+}
+
 function* guessMicronScaleSteps(deck: Deck): Steps<{ median: number; first: { file: string; range: Range } } | undefined> {
   const lengths: number[] = [];
   let first: { file: string; range: Range } | undefined;
   const due = stepDue();
   const scan = (file: string, stmt: Statement) => {
-    const c = stmt.head.text[0]!.toLowerCase();
-    if (c !== 'm' && c !== 'x') return;
-    for (const it of stmt.items) {
-      if (it.kind === 'assign' && it.name.text.toLowerCase() === 'l' && it.value?.kind === 'word') {
-        const v = parseSpiceNumber(it.value.text);
-        if (v !== undefined) {
-          lengths.push(v);
-          if (v > 1e-3 && !first) first = { file, range: it.range };
-        }
-      }
+    for (const { value: v, range } of scaleGuessLengths(stmt)) {
+      lengths.push(v);
+      if (v > 1e-3 && !first) first = { file, range };
     }
   };
   const bodies: Array<Located<Statement>[]> = [deck.top];

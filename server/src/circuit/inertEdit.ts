@@ -15,7 +15,7 @@ import { sameRange } from '../syntax/compare';
 import type { Design } from './circuit';
 import type { Deck, SubcktDefinition } from './deck';
 import { emptyDirectives, readDirectives } from './directives';
-import { elementNodeWords, skippedLineFindings, topIsElaborated } from './elaborate';
+import { elementNodeWords, scaleGuessLengths, skippedLineFindings, topIsElaborated } from './elaborate';
 import { oneChangedFile, sharedEnds, shiftDiagnostics, type LineShift } from './splice';
 
 export interface InertEdit {
@@ -54,6 +54,9 @@ export function inertEdit(previousDeck: Deck, previous: Design, deck: Deck, prev
   const removed = xs.slice(p, xs.length - s);
   const added = ys.slice(p, ys.length - s);
   if (!removed.every(leftOut) || !added.every(leftOut)) return undefined;
+  // a length on a line left out still counts in the guess of the geometry scale
+  const guessed = previous.geometryScale.from === 'assumed' || previous.geometryScale.from === 'default';
+  if (guessed && [...removed, ...added].some((st) => scaleGuessLengths(st).length > 0)) return undefined;
   // the edited lines: between the statements kept before and after (line 0, which holds the
   // title and file-wide notes, never among them)
   const from = p > 0 ? xs[p - 1]!.range.end.line + 1 : x.title !== undefined ? 1 : 0;
