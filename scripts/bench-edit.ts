@@ -43,6 +43,7 @@ async function main(): Promise<void> {
     // previous analysis with the line's own finding, even in the cell with 4,200 copies
     ['a transistor line half typed in the domino cell (too few nodes yet; 4,200 copies)', (l) => l.startsWith('Mkp dyn out'), (l) => `${l}\nMx dyn clk`, 'the half-typed line taken out'],
     ['a transistor line half typed at the top level (too few nodes yet)', (l) => l.startsWith('Xb7 '), (l) => `${l}\nMx y7 clk`],
+    ['a block instance half typed at the top level (its cell name not complete yet)', (l) => l.startsWith('Xb7 '), (l) => `${l}\nXnew a7 a8 a9 a10 clk clkb y7 vdd 0 b_bl`],
     // a reviewed finding: an accept directive put in (the quick fix), every later line moved
     ['an accept directive put in (a finding marked reviewed)', (l) => l.startsWith('Xb7 '), (l) => `* tidemark: accept y7 floating-node reason="reviewed"\n${l}`, 'the accept directive taken out'],
     // values on cards: a model card put in place of the old one, a .param by elaborating afresh;

@@ -1,7 +1,7 @@
 // The typing path (circuit/inertEdit.ts, engine `reanalyse`): while a line is typed, the states
 // it passes through that add nothing yet (a MOSFET with too few nodes or no model, an instance
-// with no subcircuit, a value still missing, a directive with an unknown verb or without its
-// values) are answered from the previous analysis, with the
+// with no subcircuit or one whose cell name is half typed, a value still missing, a directive
+// with an unknown verb or without its values) are answered from the previous analysis, with the
 // findings on the edited line said again; each answer must equal a fresh analysis of the same
 // text. Lines typed character by character, and taken out again, in every sample, every
 // electrical fixture and a generated datapath, at the top level and in a cell's body.
@@ -119,6 +119,17 @@ describe('a line being typed is answered from the previous analysis and equals a
     expect(guessing.fast).toBeUndefined();
     expect(guessing.fresh.design.geometryScale.from).toBe('assumed');
     expect(quick(metres, put(metres, 'M1 d g 0 0 bn w=0.2u l=0.1u\n', 'Mx d')).fast).toBeDefined();
+    // an instance while its cell's name is typed: answered on nets the top level already used
+    // (or globals); a new net name, a name a device rule maps, or a cell that exists are not
+    const typingCell = quick(top, put(top, 'v1 p 0 1\n', 'X2 p q 0 use'));
+    expect(typingCell.fast).toBeDefined();
+    expect(typingCell.fresh.diagnostics.some((d) => d.rule === 'unknown-subckt' && d.message.startsWith("subcircuit 'use'"))).toBe(true);
+    expect(quick(top, put(top, 'v1 p 0 1\n', 'X2 p fresh_net use')).fast).toBeUndefined();
+    // above the line that first uses p and q: it would become their first use
+    expect(quick(top, top.replace('X1 p q used\n', 'X0 p q us\nX1 p q used\n')).fast).toBeUndefined();
+    const ruled = top.replace('.end\n', '* tidemark: device nch* nmos\n.end\n');
+    expect(quick(ruled, put(ruled, 'v1 p 0 1\n', 'X3 p q p q nch')).fast).toBeUndefined();
+    expect(quick(top, put(top, 'v1 p 0 1\n', 'X2 p q used')).fast).toBeUndefined();
     // an element of a letter with no node count of its own names its nets at once: not this path
     expect(quick(top, put(top, 'X1 p q used\n', 'B1 a')).fast).toBeUndefined();
   });

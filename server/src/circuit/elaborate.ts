@@ -216,6 +216,16 @@ export class NetSlots {
   }
 }
 
+/** The device rules in the order the elaborator tries them: the directives', the settings', the defaults. */
+export function deviceRuleList(directives: DirectiveSet, options: EngineOptions): Array<{ re: RegExp; kind: DeviceKind }> {
+  return [...directives.devices.map((r) => ({ re: globToRegExp(r.pattern), kind: r.kind })), ...(options.deviceRules ?? []).map((r) => ({ re: globToRegExp(r.pattern), kind: r.kind })), ...DEFAULT_DEVICE_RULES];
+}
+
+/** What the elaborator says of an instance of a cell nobody defines and no device rule maps. */
+export function unknownSubcktFinding(file: string, subckt: WordItem): Diagnostic {
+  return diag('unknown-subckt', file, subckt.range, `subcircuit '${subckt.text}' is not defined, and no device rule maps it to a transistor`);
+}
+
 function globToRegExp(glob: string): RegExp {
   return new RegExp('^' + glob.replace(/[.+^${}()|[\]\\]/g, '\\$&').replace(/\*/g, '.*').replace(/\?/g, '.') + '$', 'i');
 }
@@ -466,9 +476,7 @@ class Elaborator {
     const deck = this.deck;
     // Directives anywhere in the deck apply to the whole design.
     readDeckDirectives(deck, this.directives, this.diagnostics);
-    for (const r of this.directives.devices) this.deviceRules.push({ re: globToRegExp(r.pattern), kind: r.kind });
-    for (const r of this.options.deviceRules ?? []) this.deviceRules.push({ re: globToRegExp(r.pattern), kind: r.kind });
-    this.deviceRules.push(...DEFAULT_DEVICE_RULES);
+    this.deviceRules.push(...deviceRuleList(this.directives, this.options));
 
     for (const g of deckGlobals(deck)) this.globals.add(g);
 
@@ -784,7 +792,7 @@ class Elaborator {
             return this.mosValues(el, name, s.params, scope, k === 'nmos' ? 'n' : 'p');
           }
           if (k === 'short' || k === 'resistor' || k === 'capacitor' || k === 'diode') return { kind: 'value', value: k === 'short' ? 0 : undefined };
-          this.report(diag('unknown-subckt', el.file, s.subckt!.range, `subcircuit '${s.subckt!.text}' is not defined, and no device rule maps it to a transistor`));
+          this.report(unknownSubcktFinding(el.file, s.subckt!));
           return { kind: 'none' };
         }
         if (defStack.includes(target)) {

@@ -1,5 +1,6 @@
 // The elaboration stage's answer to a line being typed: an element line the elaborator leaves
-// out (too few nodes, no model yet, not an element name), a directive that reads to nothing yet
+// out (too few nodes, no model yet, not an element name), an instance at the top level whose
+// cell name is not complete yet (on nets already used), a directive that reads to nothing yet
 // (an unknown verb, a clock with no period) or a line the parser cannot read yet, put in,
 // changed or taken out at one place. Such a line adds no element and no net name, so
 // the design stands (moved by the edit's line count after it); only the front end's findings on
@@ -10,12 +11,13 @@
 import type { Diagnostic } from '../core/diagnostics';
 import type { EngineOptions } from '../core/options';
 import { startLineOf } from '../core/source';
-import type { DirectiveLine, Statement, SyntaxFile } from '../syntax/tree';
+import type { DirectiveLine, Statement, SyntaxFile, WordItem } from '../syntax/tree';
 import { sameRange } from '../syntax/compare';
 import type { Design } from './circuit';
 import type { Deck, SubcktDefinition } from './deck';
 import { emptyDirectives, readDirectives } from './directives';
-import { elementNodeWords, scaleGuessLengths, skippedLineFindings, topIsElaborated } from './elaborate';
+import { deckGlobals, deviceRuleList, elementNodeWords, scaleGuessLengths, skippedLineFindings, topIsElaborated, unknownSubcktFinding } from './elaborate';
+import { interpretElement } from './elements';
 import { oneChangedFile, sharedEnds, shiftDiagnostics, type LineShift } from './splice';
 
 export interface InertEdit {
@@ -53,14 +55,17 @@ export function inertEdit(previousDeck: Deck, previous: Design, deck: Deck, prev
   }
   const removed = xs.slice(p, xs.length - s);
   const added = ys.slice(p, ys.length - s);
-  if (!removed.every(leftOut) || !added.every(leftOut)) return undefined;
-  // a length on a line left out still counts in the guess of the geometry scale
-  const guessed = previous.geometryScale.from === 'assumed' || previous.geometryScale.from === 'default';
-  if (guessed && [...removed, ...added].some((st) => scaleGuessLengths(st).length > 0)) return undefined;
   // the edited lines: between the statements kept before and after (line 0, which holds the
   // title and file-wide notes, never among them)
   const from = p > 0 ? xs[p - 1]!.range.end.line + 1 : x.title !== undefined ? 1 : 0;
   if (from === 0) return undefined;
+  // each edited statement left out, or an instance the elaborator expands to nothing
+  const rules = deviceRuleList(previous.directives, options);
+  const unexpanded = (dk: Deck, st: Statement) => unexpandedInstance(st, dk, previous, x.file, from, rules, options);
+  if (!removed.every((st) => leftOut(st) || unexpanded(previousDeck, st)) || !added.every((st) => leftOut(st) || unexpanded(deck, st))) return undefined;
+  // a length on a line left out still counts in the guess of the geometry scale
+  const guessed = previous.geometryScale.from === 'assumed' || previous.geometryScale.from === 'default';
+  if (guessed && [...removed, ...added].some((st) => scaleGuessLengths(st).length > 0)) return undefined;
   const oldEnd = s > 0 ? startLineOf(xs[xs.length - s]!.range) : x.lineCount;
   const newEnd = s > 0 ? startLineOf(ys[ys.length - s]!.range) : y.lineCount;
   if (newEnd - oldEnd !== d || oldEnd < from) return undefined;
@@ -92,7 +97,9 @@ export function inertEdit(previousDeck: Deck, previous: Design, deck: Deck, prev
     const scope = scopeOf(deck, st);
     if (scope === undefined) return undefined;
     const read = scope === null ? topIsElaborated(deck, options) : built.has(scope);
-    if (read) said.push(...skippedLineFindings(x.file, st));
+    if (!read) continue;
+    if (leftOut(st)) said.push(...skippedLineFindings(x.file, st));
+    else said.push(unknownSubcktFinding(x.file, (interpretElement(st) as { subckt: WordItem }).subckt));
   }
   // the elaborator reads the directives of the top level and of every definition it keeps
   const reachable = new Set<DirectiveLine>(deck.directives.map((l) => l.item));
@@ -109,6 +116,31 @@ export function inertEdit(previousDeck: Deck, previous: Design, deck: Deck, prev
   }
   const kept = previousFrontEnd.filter((f) => !inOld(f.file, f.range.start.line));
   return { shift, frontEnd: [...shiftDiagnostics(kept, shift), ...newParse, ...said] };
+}
+
+/**
+ * An instance line at the top level that the elaborator expands to nothing: of a cell nobody
+ * defines and no device rule maps (as while its cell's name is typed), on nets the top level
+ * used before the edited lines (`from`) or global ones, so it names no net of its own and moves
+ * no net's first use. Its one finding: `unknownSubcktFinding`.
+ */
+function unexpandedInstance(st: Statement, deck: Deck, design: Design, file: string, from: number, rules: ReadonlyArray<{ re: RegExp }>, options: EngineOptions): boolean {
+  const read = elementNodeWords(st);
+  if (read.skipped !== undefined || read.syntax.kind !== 'instance' || !read.syntax.subckt) return false;
+  const name = read.syntax.subckt.text.toLowerCase();
+  if (deck.subckts.has(name) || rules.some((r) => r.re.test(name))) return false;
+  if (scopeOf(deck, st) !== null || !topIsElaborated(deck, options)) return false;
+  const top = design.circuits.find((c) => !c.standalone);
+  if (!top) return false;
+  const globals = deckGlobals(deck);
+  for (const w of read.nodes) {
+    const n = w.text.toLowerCase();
+    if (globals.has(n)) continue;
+    const id = top.netByName.get(n);
+    const origin = id === undefined ? undefined : top.nets[id]!.origin;
+    if (!origin || origin.subckt !== null || origin.file !== file || startLineOf(origin.range) >= from) return false;
+  }
+  return true;
 }
 
 /**
