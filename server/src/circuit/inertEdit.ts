@@ -1,6 +1,6 @@
 // The elaboration stage's answer to a line being typed: an element line the elaborator leaves
-// out (too few nodes, no model yet, not an element name), an instance at the top level whose
-// cell name is not complete yet (on nets already used), a directive that reads to nothing yet
+// out (too few nodes, no model yet, not an element name), an instance whose cell name is not
+// complete yet (on nets already used), a directive that reads to nothing yet
 // (an unknown verb, a clock with no period) or a line the parser cannot read yet, put in,
 // changed or taken out at one place. Such a line adds no element and no net name, so
 // the design stands (moved by the edit's line count after it); only the front end's findings on
@@ -13,7 +13,7 @@ import type { EngineOptions } from '../core/options';
 import { startLineOf } from '../core/source';
 import type { DirectiveLine, Statement, SyntaxFile, WordItem } from '../syntax/tree';
 import { sameRange } from '../syntax/compare';
-import type { Design } from './circuit';
+import type { Design, Origin } from './circuit';
 import type { Deck, SubcktDefinition } from './deck';
 import { emptyDirectives, readDirectives } from './directives';
 import { deckGlobals, deviceRuleList, elementNodeWords, scaleGuessLengths, skippedLineFindings, topIsElaborated, unknownSubcktFinding } from './elaborate';
@@ -119,28 +119,41 @@ export function inertEdit(previousDeck: Deck, previous: Design, deck: Deck, prev
 }
 
 /**
- * An instance line at the top level that the elaborator expands to nothing: of a cell nobody
- * defines and no device rule maps (as while its cell's name is typed), on nets the top level
- * used before the edited lines (`from`) or global ones, so it names no net of its own and moves
- * no net's first use. Its one finding: `unknownSubcktFinding`.
+ * An instance line that the elaborator expands to nothing: of a cell nobody defines and no device
+ * rule maps (as while its cell's name is typed), at the top level when it is a circuit or in a
+ * built top-level definition (none nested anywhere: a cell name could resolve through an outer
+ * one), on nets its scope used above the edited lines (`from`) or global ones, so it names no
+ * net and moves no net's first use. Its one finding: `unknownSubcktFinding`.
  */
 function unexpandedInstance(st: Statement, deck: Deck, design: Design, file: string, from: number, rules: ReadonlyArray<{ re: RegExp }>, options: EngineOptions): boolean {
   const read = elementNodeWords(st);
   if (read.skipped !== undefined || read.syntax.kind !== 'instance' || !read.syntax.subckt) return false;
   const name = read.syntax.subckt.text.toLowerCase();
   if (deck.subckts.has(name) || rules.some((r) => r.re.test(name))) return false;
-  if (scopeOf(deck, st) !== null || !topIsElaborated(deck, options)) return false;
-  const top = design.circuits.find((c) => !c.standalone);
-  if (!top) return false;
+  const scope = scopeOf(deck, st);
+  if (scope === undefined) return false;
+  if (scope === null ? !topIsElaborated(deck, options) : !builtScopes(design).has(scope) || [...deck.subckts.values()].some((d) => d.local.size > 0)) return false;
+  const firstUse = namesUsed(design, scope);
   const globals = deckGlobals(deck);
+  // a cell's ports are its first names (bound to the instance's nets, they are not its own)
+  const ports = new Set(scope === null ? [] : deck.subckts.get(scope)!.ports);
   for (const w of read.nodes) {
     const n = w.text.toLowerCase();
-    if (globals.has(n)) continue;
-    const id = top.netByName.get(n);
-    const origin = id === undefined ? undefined : top.nets[id]!.origin;
-    if (!origin || origin.subckt !== null || origin.file !== file || startLineOf(origin.range) >= from) return false;
+    if (globals.has(n) || ports.has(n)) continue;
+    const origin = firstUse.get(n);
+    if (!origin || origin.file !== file || startLineOf(origin.range) >= from) return false;
   }
   return true;
+}
+
+/** The names a scope's nets were first used by (null: the top level), with where. */
+function namesUsed(design: Design, scope: string | null): Map<string, Origin> {
+  const out = new Map<string, Origin>();
+  for (const c of design.circuits) {
+    if (scope === null && c.standalone) continue;
+    for (const net of c.nets) if (!net.global && net.origin.subckt === scope && !out.has(net.origin.local)) out.set(net.origin.local, net.origin);
+  }
+  return out;
 }
 
 /**
