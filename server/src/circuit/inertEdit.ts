@@ -2,22 +2,22 @@
 // out (too few nodes, no model yet, not an element name), an instance whose cell name is not
 // complete yet (on nets already used), a directive that reads to nothing yet
 // (an unknown verb, a clock with no period) or a line the parser cannot read yet, put in,
-// changed or taken out at one place. Such a line adds no element and no net name, so
-// the design stands (moved by the edit's line count after it); only the front end's findings on
-// the edited lines change: the parser's, and the elaborator's for the lines it leaves out, said
-// as the elaborator says them (`skippedLineFindings`) where it reads the line at all. Anything
-// else in the edit answers `undefined` and goes to the other paths.
+// changed or taken out at one place. Such a line adds no element, no net name and no
+// directive, so the design stands (moved by the edit's line count after it); only the front
+// end's findings on the edited lines change: the parser's, and the elaborator's, said with the
+// elaborator's own code (`skippedLineFindings`, `unknownSubcktFinding`, `readDirectives`) where
+// it reads the line at all. Anything else in the edit answers `undefined` and goes to the other
+// paths.
 
 import type { Diagnostic } from '../core/diagnostics';
 import type { EngineOptions } from '../core/options';
 import { startLineOf } from '../core/source';
-import type { DirectiveLine, Statement, SyntaxFile, WordItem } from '../syntax/tree';
+import type { DirectiveLine, Statement, SyntaxFile } from '../syntax/tree';
 import { sameRange } from '../syntax/compare';
 import type { Design, Origin } from './circuit';
 import type { Deck, SubcktDefinition } from './deck';
 import { emptyDirectives, readDirectives } from './directives';
 import { deckGlobals, deviceRuleList, elementNodeWords, scaleGuessLengths, skippedLineFindings, topIsElaborated, unknownSubcktFinding } from './elaborate';
-import { interpretElement } from './elements';
 import { oneChangedFile, sharedEnds, shiftDiagnostics, type LineShift } from './splice';
 
 export interface InertEdit {
@@ -98,8 +98,9 @@ export function inertEdit(previousDeck: Deck, previous: Design, deck: Deck, prev
     if (scope === undefined) return undefined;
     const read = scope === null ? topIsElaborated(deck, options) : built.has(scope);
     if (!read) continue;
-    if (leftOut(st)) said.push(...skippedLineFindings(x.file, st));
-    else said.push(unknownSubcktFinding(x.file, (interpretElement(st) as { subckt: WordItem }).subckt));
+    const words = elementNodeWords(st);
+    if (words.skipped !== undefined) said.push(...skippedLineFindings(x.file, st, words));
+    else if (words.syntax.kind === 'instance' && words.syntax.subckt) said.push(unknownSubcktFinding(x.file, words.syntax.subckt));
   }
   // the elaborator reads the directives of the top level and of every definition it keeps
   const reachable = new Set<DirectiveLine>(deck.directives.map((l) => l.item));
