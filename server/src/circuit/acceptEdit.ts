@@ -7,7 +7,7 @@
 import type { Diagnostic } from '../core/diagnostics';
 import { startLineOf } from '../core/source';
 import type { DirectiveLine, SyntaxFile } from '../syntax/tree';
-import { sameRange, sameStatement } from '../syntax/compare';
+import { sameDirectiveLine, sameStatement } from '../syntax/compare';
 import type { Design } from './circuit';
 import type { Deck } from './deck';
 import { emptyDirectives, readDeckDirectives } from './directives';
@@ -84,8 +84,7 @@ function movedLines(previousDeck: Deck, deck: Deck, x: SyntaxFile, y: SyntaxFile
     const u = xd[k]!;
     const v = yd[k]!;
     const by = v.range.start.line - u.range.start.line;
-    if (u.verb !== v.verb || u.statementIndex !== v.statementIndex || u.args.length !== v.args.length || !sameRange(u.range, v.range, by)) return undefined;
-    for (let j = 0; j < u.args.length; j++) if (u.args[j]!.text !== v.args[j]!.text || !sameRange(u.args[j]!.range, v.args[j]!.range, by)) return undefined;
+    if (u.statementIndex !== v.statementIndex || !sameDirectiveLine(u, v, by)) return undefined;
     pairs.push([u.range.start.line, by]);
   }
   for (let k = 0; k < x.pinInfos.length; k++) {

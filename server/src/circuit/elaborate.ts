@@ -271,7 +271,6 @@ export function guessMicronScale(deck: Deck): { median: number; first: { file: s
   return runToEnd(guessMicronScaleSteps(deck));
 }
 
-/** `guessMicronScale` in slices (a flat netlist has a line per device). */
 /**
  * The lengths a line gives the guess of the geometry scale: every `l=` written as a plain number
  * on a MOSFET or instance line, read or not as an element (a line left out counts too).
@@ -289,6 +288,7 @@ export function scaleGuessLengths(stmt: Statement): Array<{ value: number; range
   return out;
 }
 
+/** `guessMicronScale` in slices (a flat netlist has a line per device). */
 function* guessMicronScaleSteps(deck: Deck): Steps<{ median: number; first: { file: string; range: Range } } | undefined> {
   const lengths: number[] = [];
   let first: { file: string; range: Range } | undefined;

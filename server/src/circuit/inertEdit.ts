@@ -13,7 +13,7 @@ import type { Diagnostic } from '../core/diagnostics';
 import type { EngineOptions } from '../core/options';
 import { startLineOf } from '../core/source';
 import type { DirectiveLine, Statement, SyntaxFile } from '../syntax/tree';
-import { sameRange } from '../syntax/compare';
+import { sameDirectiveLine, samePinLine } from '../syntax/compare';
 import type { Design, Origin } from './circuit';
 import type { Deck, SubcktDefinition } from './deck';
 import { emptyDirectives, readDirectives } from './directives';
@@ -59,10 +59,17 @@ export function inertEdit(previousDeck: Deck, previous: Design, deck: Deck, prev
   // title and file-wide notes, never among them)
   const from = p > 0 ? xs[p - 1]!.range.end.line + 1 : x.title !== undefined ? 1 : 0;
   if (from === 0) return undefined;
+  // the elaborator must read the same scopes as before (a line at the top level can make it a
+  // circuit of its own): the top level when it is a circuit, and the definitions it built
+  const topRead = topIsElaborated(deck, options);
+  if (topIsElaborated(previousDeck, options) !== topRead) return undefined;
+  const built = builtScopes(previous);
   // each edited statement left out, or an instance the elaborator expands to nothing
   const rules = deviceRuleList(previous.directives, options);
-  const unexpanded = (dk: Deck, st: Statement) => unexpandedInstance(st, dk, previous, x.file, from, rules, options);
-  if (!removed.every((st) => leftOut(st) || unexpanded(previousDeck, st)) || !added.every((st) => leftOut(st) || unexpanded(deck, st))) return undefined;
+  const unexpanded = (dk: Deck, st: Statement, scope: string | null | undefined) => unexpandedInstance(st, scope, dk, previous, built, topRead, x.file, from, rules);
+  if (!removed.every((st) => leftOut(st) || unexpanded(previousDeck, st, scopeOf(previousDeck, st)))) return undefined;
+  const addedScopes = added.map((st) => scopeOf(deck, st));
+  if (!added.every((st, k) => leftOut(st) || unexpanded(deck, st, addedScopes[k]))) return undefined;
   // a length on a line left out still counts in the guess of the geometry scale
   const guessed = previous.geometryScale.from === 'assumed' || previous.geometryScale.from === 'default';
   if (guessed && [...removed, ...added].some((st) => scaleGuessLengths(st).length > 0)) return undefined;
@@ -87,17 +94,12 @@ export function inertEdit(previousDeck: Deck, previous: Design, deck: Deck, prev
   const newParse = deck.diagnostics.filter((f) => inNew(f.file, f.range.start.line));
   const otherParse = deck.diagnostics.filter((f) => !inNew(f.file, f.range.start.line));
   if (JSON.stringify(shiftDiagnostics(keptParse, shift)) !== JSON.stringify(otherParse)) return undefined;
-  // the lines the elaborator reads (a definition it builds, the top level when it has one) say
-  // their findings; it must read the same scopes as before (a line at the top level can make it
-  // a circuit of its own)
-  if (topIsElaborated(previousDeck, options) !== topIsElaborated(deck, options)) return undefined;
-  const built = builtScopes(previous);
+  // the lines the elaborator reads say their findings
   const said: Diagnostic[] = [];
-  for (const st of added) {
-    const scope = scopeOf(deck, st);
+  for (const [k, st] of added.entries()) {
+    const scope = addedScopes[k];
     if (scope === undefined) return undefined;
-    const read = scope === null ? topIsElaborated(deck, options) : built.has(scope);
-    if (!read) continue;
+    if (scope === null ? !topRead : !built.has(scope)) continue;
     const words = elementNodeWords(st);
     if (words.skipped !== undefined) said.push(...skippedLineFindings(x.file, st, words));
     else if (words.syntax.kind === 'instance' && words.syntax.subckt) said.push(unknownSubcktFinding(x.file, words.syntax.subckt));
@@ -126,14 +128,13 @@ export function inertEdit(previousDeck: Deck, previous: Design, deck: Deck, prev
  * one), on nets its scope used above the edited lines (`from`) or global ones, so it names no
  * net and moves no net's first use. Its one finding: `unknownSubcktFinding`.
  */
-function unexpandedInstance(st: Statement, deck: Deck, design: Design, file: string, from: number, rules: ReadonlyArray<{ re: RegExp }>, options: EngineOptions): boolean {
+function unexpandedInstance(st: Statement, scope: string | null | undefined, deck: Deck, design: Design, built: ReadonlySet<string>, topRead: boolean, file: string, from: number, rules: ReadonlyArray<{ re: RegExp }>): boolean {
   const read = elementNodeWords(st);
   if (read.skipped !== undefined || read.syntax.kind !== 'instance' || !read.syntax.subckt) return false;
   const name = read.syntax.subckt.text.toLowerCase();
   if (deck.subckts.has(name) || rules.some((r) => r.re.test(name))) return false;
-  const scope = scopeOf(deck, st);
   if (scope === undefined) return false;
-  if (scope === null ? !topIsElaborated(deck, options) : !builtScopes(design).has(scope) || [...deck.subckts.values()].some((d) => d.local.size > 0)) return false;
+  if (scope === null ? !topRead : !built.has(scope) || [...deck.subckts.values()].some((d) => d.local.size > 0)) return false;
   const firstUse = namesUsed(design, scope);
   const globals = deckGlobals(deck);
   // a cell's ports are its first names (bound to the instance's nets, they are not its own)
@@ -217,15 +218,13 @@ function sameSpecialLines(x: SyntaxFile, y: SyntaxFile, from: number, oldEnd: nu
     const u = xd[i]!;
     const v = yd[i]!;
     const k = by(u.range.start.line);
-    if (k === undefined || u.verb !== v.verb || u.args.length !== v.args.length || !placed(u.statementIndex, v.statementIndex) || !sameRange(u.range, v.range, k)) return false;
-    for (let j = 0; j < u.args.length; j++) if (u.args[j]!.text !== v.args[j]!.text || !sameRange(u.args[j]!.range, v.args[j]!.range, k)) return false;
+    if (k === undefined || !placed(u.statementIndex, v.statementIndex) || !sameDirectiveLine(u, v, k)) return false;
   }
   for (let i = 0; i < x.pinInfos.length; i++) {
     const u = x.pinInfos[i]!;
     const v = y.pinInfos[i]!;
     const k = by(u.range.start.line);
-    if (k === undefined || u.pins.length !== v.pins.length || !placed(u.statementIndex, v.statementIndex) || !sameRange(u.range, v.range, k)) return false;
-    for (let j = 0; j < u.pins.length; j++) if (u.pins[j]!.name !== v.pins[j]!.name || u.pins[j]!.direction !== v.pins[j]!.direction || !sameRange(u.pins[j]!.range, v.pins[j]!.range, k)) return false;
+    if (k === undefined || !placed(u.statementIndex, v.statementIndex) || !samePinLine(u, v, k)) return false;
   }
   return true;
 }

@@ -25,7 +25,7 @@ import { contextPrefixes, netSlotsOf, sameSlots } from './rewire';
 import { originIndex, setOriginIndex } from './elementIndex';
 import { insertedSlots, namedNets, widenCircuit } from './newNets';
 import type { EngineOptions } from '../core/options';
-import { sameRange, sameStatement } from '../syntax/compare';
+import { sameDirectiveLine, samePinLine, sameRange, sameStatement } from '../syntax/compare';
 import type { Statement, SyntaxFile } from '../syntax/tree';
 
 /** How one circuit's MOSFET list changed. */
@@ -322,16 +322,12 @@ function diffFiles(a: readonly SyntaxFile[], b: readonly SyntaxFile[]): { file: 
   for (let i = 0; i < x.directives.length; i++) {
     const u = x.directives[i]!;
     const v = y.directives[i]!;
-    if (u.verb !== v.verb || u.args.length !== v.args.length || !placed(u.statementIndex, v.statementIndex) || !note(u.range, v.range)) return undefined;
-    const by = v.range.start.line - u.range.start.line;
-    for (let k = 0; k < u.args.length; k++) if (u.args[k]!.text !== v.args[k]!.text || !sameRange(u.args[k]!.range, v.args[k]!.range, by)) return undefined;
+    if (!placed(u.statementIndex, v.statementIndex) || !note(u.range, v.range) || !sameDirectiveLine(u, v, v.range.start.line - u.range.start.line)) return undefined;
   }
   for (let i = 0; i < x.pinInfos.length; i++) {
     const u = x.pinInfos[i]!;
     const v = y.pinInfos[i]!;
-    if (u.pins.length !== v.pins.length || !placed(u.statementIndex, v.statementIndex) || !note(u.range, v.range)) return undefined;
-    const by = v.range.start.line - u.range.start.line;
-    for (let k = 0; k < u.pins.length; k++) if (u.pins[k]!.name !== v.pins[k]!.name || u.pins[k]!.direction !== v.pins[k]!.direction || !sameRange(u.pins[k]!.range, v.pins[k]!.range, by)) return undefined;
+    if (!placed(u.statementIndex, v.statementIndex) || !note(u.range, v.range) || !samePinLine(u, v, v.range.start.line - u.range.start.line)) return undefined;
   }
   for (let i = 0; i < x.diagnostics.length; i++) {
     const u = x.diagnostics[i]!;

@@ -9,7 +9,7 @@ import type { Diagnostic, RelatedInfo } from '../core/diagnostics';
 import { rangeOf, type Range } from '../core/source';
 import type { Deck } from '../circuit/deck';
 import type { SyntaxFile } from '../syntax/tree';
-import { sameRange, sameStatement } from '../syntax/compare';
+import { sameDirectiveLine, samePinLine, sameRange, sameStatement } from '../syntax/compare';
 import { sharedRuns } from '../syntax/parser';
 
 /** Old first line -> line shift, for every meaningful line of one file. */
@@ -112,16 +112,14 @@ function fileMap(a: SyntaxFile, b: SyntaxFile): LineMap | undefined {
     const x = a.directives[i]!;
     const y = b.directives[i]!;
     const shift = y.range.start.line - x.range.start.line;
-    if (x.verb !== y.verb || x.statementIndex !== y.statementIndex || x.args.length !== y.args.length || !sameRange(x.range, y.range, shift)) return undefined;
-    for (let k = 0; k < x.args.length; k++) if (x.args[k]!.text !== y.args[k]!.text || !sameRange(x.args[k]!.range, y.args[k]!.range, shift)) return undefined;
+    if (x.statementIndex !== y.statementIndex || !sameDirectiveLine(x, y, shift)) return undefined;
     if (!place(x, shift)) return undefined;
   }
   for (let i = 0; i < a.pinInfos.length; i++) {
     const x = a.pinInfos[i]!;
     const y = b.pinInfos[i]!;
     const shift = y.range.start.line - x.range.start.line;
-    if (x.statementIndex !== y.statementIndex || x.pins.length !== y.pins.length || !sameRange(x.range, y.range, shift)) return undefined;
-    for (let k = 0; k < x.pins.length; k++) if (x.pins[k]!.name !== y.pins[k]!.name || x.pins[k]!.direction !== y.pins[k]!.direction || !sameRange(x.pins[k]!.range, y.pins[k]!.range, shift)) return undefined;
+    if (x.statementIndex !== y.statementIndex || !samePinLine(x, y, shift)) return undefined;
     if (!place(x, shift)) return undefined;
   }
   if (others.length) {

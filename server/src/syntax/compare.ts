@@ -2,12 +2,26 @@
 // lines. Used by the editor's carry-over of findings and by the size-edit patch.
 
 import type { Range } from '../core/source';
-import type { Item, Statement, SyntaxFile } from './tree';
+import type { DirectiveLine, Item, PinInfoLine, Statement, SyntaxFile } from './tree';
 import { movedLinesBetween } from './parser';
 
 /** Same position after moving `lineShift` lines down (characters unchanged). */
 export function sameRange(x: Range, y: Range, lineShift: number): boolean {
   return x.start.line + lineShift === y.start.line && x.end.line + lineShift === y.end.line && x.start.character === y.start.character && x.end.character === y.end.character;
+}
+
+/** Two directive lines alike: the same verb and words where they were, moved `lineShift` lines. */
+export function sameDirectiveLine(x: DirectiveLine, y: DirectiveLine, lineShift: number): boolean {
+  if (x.verb !== y.verb || x.args.length !== y.args.length || !sameRange(x.range, y.range, lineShift)) return false;
+  for (let k = 0; k < x.args.length; k++) if (x.args[k]!.text !== y.args[k]!.text || !sameRange(x.args[k]!.range, y.args[k]!.range, lineShift)) return false;
+  return true;
+}
+
+/** Two `*.PININFO` lines alike: the same pins and directions where they were, moved `lineShift` lines. */
+export function samePinLine(x: PinInfoLine, y: PinInfoLine, lineShift: number): boolean {
+  if (x.pins.length !== y.pins.length || !sameRange(x.range, y.range, lineShift)) return false;
+  for (let k = 0; k < x.pins.length; k++) if (x.pins[k]!.name !== y.pins[k]!.name || x.pins[k]!.direction !== y.pins[k]!.direction || !sameRange(x.pins[k]!.range, y.pins[k]!.range, lineShift)) return false;
+  return true;
 }
 
 /** The same item, word for word, at the same place moved by `lineShift` lines. */
